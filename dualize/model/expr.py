@@ -109,9 +109,10 @@ class Symbol(Expr):
 
 @dataclass(frozen=True)
 class Number(Expr):
-    """An exact rational constant (a scalar)."""
+    """An exact scalar constant: a rational, or a polynomial in dimension symbols
+    (``1' * 1`` over R^n is the number n)."""
 
-    value: sympy.Rational
+    value: sympy.Expr
     span: Span | None = _span()
 
     @property
