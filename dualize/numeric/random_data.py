@@ -1,0 +1,226 @@
+"""Random instances that honour every declared set and, where the structure
+allows, make the primal strictly feasible.
+
+The feasibility rule, in full:
+
+1. Every dimension symbol not given is drawn uniformly from 3..6.
+2. Every data value is drawn in its declared set: R_++ entries from
+   [0.5, 2], R_+ entries from [0.1, 2], S^n as (B + B')/2, S^n_+ and S^n_++ as a
+   random Gram matrix G G'/n plus 0.1 I; anything else standard normal.
+3. A point x0 is drawn strictly inside each variable's domain: entries of free,
+   R_+ and R_++ variables from [0.25, 1] (positive, so that sign constraints
+   written as constraints, ``x >= 0``, hold strictly too), boxes in the middle
+   half of [lo, hi], integers from {0, 1, 2}, binaries from {0, 1}, matrix
+   variables in S^n (any of S^n, S^n_+, S^n_++) as a Gram matrix plus I.
+4. A constraint with a data symbol alone on one side (``A*x == b``,
+   ``G*x <= h``, ``||x|| <= r``, ``alpha <= C`` with C broadcast) whose symbol
+   occurs in no other constraint, not on the other side and not in a domain
+   bound, gets that data reset to the other side at x0: equal for an
+   equality, plus a positive slack from [0.1, 1] (times I for a matrix
+   inequality) where the data is the upper side, minus one where it is the
+   lower side.  An upper side pushed out of its set is raised back into it
+   (which keeps x0 strictly feasible).  When a lower or equal side falls
+   outside its set, x0 is redrawn (up to 20 times); if that never works the
+   data keeps its step-2 value and feasibility is not promised.
+
+Constraints without such a data symbol are left as they are: the primal is
+then feasible only if x0 (or some other point) happens to satisfy them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from dualize.model import expr as ir
+from dualize.model.problem import Constraint, Problem, Variable
+from dualize.numeric.evaluate import evaluate, shape_of
+from dualize.numeric.instance import Instance, set_violation
+
+ATTEMPTS = 20
+
+
+@dataclass(frozen=True)
+class Target:
+    """A data symbol alone on one side of a constraint: ``side`` is upper|lower|equal."""
+
+    name: str
+    other: ir.Expr
+    side: str
+    broadcast: bool
+    psd: bool = False
+
+
+def random_instance(problem: Problem, dims: dict[str, int] | None = None,
+                    seed: int = 0) -> Instance:
+    """A random instance of ``problem`` (see the module docstring for the rule)."""
+    rng = np.random.default_rng(seed)
+    sizes = draw_dims(problem, dims or {}, rng)
+    values = {d.name: draw_value(d.symbol, sizes, rng) for d in problem.data}
+    targets = find_targets(problem)
+    for _ in range(ATTEMPTS):
+        point = draw_point(problem, values, sizes, rng)
+        fixed = _apply_targets(problem, targets, values, point, sizes, rng)
+        if fixed is not None:
+            values = fixed
+            break
+    return Instance(dict(sorted(values.items())), sizes, f"random(seed={seed})")
+
+
+def draw_dims(problem: Problem, given: dict[str, int],
+              rng: np.random.Generator) -> dict[str, int]:
+    out = {}
+    for dim in problem.dims:
+        out[dim.name] = int(given[dim.name]) if dim.name in given else int(rng.integers(3, 7))
+    return dict(sorted(out.items()))
+
+
+def draw_value(symbol: ir.Symbol, dims: dict[str, int],
+               rng: np.random.Generator) -> np.ndarray | float:
+    """A value of ``symbol``'s shape inside the set its facts describe."""
+    rows, cols = shape_of(symbol.sym_shape, dims)
+    facts = symbol.facts
+    if facts & {"psd", "pd"}:
+        return _gram(rows, rng, 0.1)
+    if "symmetric" in facts:
+        b = rng.normal(size=(rows, rows))
+        return (b + b.T) / 2
+    if "binary" in facts:
+        arr = rng.integers(0, 2, size=(rows, cols)).astype(float)
+    elif "integer" in facts:
+        arr = rng.integers(-3, 4, size=(rows, cols)).astype(float)
+    elif "pos" in facts:
+        arr = rng.uniform(0.5, 2.0, size=(rows, cols))
+    elif "nonneg" in facts:
+        arr = rng.uniform(0.1, 2.0, size=(rows, cols))
+    else:
+        arr = rng.normal(size=(rows, cols))
+    return _stored(arr)
+
+
+def _gram(n: int, rng: np.random.Generator, shift: float) -> np.ndarray:
+    g = rng.normal(size=(n, n))
+    return g @ g.T / n + shift * np.eye(n)
+
+
+def _stored(arr: np.ndarray) -> np.ndarray | float:
+    """Scalars as floats, column vectors 1-D, matrices 2-D (the Instance form)."""
+    if arr.size == 1 and arr.ndim == 2 and arr.shape == (1, 1):
+        return float(arr[0, 0])
+    if arr.ndim == 2 and arr.shape[1] == 1:
+        return arr[:, 0].copy()
+    return arr
+
+
+def draw_point(problem: Problem, values: dict[str, np.ndarray | float], dims: dict[str, int],
+               rng: np.random.Generator) -> dict[str, np.ndarray | float]:
+    """A point strictly inside every variable's domain."""
+    return {v.name: _draw_in_domain(v, values, dims, rng) for v in problem.variables}
+
+
+def _draw_in_domain(var: Variable, values: dict[str, np.ndarray | float],
+                    dims: dict[str, int], rng: np.random.Generator) -> np.ndarray | float:
+    rows, cols = shape_of(var.symbol.sym_shape, dims)
+    kind = var.domain.kind
+    if kind in ("symmetric", "psd", "pd"):
+        return _gram(rows, rng, 1.0)
+    if kind == "binary":
+        return _stored(rng.integers(0, 2, size=(rows, cols)).astype(float))
+    if kind == "integer":
+        return _stored(rng.integers(0, 3, size=(rows, cols)).astype(float))
+    if kind == "box":
+        lo = float(evaluate(var.domain.lo, values, dims))
+        hi = float(evaluate(var.domain.hi, values, dims))
+        return _stored(lo + (hi - lo) * rng.uniform(0.25, 0.75, size=(rows, cols)))
+    return _stored(rng.uniform(0.25, 1.0, size=(rows, cols)))
+
+
+def find_targets(problem: Problem) -> tuple[Target | None, ...]:
+    """For each constraint, the data symbol the rule may reset, if any."""
+    bound_names = _domain_data(problem)
+    out: list[Target | None] = []
+    for index, con in enumerate(problem.constraints):
+        others = [c for i, c in enumerate(problem.constraints) if i != index]
+        out.append(_target_of(con, others, bound_names))
+    return tuple(out)
+
+
+def _domain_data(problem: Problem) -> frozenset[str]:
+    names: set[str] = set()
+    for var in problem.variables:
+        for bound in (var.domain.lo, var.domain.hi):
+            if bound is not None:
+                names.update(s.name for s in ir.symbols_of(bound))
+    return frozenset(names)
+
+
+def _lone_data(side: ir.Expr) -> tuple[str, bool] | None:
+    if isinstance(side, ir.Symbol) and side.role == "data":
+        return side.name, False
+    if isinstance(side, ir.Broadcast) and isinstance(side.arg, ir.Symbol) \
+            and side.arg.role == "data":
+        return side.arg.name, True
+    return None
+
+
+def _target_of(con: Constraint, others: list[Constraint],
+               bound_names: frozenset[str]) -> Target | None:
+    for data_side, other, upper_when in ((con.rhs, con.lhs, ("<=", "preceq")),
+                                         (con.lhs, con.rhs, (">=", "succeq"))):
+        lone = _lone_data(data_side)
+        if lone is None:
+            continue
+        name, broadcast = lone
+        used = ir.depends_on(other, {name}) or name in bound_names or any(
+            ir.depends_on(c.lhs, {name}) or ir.depends_on(c.rhs, {name}) for c in others)
+        if used or (broadcast and con.kind == "eq"):
+            continue
+        side = "equal" if con.kind == "eq" else (
+            "upper" if con.relation in upper_when else "lower")
+        return Target(name, other, side, broadcast, con.kind == "psd")
+    return None
+
+
+def _apply_targets(problem: Problem, targets: tuple[Target | None, ...],
+                   values: dict[str, np.ndarray | float], point: dict[str, np.ndarray | float],
+                   dims: dict[str, int], rng: np.random.Generator
+                   ) -> dict[str, np.ndarray | float] | None:
+    """The values with every target reset at ``point``, or None if a set is violated."""
+    out = dict(values)
+    facts = {d.name: d.symbol.facts for d in problem.data}
+    for target in targets:
+        if target is None:
+            continue
+        new = _target_value(target, {**values, **point}, dims, rng)
+        if set_violation(new, facts[target.name]):
+            if target.side != "upper":
+                return None
+            new = _raise_into_set(new, facts[target.name])
+        out[target.name] = new
+    return out
+
+
+def _target_value(target: Target, env: dict[str, np.ndarray | float], dims: dict[str, int],
+                  rng: np.random.Generator) -> np.ndarray | float:
+    other = np.atleast_2d(np.asarray(evaluate(target.other, env, dims), dtype=float))
+    if target.broadcast:
+        other = np.array([[other.max() if target.side == "upper" else other.min()]])
+    sign = {"upper": 1.0, "lower": -1.0, "equal": 0.0}[target.side]
+    if target.psd:
+        slack = float(rng.uniform(0.1, 1.0)) * np.eye(other.shape[0])
+    else:
+        slack = rng.uniform(0.1, 1.0, size=other.shape)
+    return _stored(other + sign * slack)
+
+
+def _raise_into_set(value: np.ndarray | float, facts: frozenset[str]) -> np.ndarray | float:
+    """A larger value (entrywise, or in the semidefinite order) inside the set."""
+    arr = np.asarray(value, dtype=float)
+    if facts & {"psd", "pd", "symmetric"} and arr.ndim == 2:
+        sym = (arr + arr.T) / 2
+        low = float(np.linalg.eigvalsh(sym)[0])
+        return sym + (max(0.0, -low) + 0.1) * np.eye(arr.shape[0])
+    floor = 0.1 if facts & {"pos", "nonneg"} else -np.inf
+    raised = np.maximum(arr, floor)
+    return float(raised) if raised.ndim == 0 else raised

@@ -1,0 +1,225 @@
+"""IR expressions as cvxpy expressions, for the independent numeric reference.
+
+cvxpy only accepts what its curvature rules can certify, so the building
+blocks the language recognises are mapped to the atoms that certify them:
+``x' * P * x`` with P data to ``quad_form``, ``||e||^2`` and ``e' * e`` to
+``sum_squares``, ``e .* log(e)`` to ``-entr(e)``, ``log(sum(exp(e)))`` to
+``log_sum_exp``.  Any subexpression free of variables is evaluated with numpy
+first (so inverses and pseudo-inverses of data are plain constants).  Every
+value is 2-D, as in the numpy evaluator; a node without a rule raises
+``TypeError``.  cvxpy is imported inside the functions, never at module load.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Mapping
+from typing import Any
+
+import numpy as np
+
+from dualize.model import expr as ir
+from dualize.numeric.evaluate import Dims, Values, evaluate_2d, size_of
+
+CvxExpr = Any
+
+
+class _Ctx:
+    """The translation context: cvxpy variables, data values, sizes."""
+
+    def __init__(self, variables: Mapping[str, CvxExpr], values: Values, dims: Dims) -> None:
+        import cvxpy as cp
+
+        self.cp = cp
+        self.variables = variables
+        self.values = values
+        self.dims = dims
+        self.names = frozenset(variables)
+
+    def __call__(self, expr: ir.Expr) -> CvxExpr:
+        return _translate(expr, self)
+
+    def varies(self, expr: ir.Expr) -> bool:
+        return ir.depends_on(expr, self.names)
+
+
+def to_cvxpy(expr: ir.Expr, variables: Mapping[str, CvxExpr], values: Values,
+             dims: Dims) -> CvxExpr:
+    """``expr`` as a cvxpy expression (2-D), with ``variables`` by name."""
+    return _Ctx(variables, values, dims)(expr)
+
+
+def scalar(e: CvxExpr) -> CvxExpr:
+    """A 1-by-1 cvxpy expression as a true scalar."""
+    import cvxpy as cp
+
+    e = cp.Constant(e) if isinstance(e, (np.ndarray, float, int)) else e
+    return e[0, 0] if e.shape == (1, 1) else e
+
+
+def _translate(expr: ir.Expr, ctx: _Ctx) -> CvxExpr:
+    if not ctx.varies(expr):
+        return ctx.cp.Constant(evaluate_2d(expr, ctx.values, ctx.dims))
+    for recognise in _RECOGNISERS:
+        hit = recognise(expr, ctx)
+        if hit is not None:
+            return hit
+    handler = _HANDLERS.get(type(expr))
+    if handler is None:
+        raise TypeError(f"to_cvxpy: no rule for IR node {type(expr).__name__}")
+    return handler(expr, ctx)
+
+
+def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    """u' P u with P data, or u' u: a quadratic form cvxpy can certify."""
+    if not isinstance(expr, ir.MatMul) or len(expr.factors) not in (2, 3):
+        return None
+    first, last = expr.factors[0], expr.factors[-1]
+    if not (isinstance(first, ir.Transpose) and first.arg == last and last.shape.cols == 1):
+        return None
+    u = ctx(last)
+    if len(expr.factors) == 2:
+        return _as_2d(ctx.cp, ctx.cp.sum_squares(u))
+    middle = expr.factors[1]
+    if ctx.varies(middle):
+        return None
+    p = evaluate_2d(middle, ctx.values, ctx.dims)
+    return _as_2d(ctx.cp, ctx.cp.quad_form(u, (p + p.T) / 2))
+
+
+def _squared_norm(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    if isinstance(expr, ir.Power) and expr.exponent == 2 and isinstance(expr.base, ir.Norm) \
+            and expr.base.p == "2":
+        return _as_2d(ctx.cp, ctx.cp.sum_squares(ctx(expr.base.arg)))
+    return None
+
+
+def _neg_entropy(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    """e .* log(e) (either order) is -entr(e), convex."""
+    if not isinstance(expr, ir.Hadamard):
+        return None
+    for a, b in ((expr.left, expr.right), (expr.right, expr.left)):
+        if isinstance(b, ir.Apply) and b.func == "log" and b.arg == a:
+            return -ctx.cp.entr(ctx(a))
+    return None
+
+
+def _log_sum_exp(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    if isinstance(expr, ir.Apply) and expr.func == "log" and isinstance(expr.arg, ir.SumAll) \
+            and isinstance(expr.arg.arg, ir.Apply) and expr.arg.arg.func == "exp":
+        return _as_2d(ctx.cp, ctx.cp.log_sum_exp(ctx(expr.arg.arg.arg)))
+    return None
+
+
+def _as_2d(cp: Any, e: CvxExpr) -> CvxExpr:
+    return cp.reshape(e, (1, 1), order="F") if e.shape == () else e
+
+
+_RECOGNISERS: tuple[Callable[[ir.Expr, _Ctx], CvxExpr | None], ...] = (
+    _quad_form, _squared_norm, _neg_entropy, _log_sum_exp,
+)
+
+
+def _symbol(e: ir.Symbol, ctx: _Ctx) -> CvxExpr:
+    return ctx.variables[e.name]
+
+
+def _matmul(e: ir.MatMul, ctx: _Ctx) -> CvxExpr:
+    out = ctx(e.factors[0])
+    for factor in e.factors[1:]:
+        out = out @ ctx(factor)
+    return out
+
+
+def _scale(e: ir.Scale, ctx: _Ctx) -> CvxExpr:
+    factor, arg = ctx(e.factor), ctx(e.arg)
+    if not ctx.varies(e.factor) or not ctx.varies(e.arg):
+        return scalar(factor) * arg
+    return ctx.cp.multiply(scalar(factor), arg)
+
+
+def _hadamard(e: ir.Hadamard, ctx: _Ctx) -> CvxExpr:
+    return ctx.cp.multiply(ctx(e.left), ctx(e.right))
+
+
+def _divide(e: ir.Divide, ctx: _Ctx) -> CvxExpr:
+    if ctx.varies(e.right):
+        numerator = e.left
+        if not ctx.varies(numerator):
+            num = evaluate_2d(numerator, ctx.values, ctx.dims)
+            return ctx.cp.multiply(num, ctx.cp.inv_pos(ctx(e.right)))
+        raise ValueError("a quotient by a variable expression is not certifiably convex")
+    denominator = evaluate_2d(e.right, ctx.values, ctx.dims)
+    if denominator.shape == (1, 1):
+        return ctx(e.left) / float(denominator[0, 0])
+    return ctx.cp.multiply(ctx(e.left), 1.0 / denominator)
+
+
+def _power(e: ir.Power, ctx: _Ctx) -> CvxExpr:
+    base = ctx(e.base)
+    if e.exponent == 1:
+        return base
+    if e.exponent == 2:
+        return ctx.cp.square(base)
+    return ctx.cp.power(base, float(e.exponent))
+
+
+def _apply(e: ir.Apply, ctx: _Ctx) -> CvxExpr:
+    funcs = {"exp": ctx.cp.exp, "log": ctx.cp.log, "sqrt": ctx.cp.sqrt, "abs": ctx.cp.abs}
+    return funcs[e.func](ctx(e.arg))
+
+
+def _extremum(e: ir.Extremum, ctx: _Ctx) -> CvxExpr:
+    pick = ctx.cp.maximum if e.kind == "max" else ctx.cp.minimum
+    return pick(ctx(e.left), ctx(e.right))
+
+
+def _norm(e: ir.Norm, ctx: _Ctx) -> CvxExpr:
+    order = {"1": 1, "2": 2, "inf": "inf"}[e.p]
+    flat = ctx.cp.vec(ctx(e.arg), order="F")
+    return _as_2d(ctx.cp, ctx.cp.norm(flat, order))
+
+
+def _broadcast(e: ir.Broadcast, ctx: _Ctx) -> CvxExpr:
+    rows, cols = size_of(e.target.rows, ctx.dims), size_of(e.target.cols, ctx.dims)
+    return scalar(ctx(e.arg)) * np.ones((rows, cols))
+
+
+def _diag(e: ir.Diag, ctx: _Ctx) -> CvxExpr:
+    return ctx.cp.diag(ctx.cp.vec(ctx(e.arg), order="F"))
+
+
+def _block(e: ir.Block, ctx: _Ctx) -> CvxExpr:
+    return ctx.cp.bmat([[ctx(b) for b in row] for row in e.rows])
+
+
+def _add(e: ir.Add, ctx: _Ctx) -> CvxExpr:
+    out = ctx(e.terms[0])
+    for term in e.terms[1:]:
+        out = out + ctx(term)
+    return out
+
+
+def _data_only(e: ir.Expr, ctx: _Ctx) -> CvxExpr:
+    raise ValueError(f"{type(e).__name__} of a variable expression has no convex form")
+
+
+_HANDLERS: dict[type, Callable[..., CvxExpr]] = {
+    ir.Symbol: _symbol,
+    ir.Add: _add,
+    ir.Broadcast: _broadcast,
+    ir.MatMul: _matmul,
+    ir.Scale: _scale,
+    ir.Transpose: lambda e, ctx: ctx(e.arg).T,
+    ir.Hadamard: _hadamard,
+    ir.Divide: _divide,
+    ir.Power: _power,
+    ir.Apply: _apply,
+    ir.Extremum: _extremum,
+    ir.Norm: _norm,
+    ir.SumAll: lambda e, ctx: _as_2d(ctx.cp, ctx.cp.sum(ctx(e.arg))),
+    ir.Diag: _diag,
+    ir.Trace: lambda e, ctx: _as_2d(ctx.cp, ctx.cp.trace(ctx(e.arg))),
+    ir.Inverse: _data_only,
+    ir.PseudoInverse: _data_only,
+    ir.Block: _block,
+}
