@@ -1,0 +1,156 @@
+"""From lark's parse tree to our syntax tree, one method per grammar rule.
+
+The method names are the grammar's rule names; an unknown rule raises, so a new
+grammar rule cannot be skipped silently.  The tree's depth is checked before
+(``deepest``), so the recursive transform below never exhausts the stack.
+"""
+
+from __future__ import annotations
+
+from fractions import Fraction
+
+from lark import Token, Transformer, Tree
+
+from dualize.syntax import ast
+from dualize.syntax.span import Span
+
+RELATIONS = {"=": "==", "==": "==", "<=": "<=", ">=": ">=", "≤": "<=", "≥": ">=",
+             "⪰": "succeq", "⪯": "preceq", "succeq": "succeq", "preceq": "preceq"}
+MAX_DEPTH = 200
+
+
+class BuildError(Exception):
+    """A construct the grammar lets through but the language does not have."""
+
+    def __init__(self, span: Span, found: str) -> None:
+        super().__init__(found)
+        self.span = span
+        self.found = found
+
+
+def token_span(token: Token) -> Span:
+    return Span(token.line, token.column, token.end_line, token.end_column,
+                token.start_pos, token.end_pos)
+
+
+def tree_span(tree: Tree) -> Span:
+    m = tree.meta
+    if m.empty:
+        return Span(1, 1, 1, 1, 0, 0)
+    return Span(m.line, m.column, m.end_line, m.end_column, m.start_pos, m.end_pos)
+
+
+def deepest(tree: Tree, limit: int = MAX_DEPTH) -> Tree | None:
+    """The first subtree found deeper than ``limit`` (iteratively), or None."""
+    stack: list[tuple[Tree, int]] = [(tree, 1)]
+    while stack:
+        node, depth = stack.pop()
+        if depth > limit:
+            return node
+        stack.extend((c, depth + 1) for c in node.children if isinstance(c, Tree))
+    return None
+
+
+class Builder(Transformer):
+    """lark Tree -> dualize.syntax.ast, spans copied into every node."""
+
+    def __default__(self, data: str, children: list, meta: object) -> object:
+        raise NotImplementedError(f"grammar rule without a builder: {data}")
+
+    def _call_userfunc(self, tree: Tree, new_children: list | None = None) -> object:
+        children = new_children if new_children is not None else tree.children
+        method = getattr(self, f"rule_{tree.data}", None)
+        if method is None:
+            return self.__default__(tree.data, children, tree.meta)
+        return method(tree_span(tree), children)
+
+    # ---- statements --------------------------------------------------------
+    def rule_start(self, span: Span, c: list) -> ast.Start:
+        return ast.Start(span, tuple(c))
+
+    def rule_title(self, span: Span, c: list) -> ast.Title:
+        return ast.Title(span, str(c[1])[1:-1])
+
+    def rule_data(self, span: Span, c: list) -> ast.Data:
+        return ast.Data(span, tuple(c[1:]))
+
+    def rule_objective(self, span: Span, c: list) -> ast.Objective:
+        return ast.Objective(span, str(c[0]), c[1], c[2])
+
+    def rule_over(self, span: Span, c: list) -> ast.Over:
+        return c[0]
+
+    def rule_over_clause(self, span: Span, c: list) -> ast.Over:
+        return ast.Over(span, tuple(c[1:]))
+
+    def rule_subject_to(self, span: Span, c: list) -> ast.SubjectTo:
+        return ast.SubjectTo(span, c[1])
+
+    def rule_constraint(self, span: Span, c: list) -> ast.Constraint:
+        labels = c[0] or ()
+        parts = tuple(c[1::2])
+        relations = tuple(ast.Relation(token_span(t), RELATIONS[str(t)], str(t)) for t in c[2::2])
+        return ast.Constraint(span, labels, parts, relations)
+
+    def rule_labels(self, span: Span, c: list) -> tuple[ast.Label, ...]:
+        return tuple(ast.Label(token_span(t), str(t)) for t in c)
+
+    def rule_decl(self, span: Span, c: list) -> ast.Decl:
+        return ast.Decl(span, str(c[0]), token_span(c[0]), c[2])
+
+    # ---- sets --------------------------------------------------------------
+    def rule_named_set(self, span: Span, c: list) -> ast.NamedSet:
+        sign = str(c[2])[1:] if c[2] is not None else ""
+        return ast.NamedSet(span, str(c[0]), c[1] or (), sign)
+
+    def rule_binary_set(self, span: Span, c: list) -> ast.BinarySet:
+        low, high = (self._number(token_span(t), t) for t in c[:2])
+        return ast.BinarySet(span, low, high, c[2] or ())
+
+    def rule_box_set(self, span: Span, c: list) -> ast.BoxSet:
+        return ast.BoxSet(span, c[0], c[1], c[2] or ())
+
+    def rule_power_sizes(self, span: Span, c: list) -> tuple[ast.Size, ...]:
+        return tuple(x for x in c if isinstance(x, ast.Size))
+
+    def rule_size_sep(self, span: Span, c: list) -> None:
+        if str(c[0]) not in {",", "×", "x"}:
+            raise BuildError(span, str(c[0]))
+
+    def rule_size(self, span: Span, c: list) -> ast.Size:
+        return ast.Size(span, str(c[0]))
+
+    # ---- expressions -------------------------------------------------------
+    def rule_number(self, span: Span, c: list) -> ast.Number:
+        return self._number(span, c[0])
+
+    @staticmethod
+    def _number(span: Span, token: Token) -> ast.Number:
+        return ast.Number(span, str(token), Fraction(str(token)))
+
+    def rule_name(self, span: Span, c: list) -> ast.Name:
+        return ast.Name(span, str(c[0]))
+
+    def rule_binop(self, span: Span, c: list) -> ast.BinOp:
+        op = "-" if str(c[1]) == "−" else str(c[1])
+        return ast.BinOp(span, op, c[0], c[2])
+
+    def rule_neg(self, span: Span, c: list) -> ast.Neg:
+        return ast.Neg(span, c[1])
+
+    def rule_power(self, span: Span, c: list) -> ast.Power:
+        return ast.Power(span, c[0], c[2])
+
+    def rule_transpose(self, span: Span, c: list) -> ast.Transpose:
+        return ast.Transpose(span, c[0])
+
+    def rule_call(self, span: Span, c: list) -> ast.Call:
+        args = tuple(a for a in c[1:] if a is not None)
+        return ast.Call(span, str(c[0]), token_span(c[0]), args)
+
+    def rule_norm(self, span: Span, c: list) -> ast.Norm:
+        p = str(c[3])[1:] if c[3] is not None else "2"
+        return ast.Norm(span, c[1], p)
+
+    def rule_abs(self, span: Span, c: list) -> ast.Abs:
+        return ast.Abs(span, c[1])

@@ -1,0 +1,88 @@
+"""Text -> syntax tree, or diagnostics that say what went wrong and where.
+
+``parse`` never raises on user text: lark's errors become diagnostics
+(``dualize.syntax.explain`` turns the common mistakes into friendly messages),
+files that are too large or too deeply nested are refused with a diagnostic.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+
+from lark import Lark, UnexpectedInput
+
+from dualize.diagnostics import Diagnostic, make
+from dualize.syntax import ast
+from dualize.syntax import rules as R
+from dualize.syntax.build import MAX_DEPTH, Builder, BuildError, deepest, tree_span
+from dualize.syntax.explain import explain
+from dualize.syntax.grammar_file import grammar_text
+from dualize.syntax.newlines import NewlineFilter
+from dualize.syntax.outline import FIRST, outline
+from dualize.syntax.span import Span
+
+MAX_CHARS = 1_000_000
+
+
+@dataclass(frozen=True)
+class ParseResult:
+    """``tree`` is the statement list; ``document`` the statements in their places."""
+
+    tree: ast.Start | None
+    document: ast.Document | None
+    diagnostics: tuple[Diagnostic, ...]
+
+
+@lru_cache(maxsize=1)
+def lark_parser() -> Lark:
+    """The LALR parser, built once per process (building takes a tenth of a second)."""
+    return Lark(grammar_text(), parser="lalr", propagate_positions=True,
+                postlex=NewlineFilter(), maybe_placeholders=True)
+
+
+def parse(text: str, path: str = "<string>") -> ParseResult:
+    """Parse one problem file's text."""
+    if len(text) > MAX_CHARS:
+        return _failed(make(R.FILE_TOO_LARGE, path, FIRST, size=len(text), limit=MAX_CHARS))
+    nested = too_many_brackets(text, MAX_DEPTH)
+    if nested is not None:
+        return _failed(make(R.TOO_DEEP, path, nested, limit=MAX_DEPTH))
+    try:
+        tree = lark_parser().parse(text)
+    except UnexpectedInput as err:
+        return _failed(explain(err, text, path))
+    too_deep = deepest(tree)
+    if too_deep is not None:
+        return _failed(make(R.TOO_DEEP, path, tree_span(too_deep), limit=MAX_DEPTH,
+                            hint="name a part of the expression as data, or simplify it"))
+    try:
+        start = Builder().transform(tree)
+    except BuildError as bad:
+        return _failed(make(R.BAD_SIZE_SEPARATOR, path, bad.span, found=bad.found))
+    document, diagnostics = outline(start, path)
+    return ParseResult(start, document, diagnostics)
+
+
+def too_many_brackets(text: str, limit: int) -> Span | None:
+    """The first bracket that opens level ``limit + 1``, outside comments and titles."""
+    depth, line, line_start, skipping = 0, 1, 0, ""
+    for i, ch in enumerate(text):
+        if ch == "\n":
+            line, line_start, skipping = line + 1, i + 1, ""
+        elif skipping:
+            skipping = "" if skipping == '"' and ch == '"' else skipping
+        elif ch in "#\"":
+            skipping = ch
+        elif ch in "([{":
+            depth += 1
+            if depth > limit:
+                column = i - line_start + 1
+                return Span(line, column, line, column + 1, i, i + 1)
+        elif ch in ")]}":
+            depth = max(depth - 1, 0)
+    return None
+
+
+def _failed(diagnostic: Diagnostic) -> ParseResult:
+    return ParseResult(None, None, (diagnostic,))
