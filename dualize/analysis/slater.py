@@ -1,0 +1,91 @@
+"""The strong-duality verdict: Slater's condition, refined for affine constraints.
+
+S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 5.2.3: a convex
+problem has zero duality gap when some x in the relative interior of the
+domain satisfies every nonaffine inequality strictly and the affine
+constraints (the refined condition: affine inequalities need only hold).
+Variables' polyhedral domains (R_+, boxes) act like affine constraints: the
+partial dual's bound is at least the full dual's, which is tight under the
+refined condition.  "guaranteed" is said only with a proof; on symbolic data
+without one the verdict is "unknown".
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from typing import Any
+
+from dualize.analysis.convexity import Convexity, variable_signs
+from dualize.analysis.report import Verdict
+from dualize.model import expr as E
+from dualize.model.problem import Problem
+
+STRICT_CLASSES = frozenset({"convex-inequality", "linear-matrix-inequality"})
+WEAK_ONLY = ("the problem is not convex: weak duality only (the dual optimum is a {bound} "
+             "on the primal optimum, possibly with a gap)")
+
+
+def strong_duality(problem: Problem, conv: Convexity,
+                   instance: Mapping[str, Any] | None = None) -> Verdict:
+    """The verdict for ``problem`` given its convexity analysis."""
+    if not problem.constraints:
+        return Verdict("guaranteed", "no constraint is dualized: the dual function's only "
+                       "value is the primal optimal value itself")
+    if conv.convex is False:
+        bound = "lower bound" if problem.sense == "minimize" else "upper bound"
+        return Verdict("not-guaranteed", WEAK_ONLY.format(bound=bound))
+    if conv.convex is None:
+        return Verdict("unknown", "convexity could not be decided, so neither could Slater's "
+                       "condition")
+    if instance is not None:
+        from dualize.analysis.phase_one import numeric_verdict
+
+        return numeric_verdict(problem, conv, instance)
+    return symbolic_verdict(problem, conv)
+
+
+def strict_labels(problem: Problem, conv: Convexity) -> tuple[str, ...]:
+    """Constraints Slater's condition asks to hold strictly (nonaffine ones, LMIs)."""
+    return tuple(p.label for p in conv.constraints if p.kind in STRICT_CLASSES)
+
+
+def domain_caveats(problem: Problem) -> tuple[str, ...]:
+    """Closed, non-polyhedral domains whose relative interior a point must reach."""
+    out = [f"{v.name} in S_+ (a point must be positive definite)"
+           for v in problem.variables if v.domain.kind == "psd"]
+    exprs = [problem.objective] + [c.function for c in problem.constraints]
+    for node in (n for e in exprs for n in E.walk(e)):
+        if isinstance(node, E.Apply) and node.func == "sqrt" and _varies(node.arg):
+            out.append("sqrt needs its argument > 0")
+        if isinstance(node, E.Power) and node.exponent.q != 1 and _varies(node.base):
+            out.append("a fractional power needs its base > 0")
+    return tuple(sorted(set(out)))
+
+
+def _varies(node: E.Expr) -> bool:
+    return bool(E.symbols_of(node, "variable"))
+
+
+def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
+    """Refined Slater on symbolic data: a scalar sympy search, then a structural point."""
+    from dualize.analysis.slater_symbolic import scalar_search, zero_candidate
+
+    strict, caveats = strict_labels(problem, conv), domain_caveats(problem)
+    found = scalar_search(problem, conv)
+    if found is not None:
+        return found
+    zero = zero_candidate(problem, conv, variable_signs(problem))
+    if zero is not None:
+        return zero
+    if not strict and not caveats:
+        return Verdict("guaranteed", AFFINE_REASON)
+    what = ", ".join(strict) if strict else "; ".join(caveats)
+    detail = f"a point must satisfy {what} strictly"
+    return Verdict("unknown", f"Slater's condition cannot be decided on symbolic data "
+                   f"({detail}); give an instance with --data",
+                   finding="slater-undecided", detail=detail)
+
+
+AFFINE_REASON = ("all constraints are affine and the domain is polyhedral or open: by the "
+                 "refined Slater condition (Boyd and Vandenberghe, 2004, section 5.2.3) "
+                 "strong duality holds whenever the problem is feasible")
