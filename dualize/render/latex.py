@@ -1,0 +1,212 @@
+"""A derivation as LaTeX: problems in ``aligned`` blocks, steps in ``align*``.
+
+``render_latex`` gives a fragment to paste into a paper (or, with
+``standalone=True``, a complete article that compiles with pdflatex);
+``repr_latex`` gives the two problems alone, in display math, for notebooks.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from dualize.duality.result import Derivation, DualVariable
+from dualize.model import expr as ir
+from dualize.model.problem import Variable
+from dualize.render.document import (
+    Analysis,
+    DocumentView,
+    Line,
+    ProblemView,
+    build_view,
+    unbounded_sentence,
+)
+from dualize.render.latex_printer import IRLatexPrinter, latex_expr, latex_relation
+from dualize.render.names import LATEX_OF_LETTER, PROSE_RELATIONS, latex_name, prose_pieces
+from dualize.render.templating import fill
+
+__all__ = ["LatexFormatter", "latex_expr", "render_latex", "repr_latex"]
+
+_ESCAPES: dict[str, str] = {
+    "\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#",
+    "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}",
+    "<": r"\textless{}", ">": r"\textgreater{}", "|": r"\textbar{}",
+}
+_MATH_CHARACTERS: dict[str, str] = {
+    "≤": r"\leq", "≥": r"\geq", "≠": r"\neq", "⪰": r"\succeq", "⪯": r"\preceq",
+    "∈": r"\in", "ℝ": r"\mathbb{R}", "𝕊": r"\mathbb{S}", "ℤ": r"\mathbb{Z}",
+    "×": r"\times", "·": r"\cdot", "∞": r"\infty", "‖": r"\Vert", "ᵀ": r"^\top",
+    "⊙": r"\odot", "⊘": r"\oslash", "𝟏": r"\mathbf{1}", "→": r"\to", "⁻¹": "^{-1}",
+    "∘": r"\circ", "†": r"^\dagger", "⁺": "^{+}", "−": "-", "√": r"\surd",
+    **{chr(0x2080 + d): f"_{{{d}}}" for d in range(10)},
+    **{chr(0x2070 + d): f"^{{{d}}}" for d in (0, 4, 5, 6, 7, 8, 9)},
+    "¹": "^{1}", "²": "^{2}", "³": "^{3}",
+}
+_SET_BASE: dict[str, tuple[str, str]] = {
+    "free": (r"\mathbb{R}", ""), "nonneg": (r"\mathbb{R}", "_{+}"),
+    "pos": (r"\mathbb{R}", "_{++}"), "integer": (r"\mathbb{Z}", ""),
+    "binary": (r"\{0, 1\}", ""), "symmetric": (r"\mathbb{S}", ""),
+    "psd": (r"\mathbb{S}", "_{+}"), "pd": (r"\mathbb{S}", "_{++}"),
+}
+
+
+def latex_prose(text: str) -> str:
+    """Plain sentences made safe for LaTeX; Greek names and math signs go to math mode."""
+    out = []
+    for kind, piece in prose_pieces(text):
+        if kind == "name":
+            out.append(f"${latex_name(piece)}$")
+        elif kind == "relation":
+            out.append(f"${latex_relation(PROSE_RELATIONS[piece])}$")
+        else:
+            out.append(_escape_text(piece))
+    return "".join(out)
+
+
+def _escape_text(text: str) -> str:
+    """Escape LaTeX's special characters; runs of Unicode math signs become one formula."""
+    out: list[str] = []
+    math: list[str] = []
+    for char in text:
+        symbol = LATEX_OF_LETTER.get(char) or _MATH_CHARACTERS.get(char)
+        if symbol is not None:
+            math.append(symbol if symbol[0] in "^_" or not math else " " + symbol)
+            continue
+        if math:
+            out.append("$" + "".join(math) + "$")
+            math = []
+        out.append(_ESCAPES.get(char, char))
+    if math:
+        out.append("$" + "".join(math) + "$")
+    return "".join(out)
+
+
+def latex_size(size: Any) -> str:
+    """A dimension (``n``, ``3``, ``n + 1``) through sympy's printer."""
+    return IRLatexPrinter().doprint(size)
+
+
+def latex_set(kind: str, shape: ir.Shape, lo: ir.Expr | None = None,
+              hi: ir.Expr | None = None) -> str:
+    """The set a variable lives in, as papers write it: ``\\mathbb{R}^{n}_{+}``."""
+    if kind in ("symmetric", "psd", "pd"):
+        power = f"^{{{latex_size(shape.rows)}}}"
+    elif shape.is_scalar:
+        power = ""
+    elif shape.cols == 1:
+        power = f"^{{{latex_size(shape.rows)}}}"
+    else:
+        power = f"^{{{latex_size(shape.rows)} \\times {latex_size(shape.cols)}}}"
+    if kind == "box":
+        return rf"[{_bound(lo)}, {_bound(hi)}]{power}"
+    base, suffix = _SET_BASE[kind]
+    return base + power + suffix
+
+
+def _bound(node: ir.Expr | None) -> str:
+    return "?" if node is None else latex_expr(node)
+
+
+class LatexFormatter:
+    """The LaTeX spelling of every piece a document shows."""
+
+    def __init__(self, **settings: Any) -> None:
+        self.settings = settings
+
+    def expr(self, node: ir.Expr) -> str:
+        return latex_expr(node, **self.settings)
+
+    def relation(self, relation: str) -> str:
+        return latex_relation(relation)
+
+    def name(self, name: str) -> str:
+        return latex_name(name)
+
+    def domain(self, variable: Variable) -> str:
+        d = variable.domain
+        return latex_set(d.kind, variable.symbol.shape, d.lo, d.hi)
+
+    def dual_set(self, variable: DualVariable) -> str:
+        return latex_set("symmetric" if variable.set == "symmetric" else "free",
+                         variable.symbol.shape)
+
+    def prose(self, text: str) -> str:
+        return latex_prose(text)
+
+
+def problem_block(view: ProblemView) -> str:
+    """``\\begin{aligned} \\underset{x}{\\text{minimize}} \\quad & f \\\\ ... \\end{aligned}``."""
+    over = r",\, ".join(view.over)
+    rows = [rf"\underset{{{over}}}{{\text{{{view.sense}}}}} \quad & {_objective(view)}"]
+    for index, line in enumerate(view.lines):
+        lead = r"\text{subject to} \quad " if index == 0 else ""
+        rows.append(f"{lead}& {_relation_row(line)}{_tag(line)}")
+    return "\\begin{aligned}\n" + " \\\\\n".join(rows) + "\n\\end{aligned}"
+
+
+def _objective(view: ProblemView) -> str:
+    if not view.inner:
+        return view.objective
+    over = r",\, ".join(view.inner)
+    return rf"\{view.inner_op}_{{{over}}} \left( {view.objective} \right)"
+
+
+def _relation_row(line: Line) -> str:
+    return f"{line.lhs} {line.relation} {line.rhs}"
+
+
+def _tag(line: Line) -> str:
+    if line.tag:
+        return rf" && \quad ({line.tag})"
+    return rf" && \quad \text{{({line.note})}}" if line.note else ""
+
+
+def align_block(lines: tuple[Line, ...]) -> str:
+    """Equations of one step, aligned at their relation signs."""
+    rows = [f"{line.lhs} &{line.relation} {line.rhs}{_note(line)}" for line in lines]
+    return "\\begin{align*}\n" + " \\\\\n".join(rows) + "\n\\end{align*}"
+
+
+def _note(line: Line) -> str:
+    return rf" && \text{{{line.note}}}" if line.note else ""
+
+
+def _inline(line: Line) -> str:
+    return f"${line.lhs} {line.relation} {line.rhs}$"
+
+
+def _context(view: DocumentView) -> dict[str, Any]:
+    """The rendered pieces the template places."""
+    return {
+        "title": view.title,
+        "primal": problem_block(view.primal),
+        "lagrangian": align_block((view.lagrangian,)) if view.lagrangian else "",
+        "steps": [{"text": s.text, "math": align_block(s.lines) if s.lines else ""}
+                  for s in view.steps],
+        "dual": "" if view.dual.unbounded else problem_block(view.dual),
+        "unbounded": unbounded_sentence(view.dual, r"$-\infty$", r"$+\infty$"),
+        "kkt": [{"group": k.group[:1].upper() + k.group[1:], "math": align_block(k.lines)}
+                for k in view.kkt],
+        "recovery": [{"math": align_block((Line(r.variable, "=", r.formula),))
+                      if r.formula is not None else "", "variable": r.variable,
+                      "note": r.note} for r in view.recovery],
+        "verdict": view.verdict,
+        "witness": ", ".join(_inline(w) for w in view.verdict.witness) if view.verdict else "",
+        "notes": view.notes,
+    }
+
+
+def render_latex(derivation: Derivation, analysis: Analysis | None = None,
+                 standalone: bool = False) -> str:
+    """The whole derivation in LaTeX; ``standalone`` wraps it in a compilable article."""
+    view = build_view(derivation, analysis, LatexFormatter())
+    return fill("derivation.tex.j2", standalone=standalone, **_context(view))
+
+
+def repr_latex(derivation: Derivation) -> str:
+    """The primal and the dual problem in display math, as notebooks show LaTeX."""
+    view = build_view(derivation, None, LatexFormatter())
+    blocks = [problem_block(view.primal)]
+    if not view.dual.unbounded:
+        blocks.append(problem_block(view.dual))
+    return "\n".join(f"$$\n{b}\n$$" for b in blocks) + "\n"
+

@@ -1,0 +1,189 @@
+"""What every printer of the IR needs to know about an expression's layout.
+
+Precedence decides where parentheses go (as few as the reading allows), the sign
+split prints ``a - b`` instead of ``a + -1 b``, and the term order puts quadratic
+terms before linear ones and constants last, the way papers write objectives.
+The LaTeX and text printers share these rules so the two targets never disagree.
+"""
+
+from __future__ import annotations
+
+import sympy
+
+from dualize.model import expr as ir
+
+ADD = 10
+NEG = 15
+MUL = 20
+POSTFIX = 30
+ATOM = 100
+
+_ATOMS = (ir.Symbol, ir.Ones, ir.Identity, ir.Zero, ir.Norm, ir.Apply, ir.Extremum,
+          ir.Diag, ir.Trace, ir.Block)
+_POSTFIX = (ir.Transpose, ir.Power, ir.Inverse, ir.PseudoInverse)
+
+
+def is_number(node: ir.Expr, value: int | None = None) -> bool:
+    """True for a Number node (of ``value`` when given)."""
+    return isinstance(node, ir.Number) and (value is None or node.value == value)
+
+
+def precedence(node: ir.Expr) -> int:
+    """How tightly a printed node binds: an argument looser than its context gets parentheses."""
+    if isinstance(node, _ATOMS):
+        return ATOM
+    if isinstance(node, _POSTFIX):
+        return POSTFIX
+    if isinstance(node, ir.Number):
+        return _number_precedence(sympy.Rational(node.value))
+    if isinstance(node, ir.Add):
+        return ADD if len(node.terms) > 1 else precedence(node.terms[0])
+    if split_sign(node)[0]:
+        return NEG
+    if isinstance(node, ir.Scale) and is_number(node.factor, 1):
+        return precedence(node.arg)
+    if isinstance(node, ir.Broadcast) and is_number(node.arg, 1):
+        return ATOM
+    if isinstance(node, ir.SumAll) and node.arg.shape.is_scalar:
+        return precedence(node.arg)
+    return MUL
+
+
+def _number_precedence(value: sympy.Rational) -> int:
+    if value < 0:
+        return NEG
+    return ATOM if value.q == 1 else MUL
+
+
+def split_sign(node: ir.Expr) -> tuple[bool, ir.Expr]:
+    """(negative, magnitude) with ``node == -magnitude`` when negative is True."""
+    if isinstance(node, ir.Number) and node.value < 0:
+        return True, ir.Number(-sympy.Rational(node.value))
+    if isinstance(node, ir.Scale):
+        negative, factor = split_sign(node.factor)
+        inner_negative, arg = split_sign(node.arg)
+        if negative == inner_negative:
+            return False, _rescale(factor, arg) if negative else node
+        return True, _rescale(factor, arg)
+    if isinstance(node, ir.Broadcast | ir.Divide | ir.Hadamard | ir.MatMul):
+        return _split_first(node)
+    return False, node
+
+
+def _rescale(factor: ir.Expr, arg: ir.Expr) -> ir.Expr:
+    return arg if is_number(factor, 1) else ir.Scale(factor, arg)
+
+
+def _split_first(node: ir.Expr) -> tuple[bool, ir.Expr]:
+    """A product is negative when an odd number of its factors are; a quotient by its top."""
+    if isinstance(node, ir.Broadcast):
+        negative, arg = split_sign(node.arg)
+        return negative, ir.Broadcast(arg, node.target)
+    if isinstance(node, ir.MatMul):
+        split = [split_sign(f) for f in node.factors]
+        negative = sum(1 for sign, _ in split if sign) % 2 == 1
+        return negative, ir.MatMul(tuple(f for _, f in split))
+    if isinstance(node, ir.Hadamard):
+        (left_sign, left), (right_sign, right) = split_sign(node.left), split_sign(node.right)
+        return left_sign != right_sign, ir.Hadamard(left, right)
+    negative, left = split_sign(node.left)  # type: ignore[attr-defined]
+    return negative, ir.Divide(left, node.right)  # type: ignore[attr-defined]
+
+
+def scalar_factors(node: ir.Scale) -> tuple[tuple[ir.Expr, ...], ir.Expr]:
+    """A chain ``Scale(a, Scale(b, x))`` as its factors (a, b) and the scaled x."""
+    factors: list[ir.Expr] = []
+    arg: ir.Expr = node
+    while isinstance(arg, ir.Scale):
+        factors.extend(_flatten_factor(arg.factor))
+        arg = arg.arg
+    numbers = [f for f in factors if isinstance(f, ir.Number)]
+    others = [f for f in factors if not isinstance(f, ir.Number)]
+    coefficient = sympy.Mul(*(sympy.Rational(n.value) for n in numbers)) if numbers else None
+    lead = [] if coefficient is None or coefficient == 1 else [ir.Number(coefficient)]
+    return tuple(lead + others), arg
+
+
+def _flatten_factor(factor: ir.Expr) -> list[ir.Expr]:
+    if isinstance(factor, ir.Scale) and factor.arg.shape.is_scalar:
+        return _flatten_factor(factor.factor) + _flatten_factor(factor.arg)
+    return [factor]
+
+
+def flat_terms(node: ir.Add) -> tuple[ir.Expr, ...]:
+    """The terms of nested sums, in the order written."""
+    out: list[ir.Expr] = []
+    for term in node.terms:
+        out.extend(flat_terms(term) if isinstance(term, ir.Add) else (term,))
+    return tuple(out)
+
+
+def ordered_terms(node: ir.Add) -> tuple[ir.Expr, ...]:
+    """Quadratic and higher terms first, then other nonlinear ones, linear, constant.
+
+    The sort is stable, so terms of one kind keep the order they were written in;
+    a sum is not made to open with a minus sign when it has a positive term
+    (``1 - s``, not ``-s + 1``), as authors write it.
+    """
+    terms = sorted(flat_terms(node), key=_term_rank)
+    if split_sign(terms[0])[0]:
+        positive = next((t for t in terms if not split_sign(t)[0]), None)
+        if positive is not None:
+            terms.remove(positive)
+            terms.insert(0, positive)
+    return tuple(terms)
+
+
+def _term_rank(term: ir.Expr) -> int:
+    d = degree(term)
+    if d is None:
+        return 1
+    return 0 if d >= 2 else 3 - d  # degree 1 -> 2, constants -> 3
+
+
+def degree(node: ir.Expr) -> int | None:
+    """Polynomial degree in the non-data symbols; None for other nonlinear terms."""
+    if isinstance(node, ir.Symbol):
+        return 0 if node.role == "data" else 1
+    if isinstance(node, ir.Number | ir.Ones | ir.Identity | ir.Zero):
+        return 0
+    if isinstance(node, ir.Add | ir.Extremum | ir.Block):
+        return _max_degree(node.children())
+    if isinstance(node, ir.MatMul | ir.Hadamard | ir.Scale):
+        return _sum_degree(node.children())
+    if isinstance(node, ir.Power):
+        return _power_degree(node)
+    if isinstance(node, ir.Divide):
+        return degree(node.left) if degree(node.right) == 0 else _nonpolynomial(node)
+    if isinstance(node, ir.Apply) and node.func == "abs":
+        return degree(node.arg)
+    if isinstance(node, ir.Norm | ir.Transpose | ir.Broadcast | ir.SumAll | ir.Diag
+                  | ir.Trace):
+        return degree(node.children()[0])
+    return _nonpolynomial(node)
+
+
+def _nonpolynomial(node: ir.Expr) -> int | None:
+    """Constant when no decision symbol occurs, else not a polynomial."""
+    constant = all(degree(c) == 0 for c in node.children())
+    return 0 if constant else None
+
+
+def _power_degree(node: ir.Power) -> int | None:
+    base = degree(node.base)
+    if base == 0:
+        return 0
+    exponent = sympy.Rational(node.exponent)
+    if base is None or exponent.q != 1 or exponent < 0:
+        return None
+    return base * int(exponent)
+
+
+def _max_degree(children: tuple[ir.Expr, ...]) -> int | None:
+    degrees = [degree(c) for c in children]
+    return None if None in degrees else max(degrees, default=0)  # type: ignore[type-var]
+
+
+def _sum_degree(children: tuple[ir.Expr, ...]) -> int | None:
+    degrees = [degree(c) for c in children]
+    return None if None in degrees else sum(degrees)  # type: ignore[arg-type]
