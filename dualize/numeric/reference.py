@@ -77,7 +77,7 @@ def make_variable(var: Variable, dims: dict[str, int]) -> tuple[Any, list[Any]]:
     return cp.Variable(shape, name=var.name), []
 
 
-def _box_constraints(var: Variable, x: Any, instance: Instance) -> list[Any]:
+def domain_constraints(var: Variable, x: Any, instance: Instance) -> list[Any]:
     if var.domain.kind != "box":
         return []
     from dualize.numeric.evaluate import evaluate
@@ -150,7 +150,7 @@ def _build_primal(problem: Problem, instance: Instance,
             continue
         x, more = make_variable(var, instance.dims)
         variables[var.name] = x
-        extra += more + _box_constraints(var, x, instance)
+        extra += more + domain_constraints(var, x, instance)
     env = {**variables, **{k: cp.Constant(v) for k, v in fixed.items()}}
     objective = scalar(to_cvxpy(problem.objective, env, instance.values, instance.dims))
     goal = cp.Minimize(objective) if problem.sense == "minimize" else cp.Maximize(objective)
@@ -260,15 +260,26 @@ def build_dual(dual: DualProblem, instance: Instance) -> _Built:
 
     variables = {v.name: dual_variable(shape_of(v.symbol.sym_shape, instance.dims), v.set,
                                        v.name) for v in dual.variables}
-    values, dims = instance.values, instance.dims
-    objective = scalar(to_cvxpy(dual.objective, variables, values, dims))
+    objective = scalar(to_cvxpy(dual.objective, variables, instance.values, instance.dims))
     goal = cp.Maximize(objective) if dual.sense == "maximize" else cp.Minimize(objective)
+    cons = _dual_constraint_map(dual, variables, instance)
+    return _Built(cp.Problem(goal, list(cons.values())), variables, cons, {})
+
+
+def _dual_constraint_map(dual: DualProblem, variables: dict[str, Any],
+                         instance: Instance) -> dict[str, Any]:
     cons = {}
     for index, con in enumerate(dual.constraints):
-        lhs = to_cvxpy(con.lhs, variables, values, dims)
-        rhs = to_cvxpy(con.rhs, variables, values, dims)
+        lhs = to_cvxpy(con.lhs, variables, instance.values, instance.dims)
+        rhs = to_cvxpy(con.rhs, variables, instance.values, instance.dims)
         cons[con.label or f"c{index + 1}"] = _relation(con.relation, lhs, rhs)
-    return _Built(cp.Problem(goal, list(cons.values())), variables, cons, {})
+    return cons
+
+
+def dual_constraints(dual: DualProblem, variables: dict[str, Any],
+                     instance: Instance) -> list[Any]:
+    """The dual's constraints as cvxpy constraints over ``variables``."""
+    return list(_dual_constraint_map(dual, variables, instance).values())
 
 
 def _relation(relation: str, lhs: Any, rhs: Any) -> Any:

@@ -70,19 +70,23 @@ def _translate(expr: ir.Expr, ctx: _Ctx) -> CvxExpr:
 
 
 def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
-    """u' P u with P data, or u' u: a quadratic form cvxpy can certify."""
-    if not isinstance(expr, ir.MatMul) or len(expr.factors) not in (2, 3):
+    """u' M1 ... Mk u with every M data, or u' u: a quadratic form cvxpy can certify.
+
+    The middle product P is symmetrized (u'Pu = u'(P + P')/2 u); cvxpy then
+    certifies convexity when P is PSD and concavity when it is NSD.
+    """
+    if not isinstance(expr, ir.MatMul) or len(expr.factors) < 2:
         return None
     first, last = expr.factors[0], expr.factors[-1]
     if not (isinstance(first, ir.Transpose) and first.arg == last and last.shape.cols == 1):
         return None
-    u = ctx(last)
-    if len(expr.factors) == 2:
-        return _as_2d(ctx.cp, ctx.cp.sum_squares(u))
-    middle = expr.factors[1]
-    if ctx.varies(middle):
+    middle = expr.factors[1:-1]
+    if any(ctx.varies(f) for f in middle):
         return None
-    p = evaluate_2d(middle, ctx.values, ctx.dims)
+    u = ctx(last)
+    if not middle:
+        return _as_2d(ctx.cp, ctx.cp.sum_squares(u))
+    p = evaluate_2d(ir.MatMul(middle) if len(middle) > 1 else middle[0], ctx.values, ctx.dims)
     return _as_2d(ctx.cp, ctx.cp.quad_form(u, (p + p.T) / 2))
 
 

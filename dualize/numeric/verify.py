@@ -1,0 +1,188 @@
+"""Check a derived dual against the primal, numerically, on concrete instances.
+
+For each instance the primal is solved by the cvxpy reference and the derived
+dual is solved on its own; the two optimal values must obey weak duality and,
+where strong duality holds, agree.
+
+Tolerance: a gap counts as zero when
+``|p - d| <= ABS_TOL + REL_TOL * max(1, |p|, |d|)`` with ``ABS_TOL = 1e-6`` and
+``REL_TOL = 1e-5``: loose enough for interior-point solves (Clarabel stops at
+about 1e-8 relative), tight enough to catch a wrong constant or a lost term.
+Weak duality (``d <= p`` for a minimization, ``d >= p`` for a maximization)
+violated beyond the same tolerance is a loud failure: the derivation is wrong.
+
+A dual that keeps an inner optimization cannot be solved as it stands; it is
+then evaluated at the reference multipliers (an inner solve over the remaining
+primal variables), which gives a valid bound and is zero-gap exactly when the
+derivation is right and strong duality holds.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from dualize.duality.result import Derivation, DualProblem
+from dualize.numeric.instance import Instance, random_instance
+from dualize.numeric.samples import WeakDualitySamples, weak_duality_samples
+
+__all__ = ["InstanceCheck", "VerifyReport", "WeakDualitySamples", "check_instance",
+           "dual_function_value", "tolerance", "verify", "weak_duality_samples"]
+
+ABS_TOL = 1e-6
+REL_TOL = 1e-5
+_SOLVED = ("optimal", "inaccurate")
+
+
+@dataclass(frozen=True)
+class InstanceCheck:
+    """One instance: both values, the gap, statuses and the multiplier disagreement."""
+
+    source: str
+    seed: int | None
+    primal_value: float
+    dual_value: float
+    gap: float
+    primal_status: str
+    dual_status: str
+    multiplier_error: float | None
+    weak_duality_ok: bool
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class VerifyReport:
+    """Every check, the largest gap seen, and the verdict zero-gap | gap | failed."""
+
+    checks: tuple[InstanceCheck, ...]
+    max_abs_gap: float
+    verdict: str
+    messages: tuple[str, ...] = ()
+
+
+def tolerance(p: float, d: float) -> float:
+    scale = max(1.0, abs(p) if math.isfinite(p) else 1.0, abs(d) if math.isfinite(d) else 1.0)
+    return ABS_TOL + REL_TOL * scale
+
+
+def verify(derivation: Derivation, instances: Sequence[Instance] = (),
+           seeds: Sequence[int] = (), dims: dict[str, int] | None = None) -> VerifyReport:
+    """Check ``derivation`` on the given instances and on random ones for ``seeds``."""
+    checks = [check_instance(derivation, inst, None) for inst in instances]
+    for seed in seeds:
+        inst = random_instance(derivation.problem, dims, seed)
+        checks.append(check_instance(derivation, inst, seed))
+    return summarize(tuple(checks))
+
+
+def check_instance(derivation: Derivation, instance: Instance, seed: int | None
+                   ) -> InstanceCheck:
+    from dualize.numeric.reference import solve_dual, solve_primal
+
+    problem = derivation.problem
+    primal = solve_primal(problem, instance)
+    dual = solve_dual(derivation.dual, instance)
+    dual_value, dual_status, note = dual.value, dual.status, dual.note
+    if dual.status == "unsupported" and derivation.dual.inner and primal.status in _SOLVED:
+        point = multiplier_point(derivation, primal.multipliers)
+        dual_value = dual_function_value(derivation.dual, instance, point)
+        dual_status = "at-reference-multipliers"
+        note = "dual evaluated at the reference multipliers (inner solve)"
+    sign = 1.0 if problem.sense == "minimize" else -1.0
+    gap = sign * (primal.value - dual_value)
+    usable = primal.status in _SOLVED + ("local",) and math.isfinite(dual_value)
+    weak_ok = not usable or gap >= -tolerance(primal.value, dual_value)
+    error = _multiplier_error(derivation, primal.multipliers, dual.x)
+    notes = "; ".join(filter(None, (primal.note, note)))
+    return InstanceCheck(instance.source, seed, primal.value, dual_value,
+                         gap if usable else float("nan"), primal.status, dual_status,
+                         error, weak_ok, notes)
+
+
+def multiplier_point(derivation: Derivation, by_label: dict[str, Any]) -> dict[str, Any]:
+    """The reference multipliers keyed by their multiplier symbols' names."""
+    out = {}
+    for con in derivation.problem.constraints:
+        if con.label in by_label:
+            out[con.multiplier.name] = by_label[con.label]
+    return out
+
+
+def _multiplier_error(derivation: Derivation, reference: dict[str, Any],
+                      dual_x: dict[str, Any]) -> float | None:
+    """Largest relative disagreement over multipliers both sides report, or None."""
+    point = multiplier_point(derivation, reference)
+    common = sorted(set(point) & set(dual_x))
+    if not common:
+        return None
+    errors = []
+    for name in common:
+        a = np.asarray(point[name], dtype=float).reshape(-1)
+        b = np.asarray(dual_x[name], dtype=float).reshape(-1)
+        if a.shape != b.shape:
+            continue
+        errors.append(float(np.max(np.abs(a - b)) / max(1.0, float(np.max(np.abs(a))))))
+    return max(errors) if errors else None
+
+
+def summarize(checks: tuple[InstanceCheck, ...]) -> VerifyReport:
+    """The verdict: failed on any weak-duality violation or when nothing was comparable."""
+    messages = [f"weak duality violated on {c.source}: primal {c.primal_value:.10g}, dual "
+                f"{c.dual_value:.10g}; the derived dual is wrong"
+                for c in checks if not c.weak_duality_ok]
+    usable = [c for c in checks if math.isfinite(c.gap)]
+    max_gap = max((abs(c.gap) for c in usable), default=float("nan"))
+    if messages or not usable:
+        if not usable and not messages:
+            messages.append("no instance gave two comparable finite values: "
+                            + ", ".join(sorted({f"{c.primal_status}/{c.dual_status}"
+                                                for c in checks})))
+        return VerifyReport(checks, max_gap, "failed", tuple(messages))
+    gaps = [c for c in usable if c.gap > tolerance(c.primal_value, c.dual_value)]
+    for c in gaps:
+        bound = " (the primal value is only a local bound)" if c.primal_status == "local" else ""
+        messages.append(f"duality gap {c.gap:.6g} on {c.source}{bound}")
+    skipped = len(checks) - len(usable)
+    if skipped:
+        messages.append(f"{skipped} instance(s) not comparable (see statuses)")
+    return VerifyReport(checks, max_gap, "gap" if gaps else "zero-gap", tuple(messages))
+
+
+def dual_function_value(dual: DualProblem, instance: Instance, point: dict[str, Any]) -> float:
+    """The dual objective at ``point`` (multipliers by name), inner optimization included.
+
+    The point is taken as given: dual constraints are not checked here.
+    """
+    from dualize.numeric.evaluate import evaluate
+
+    values = {**instance.values, **point}
+    if not dual.inner:
+        with np.errstate(all="ignore"):
+            return float(evaluate(dual.objective, values, instance.dims))
+    return _inner_value(dual, Instance(values, instance.dims, instance.source))
+
+
+def _inner_value(dual: DualProblem, instance: Instance) -> float:
+    import cvxpy as cp
+
+    from dualize.numeric.reference import domain_constraints, make_variable, run_solver
+    from dualize.numeric.translate import scalar, to_cvxpy
+
+    variables, extra = {}, []
+    for var in dual.inner:
+        x, more = make_variable(var, instance.dims)
+        variables[var.name] = x
+        extra += more + domain_constraints(var, x, instance)
+    objective = scalar(to_cvxpy(dual.objective, variables, instance.values, instance.dims))
+    goal = cp.Minimize(objective) if dual.sense == "maximize" else cp.Maximize(objective)
+    prob = cp.Problem(goal, extra)
+    if not prob.is_dcp():
+        return float("nan")
+    status = run_solver(prob)
+    if status == "unbounded":
+        return -math.inf if dual.sense == "maximize" else math.inf
+    return float(prob.value) if status in _SOLVED else float("nan")
