@@ -1,0 +1,295 @@
+"""Conjugates of scalar functions against published results and the definition."""
+
+from __future__ import annotations
+
+import math
+import os
+import subprocess
+import sys
+from functools import cache
+from pathlib import Path
+
+import pytest
+import sympy
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from scipy.optimize import minimize_scalar
+
+from dualize.duality import conjugate_check as check
+from dualize.duality.conjugate import Conjugate, NoClosedForm, S, conjugate, scaled_conjugate
+
+T = sympy.Symbol("t", real=True)
+C = sympy.Symbol("c", positive=True)
+POSITIVE = sympy.Interval.open(0, sympy.oo)
+NONNEG = sympy.Interval(0, sympy.oo)
+REALS = sympy.S.Reals
+REPO = Path(__file__).resolve().parents[2]
+
+
+@cache
+def derived(name: str) -> tuple[sympy.Expr, sympy.Interval, Conjugate]:
+    phi, domain = CASES[name]
+    return phi, domain, conjugate(phi, T, domain)
+
+
+CASES: dict[str, tuple[sympy.Expr, sympy.Interval]] = {
+    "negative entropy": (T * sympy.log(T), POSITIVE),
+    "negative log": (-sympy.log(T), POSITIVE),
+    "exponential": (sympy.exp(T), REALS),
+    "half square": (T**2 / 2, REALS),
+    "softplus": (sympy.log(1 + sympy.exp(T)), REALS),
+    "half square on t >= 0": (T**2 / 2, NONNEG),
+    "cube over three on t >= 0": (T**3 / 3, NONNEG),
+    "reciprocal": (1 / T, POSITIVE),
+    "scaled half square": (T**2 / (2 * C), REALS),
+}
+
+
+def same(a: sympy.Expr, b: sympy.Expr) -> bool:
+    return sympy.simplify(a - b) == 0
+
+
+# S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 3.3.1, Example 3.21
+# (negative entropy), from memory: (t log t)*(s) = exp(s - 1) on all of R.
+def test_negative_entropy() -> None:
+    _, _, conj = derived("negative entropy")
+    assert same(conj.value, sympy.exp(S - 1))
+    assert conj.domain == REALS
+    assert same(conj.maximizer, sympy.exp(S - 1))
+    assert conj.checked
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.1, Example 3.21 (negative logarithm), from
+# memory: (-log t)*(s) = -log(-s) - 1 for s < 0, +infinity otherwise.
+def test_negative_log() -> None:
+    _, _, conj = derived("negative log")
+    assert same(conj.value, -sympy.log(-S) - 1)
+    assert conj.domain == sympy.Interval.open(-sympy.oo, 0)
+    assert conj.boundary == ()
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.1, Example 3.21 (exponential), from memory:
+# (exp t)*(s) = s log s - s for s >= 0, with the value 0 at s = 0.
+def test_exponential() -> None:
+    _, _, conj = derived("exponential")
+    assert same(conj.value, S * sympy.log(S) - S)
+    assert conj.domain == NONNEG
+    assert conj.boundary == ((0, 0),)
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.1, Example 3.22 (strictly convex quadratic,
+# here Q = 1), from memory: (t^2 / 2)*(s) = s^2 / 2.
+def test_half_square() -> None:
+    _, _, conj = derived("half square")
+    assert same(conj.value, S**2 / 2)
+    assert conj.domain == REALS
+    assert same(conj.maximizer, S)
+
+
+# Boyd and Vandenberghe, 2004, section 3.3 (conjugate of log(1 + e^t), an exercise of
+# chapter 3), from memory: s log s + (1 - s) log(1 - s) on [0, 1], 0 at both ends.
+def test_softplus() -> None:
+    _, _, conj = derived("softplus")
+    assert same(conj.value, S * sympy.log(S) + (1 - S) * sympy.log(1 - S))
+    assert conj.domain == sympy.Interval(0, 1)
+    assert conj.boundary == ((0, 0), (1, 0))
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.1, Example 3.21 (inverse), from memory:
+# (1/t on t > 0)*(s) = -2 sqrt(-s) for s <= 0.
+def test_reciprocal() -> None:
+    _, _, conj = derived("reciprocal")
+    assert same(conj.value, -2 * sympy.sqrt(-S))
+    assert conj.domain == sympy.Interval(-sympy.oo, 0)
+    assert conj.boundary == ((0, 0),)
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.1 (power functions; conjugate exponents with
+# 1/p + 1/q = 1), from memory: (t^p / p on t >= 0)*(s) = s^q / q for s >= 0.  For
+# s < 0 the supremum over t >= 0 sits at t = 0 and is 0 (common practice: s t - t^p/p
+# is decreasing on t >= 0 there), so the conjugate is max(s, 0)^q / q on all of R.
+@pytest.mark.parametrize(
+    ("name", "q"),
+    [("half square on t >= 0", 2), ("cube over three on t >= 0", sympy.Rational(3, 2))],
+)
+def test_power_on_half_line(name: str, q: sympy.Rational) -> None:
+    _, _, conj = derived(name)
+    u = sympy.Symbol("u", positive=True)
+    assert same(conj.value.subs(S, u), u**q / q)
+    assert conj.value.subs(S, -u) == 0
+    assert conj.domain == REALS
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.2 (scaling: (a f)*(y) = a f*(y / a) for
+# a > 0) together with Example 3.22, from memory: (t^2 / (2c))*(s) = c s^2 / 2.
+def test_scaled_half_square_with_parameter() -> None:
+    _, _, conj = derived("scaled half square")
+    assert same(conj.value, C * S**2 / 2)
+    assert same(conj.maximizer, C * S)
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.2 (scaling), from memory; the scaled formula
+# is compared with an independent numeric supremum of s t - a exp(t).
+def test_scaled_conjugate_matches_numeric_sup() -> None:
+    a = sympy.Integer(3)
+    scaled = scaled_conjugate(derived("exponential")[2], a)
+    assert scaled.domain == NONNEG
+    assert same(scaled.value, S * sympy.log(S / 3) - S)
+    for s in (0.2, 1.0, 3.0, 7.5):
+        expected = independent_sup(lambda t: 3 * math.exp(t), s, (-60.0, 60.0))
+        assert float(scaled.value.subs(S, s)) == pytest.approx(expected, rel=1e-6)
+
+
+def test_scaled_conjugate_needs_positive_scale() -> None:
+    with pytest.raises(ValueError):
+        scaled_conjugate(derived("exponential")[2], sympy.Symbol("a", real=True))
+
+
+# Boyd and Vandenberghe, 2004, section 3.3.1, Example 3.21 (affine function), from
+# memory: (a t + b)* is -b at s = a and +infinity elsewhere.
+def test_affine_is_indicator_of_a_point() -> None:
+    conj = conjugate(3 * T + 1, T)
+    assert conj.domain == sympy.FiniteSet(3)
+    assert conj.value == -1
+    assert conj.maximizer is None
+
+
+# Common practice (derived by hand): sup over t >= 0 of (s - 3) t - 1 is -1 at t = 0
+# when s <= 3 and +infinity when s > 3.
+def test_affine_on_half_line() -> None:
+    conj = conjugate(3 * T + 1, T, NONNEG)
+    assert conj.domain == sympy.Interval(-sympy.oo, 3)
+    assert conj.value == -1
+
+
+def test_nonconvex_function_is_refused() -> None:
+    with pytest.raises(NoClosedForm, match="not convex"):
+        conjugate(-(T**2), T)
+
+
+def test_parameter_of_unknown_sign_is_refused() -> None:
+    with pytest.raises(NoClosedForm, match="positive"):
+        conjugate(T**2 / sympy.Symbol("k", real=True), T)
+
+
+def test_checker_rejects_a_wrong_formula() -> None:
+    claim = exponential_claim(value=S * sympy.log(S), domain=NONNEG)
+    assert check.first_failure(claim) is not None
+
+
+def test_checker_rejects_a_domain_that_is_too_small() -> None:
+    claim = exponential_claim(value=S * sympy.log(S) - S, domain=sympy.Interval(1, sympy.oo))
+    failure = check.first_failure(claim)
+    assert failure is not None and "diverge" in failure
+
+
+def test_checker_accepts_the_right_formula() -> None:
+    claim = exponential_claim(value=S * sympy.log(S) - S, domain=NONNEG)
+    assert check.first_failure(claim) is None
+
+
+def exponential_claim(value: sympy.Expr, domain: sympy.Set) -> check.Claim:
+    return check.Claim(
+        phi=check.numeric(sympy.exp(T), T),
+        curvature=check.numeric(sympy.exp(T), T),
+        value=check.numeric(value, S),
+        maximizer=check.numeric(sympy.log(S), S),
+        t_domain=(-math.inf, math.inf, True, True),
+        s_domain=domain,
+        boundary=(),
+    )
+
+
+def independent_sup(phi, s: float, bracket: tuple[float, float]) -> float:  # noqa: ANN001
+    """sup of s t - phi(t) by scipy's bounded search on a wide bracket (no formula used)."""
+    res = minimize_scalar(
+        lambda t: phi(t) - s * t, bounds=bracket, method="bounded", options={"xatol": 1e-12}
+    )
+    return -float(res.fun)
+
+
+NUMPY_PHI = {
+    "negative entropy": (lambda t: t * math.log(t), (1e-12, 60.0)),
+    "negative log": (lambda t: -math.log(t), (1e-9, 1e4)),
+    "exponential": (math.exp, (-60.0, 30.0)),
+    "half square": (lambda t: t * t / 2, (-1e3, 1e3)),
+    "softplus": (lambda t: math.log1p(math.exp(t)) if t < 30 else t + math.exp(-t), (-80.0, 80.0)),
+    "half square on t >= 0": (lambda t: t * t / 2, (0.0, 1e3)),
+    "cube over three on t >= 0": (lambda t: t**3 / 3, (0.0, 1e2)),
+    "reciprocal": (lambda t: 1 / t, (1e-6, 1e6)),
+}
+
+
+# Common practice: the conjugate is by definition the supremum of s t - phi(t); this
+# compares each derived formula with scipy's bounded scalar search at random s inside
+# the domain, away from the ends where the supremum is only approached.
+@settings(max_examples=30, deadline=None)
+@given(st.sampled_from(sorted(NUMPY_PHI)), st.floats(0.02, 0.98))
+def test_formula_equals_numeric_sup(name: str, fraction: float) -> None:
+    _, _, conj = derived(name)
+    s = point_in(conj.domain, fraction)
+    phi, bracket = NUMPY_PHI[name]
+    expected = independent_sup(phi, s, bracket)
+    assert float(conj.value.subs(S, s)) == pytest.approx(expected, rel=1e-6, abs=1e-7)
+
+
+# Fenchel-Young inequality (Boyd and Vandenberghe, 2004, section 3.3.1, from memory):
+# phi(t) + phi*(s) >= s t for every t in dom phi and s in dom phi*, with equality
+# when t is the maximizer for s.
+@settings(max_examples=60, deadline=None)
+@given(st.sampled_from(sorted(CASES)), st.floats(0.01, 0.99), st.floats(0.01, 0.99))
+def test_fenchel_young(name: str, t_fraction: float, s_fraction: float) -> None:
+    phi, domain, conj = derived(name)
+    values = {C: sympy.Rational(3, 2)}
+    t = point_in(domain, t_fraction)
+    s = point_in(conj.domain, s_fraction)
+    lhs = float(phi.subs(values).subs(T, t)) + float(conj.value.subs(values).subs(S, s))
+    assert lhs >= s * t - 1e-9 * (1 + abs(lhs) + abs(s * t))
+    best = float(conj.maximizer.subs(values).subs(S, s))
+    tight = float(phi.subs(values).subs(T, best)) + float(conj.value.subs(values).subs(S, s))
+    assert tight == pytest.approx(s * best, rel=1e-9, abs=1e-9)
+
+
+def point_in(domain: sympy.Set, fraction: float) -> float:
+    """A point of the interior of an interval, mapped from (0, 1) through a logit."""
+    lo, hi = check.constant(domain.inf), check.constant(domain.sup)
+    spread = math.log(fraction / (1 - fraction))
+    if math.isfinite(lo) and math.isfinite(hi):
+        return lo + (hi - lo) * fraction
+    if math.isfinite(lo):
+        return lo + math.exp(spread)
+    if math.isfinite(hi):
+        return hi - math.exp(spread)
+    return 2 * spread
+
+
+DETERMINISM_SCRIPT = """
+import sympy
+from dualize.duality.conjugate import conjugate
+t = sympy.Symbol("t", real=True)
+positive = sympy.Interval.open(0, sympy.oo)
+softplus = sympy.log(1 + sympy.exp(t))
+cases = ((softplus, sympy.S.Reals), (t * sympy.log(t), positive), (1 / t, positive))
+for phi, domain in cases:
+    c = conjugate(phi, t, domain)
+    print(sympy.srepr(c.value), sympy.srepr(c.domain), sympy.srepr(c.maximizer), c.boundary)
+"""
+
+
+# Common practice (reproducible builds): the same input gives byte-identical output,
+# whatever the hash seed of the interpreter.
+def test_deterministic_across_hash_seeds() -> None:
+    outputs = []
+    for seed in ("1", "2"):
+        env = {**os.environ, "PYTHONHASHSEED": seed, "PYTHONPATH": str(REPO)}
+        run = subprocess.run(
+            [sys.executable, "-c", DETERMINISM_SCRIPT],
+            env=env,
+            capture_output=True,
+            text=True,
+            check=True,
+            cwd=REPO,
+        )
+        outputs.append(run.stdout)
+    assert outputs[0] == outputs[1]
+    assert len(outputs[0].splitlines()) == 3
