@@ -1,0 +1,191 @@
+"""Syntax expressions -> IR expressions, one method per syntax node class.
+
+Dispatch is on the node's class with a strict fallback: a syntax node without a
+method raises, so a new construct cannot be skipped silently.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+import sympy
+
+from dualize.model import ops
+from dualize.model import rules as M
+from dualize.model.expr import (
+    Apply,
+    Diag,
+    Expr,
+    Extremum,
+    Identity,
+    Inverse,
+    Norm,
+    Number,
+    Ones,
+    Power,
+    SumAll,
+    Trace,
+    symbols_of,
+)
+from dualize.model.scope import FUNCTIONS, Scope
+from dualize.syntax import ast
+
+ELEMENTWISE = {"exp": "exp", "log": "log", "sqrt": "sqrt"}
+
+
+class ExprResolver:
+    """Resolves expressions in one scope (data and variables declared before)."""
+
+    def __init__(self, scope: Scope) -> None:
+        self.scope = scope
+
+    def __call__(self, node: ast.Expr) -> Expr:
+        method: Callable[[ast.Expr], Expr] | None = getattr(
+            self, f"_{type(node).__name__}", None)
+        if method is None:
+            raise NotImplementedError(f"no resolver for syntax node {type(node).__name__}")
+        return method(node)
+
+    def _Number(self, node: ast.Number) -> Expr:
+        v = node.value
+        return Number(sympy.Rational(v.numerator, v.denominator), span=node.span)
+
+    def _Name(self, node: ast.Name) -> Expr:
+        symbol = self.scope.names.get(node.name)
+        if symbol is not None:
+            return symbol.with_span(node.span)
+        if node.name in self.scope.dims:
+            raise self.scope.fail(M.DIMENSION_AS_VALUE, node.span, name=node.name)
+        raise self.scope.fail(M.UNDECLARED_NAME, node.span, name=node.name,
+                              hint=self.scope.suggest(node.name))
+
+    def _BinOp(self, node: ast.BinOp) -> Expr:
+        a, b, s = self(node.left), self(node.right), self.scope
+        if node.op == "+":
+            return ops.add(a, b, s, node.span)
+        if node.op == "-":
+            return ops.sub(a, b, s, node.span)
+        if node.op == "*":
+            return ops.multiply(a, b, s, node.span)
+        if node.op == ".*":
+            return ops.hadamard(a, b, s, node.span)
+        return ops.divide(a, b, s, node.span, elementwise=node.op == "./")
+
+    def _Neg(self, node: ast.Neg) -> Expr:
+        return ops.negate(self(node.operand), node.span)
+
+    def _Power(self, node: ast.Power) -> Expr:
+        base, exponent = self(node.base), self(node.exponent)
+        if not isinstance(exponent, Number):
+            found = "a variable expression" if symbols_of(exponent) else f"a {exponent.shape}"
+            raise self.scope.fail(M.BAD_EXPONENT, node.exponent.span, found=found)
+        if isinstance(base, Number) and exponent.value.is_integer and base.value != 0:
+            return ops.number(base.value ** exponent.value, node.span)
+        return Power(base, exponent.value, span=node.span)
+
+    def _Transpose(self, node: ast.Transpose) -> Expr:
+        return ops.transpose(self(node.operand), node.span)
+
+    def _Norm(self, node: ast.Norm) -> Expr:
+        arg = self(node.arg)
+        if node.p != "2" and not (arg.shape.is_vector or arg.shape.is_scalar):
+            raise self.scope.fail(M.WRONG_ARGUMENT, node.span, name=f"||.||_{node.p}",
+                                  needs="takes a vector", found=str(arg.shape),
+                                  hint="only the Euclidean (Frobenius) norm applies to "
+                                       "matrices; use sum(|X|) for the entrywise 1-norm")
+        return Norm(arg, node.p, span=node.span)  # type: ignore[arg-type]
+
+    def _Abs(self, node: ast.Abs) -> Expr:
+        return Apply("abs", self(node.arg), span=node.span)
+
+    def _Call(self, node: ast.Call) -> Expr:
+        if node.func not in FUNCTIONS:
+            close = [f for f in FUNCTIONS if f.startswith(node.func[:2])]
+            hint = f"did you mean `{close[0]}`?" if close else None
+            raise self.scope.fail(M.UNKNOWN_FUNCTION, node.func_span, name=node.func, hint=hint)
+        return getattr(self, f"_call_{node.func}")(node)
+
+    # ---- functions ---------------------------------------------------------
+    def _args(self, node: ast.Call, count: int) -> tuple[ast.Expr, ...]:
+        if len(node.args) != count:
+            expected = "one argument" if count == 1 else f"{count} arguments"
+            raise self.scope.fail(M.ARGUMENT_COUNT, node.span, name=node.func,
+                                  expected=expected, count=len(node.args))
+        return node.args
+
+    def _one(self, node: ast.Call) -> Expr:
+        return self(self._args(node, 1)[0])
+
+    def _call_sum(self, node: ast.Call) -> Expr:
+        return SumAll(self._one(node), span=node.span)
+
+    def _call_exp(self, node: ast.Call) -> Expr:
+        return Apply("exp", self._one(node), span=node.span)
+
+    def _call_log(self, node: ast.Call) -> Expr:
+        return Apply("log", self._one(node), span=node.span)
+
+    def _call_sqrt(self, node: ast.Call) -> Expr:
+        return Apply("sqrt", self._one(node), span=node.span)
+
+    def _call_max(self, node: ast.Call) -> Expr:
+        return self._extremum(node, "max")
+
+    def _call_min(self, node: ast.Call) -> Expr:
+        return self._extremum(node, "min")
+
+    def _extremum(self, node: ast.Call, kind: str) -> Expr:
+        left, right = (self(a) for a in self._args(node, 2))
+        left, right = ops.conform(left, right, f"in {kind}(...)", self.scope, node.span)
+        return Extremum(kind, left, right, span=node.span)  # type: ignore[arg-type]
+
+    def _call_diag(self, node: ast.Call) -> Expr:
+        arg = self._one(node)
+        if not arg.shape.is_vector:
+            self._wrong(node, "takes a vector (it makes a diagonal matrix)", arg)
+        return Diag(arg, span=node.span)
+
+    def _call_trace(self, node: ast.Call) -> Expr:
+        arg = self._one(node)
+        if not arg.shape.is_square:
+            self._wrong(node, "takes a square matrix", arg)
+        return Trace(arg, span=node.span)
+
+    def _call_inv(self, node: ast.Call) -> Expr:
+        arg = self._one(node)
+        moving = [s for s in symbols_of(arg) if s.role != "data"]
+        if moving:
+            raise self.scope.fail(M.INVERSE_OF_VARIABLE, node.span, name=moving[0].name)
+        if not arg.shape.is_square:
+            self._wrong(node, "takes a square matrix", arg)
+        return Inverse(arg, span=node.span)
+
+    def _call_ones(self, node: ast.Call) -> Expr:
+        return Ones(self._size_arg(node), span=node.span)
+
+    def _call_identity(self, node: ast.Call) -> Expr:
+        return Identity(self._size_arg(node), span=node.span)
+
+    def _size_arg(self, node: ast.Call) -> sympy.Expr:
+        arg = self._args(node, 1)[0]
+        if isinstance(arg, ast.Number) and arg.value.denominator == 1 and arg.value >= 1:
+            return sympy.Integer(int(arg.value))
+        if isinstance(arg, ast.Name) and arg.name in self.scope.dims:
+            return self.scope.dims[arg.name]
+        raise self.scope.fail(M.WRONG_ARGUMENT, arg.span, name=node.func,
+                              needs="takes a size (a positive integer or a dimension symbol)",
+                              found=_kind_of(arg, self.scope))
+
+    def _wrong(self, node: ast.Call, needs: str, arg: Expr) -> None:
+        raise self.scope.fail(M.WRONG_ARGUMENT, node.span, name=node.func, needs=needs,
+                              found=str(arg.shape))
+
+
+def _kind_of(arg: ast.Expr, scope: Scope) -> str:
+    if isinstance(arg, ast.Name):
+        symbol = scope.names.get(arg.name)
+        return f"{symbol.role} name" if symbol else "undeclared name"
+    if isinstance(arg, ast.Number):
+        return "non-integer number" if arg.value.denominator != 1 else "number below 1"
+    return "expression"
+
