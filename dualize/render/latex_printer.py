@@ -210,7 +210,7 @@ def _juxtapose(pieces: list[str]) -> str:
     """Products by juxtaposition, with ``\\cdot`` only where two numbers would touch."""
     out = pieces[0]
     for piece in pieces[1:]:
-        out += r" \cdot " if piece[:1].isdigit() else " "
+        out += r" \cdot " if piece[:1] in "0123456789" else " "
         out += piece
     return out
 

@@ -1,0 +1,110 @@
+"""A derivation as Markdown: headings per part, one ``$$`` block per display.
+
+Inside ``$$`` only what MathJax and KaTeX both read is used (``aligned``, not
+``align*``), so the page renders in notebooks and common Markdown viewers alike.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from dualize.duality.result import Derivation
+from dualize.render.document import (
+    Analysis,
+    DocumentView,
+    Line,
+    build_view,
+    unbounded_sentence,
+)
+from dualize.render.latex import LatexFormatter, problem_block
+from dualize.render.latex_printer import latex_relation
+from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
+from dualize.render.templating import fill
+
+__all__ = ["MarkdownFormatter", "render_markdown", "repr_markdown"]
+
+_MARKDOWN_SPECIAL = frozenset("\\*_`$[]#")
+
+
+def markdown_prose(text: str) -> str:
+    """Sentences with Markdown's special characters escaped and Greek names as inline math."""
+    out = []
+    for kind, piece in prose_pieces(text):
+        if kind == "name":
+            out.append(f"${latex_name(piece)}$")
+        elif kind == "relation":
+            out.append(f"${latex_relation(PROSE_RELATIONS[piece])}$")
+        else:
+            out.append("".join("\\" + c if c in _MARKDOWN_SPECIAL else c for c in piece))
+    return "".join(out)
+
+
+class MarkdownFormatter(LatexFormatter):
+    """LaTeX mathematics with Markdown prose."""
+
+    def prose(self, text: str) -> str:
+        return markdown_prose(text)
+
+
+def display(body: str) -> str:
+    """One display formula as its own ``$$`` block."""
+    return f"$$\n{body}\n$$"
+
+
+def aligned(lines: tuple[Line, ...]) -> str:
+    """Equations aligned at their relation signs, in an ``aligned`` environment."""
+    rows = [f"{line.lhs} &{line.relation} {line.rhs}"
+            + (rf" && \text{{{line.note}}}" if line.note else "") for line in lines]
+    return "\\begin{aligned}\n" + " \\\\\n".join(rows) + "\n\\end{aligned}"
+
+
+def _verdict_rows(view: DocumentView) -> list[str]:
+    if view.verdict is None:
+        return []
+    verdict = view.verdict
+    rows = [f"**Convexity.** {verdict.convexity}",
+            f"**Strong duality** ({verdict.status}). {verdict.strong_duality}"]
+    if verdict.witness:
+        points = ", ".join(f"${w.lhs} = {w.rhs}$" for w in verdict.witness)
+        rows.append(f"Witness point: {points}.")
+    return rows
+
+
+def _diagnostic_rows(view: DocumentView) -> list[str]:
+    rows = []
+    for d in view.diagnostics:
+        hint = f" Hint: {d.hint}" if d.hint else ""
+        rows.append(f"- `{d.location}` **{d.severity}** `{d.rule}`: {d.message}{hint}")
+    return rows
+
+
+def _context(view: DocumentView) -> dict[str, Any]:
+    return {
+        "title": view.title,
+        "file": view.file,
+        "verdicts": _verdict_rows(view),
+        "diagnostics": _diagnostic_rows(view),
+        "primal": display(problem_block(view.primal)),
+        "lagrangian": display(aligned((view.lagrangian,))) if view.lagrangian else "",
+        "steps": [{"text": s.text, "math": display(aligned(s.lines)) if s.lines else ""}
+                  for s in view.steps],
+        "dual": "" if view.dual.unbounded else display(problem_block(view.dual)),
+        "unbounded": unbounded_sentence(view.dual, r"$-\infty$", r"$+\infty$"),
+        "kkt": [{"group": k.group[:1].upper() + k.group[1:], "math": display(aligned(k.lines))}
+                for k in view.kkt],
+        "recovery": [{"math": display(aligned((Line(r.variable, "=", r.formula),)))
+                      if r.formula is not None else "", "variable": r.variable,
+                      "note": r.note} for r in view.recovery],
+        "notes": view.notes,
+    }
+
+
+def render_markdown(derivation: Derivation, analysis: Analysis | None = None) -> str:
+    """The whole derivation as Markdown with ``$$`` math blocks."""
+    view = build_view(derivation, analysis, MarkdownFormatter())
+    return fill("derivation.md.j2", **_context(view))
+
+
+def repr_markdown(derivation: Derivation) -> str:
+    """What a notebook shows for a derivation: the Markdown document without verdicts."""
+    return render_markdown(derivation, None)
