@@ -1,0 +1,5 @@
+"""``python -m dualize`` runs the command line."""
+
+from dualize.cli import main
+
+main()

@@ -1,0 +1,78 @@
+"""The command line: thin commands over the library.
+
+Each command reads its options, calls one library function, picks a formatter
+and returns an exit code.  User-facing errors (``DualizeError``) are caught in
+one place (``DualizeGroup.invoke``); anything else is an internal error, reported
+in one line with exit code 3, never as a traceback.  Heavy libraries are
+imported inside the commands, so ``dualize --help`` loads click alone.
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+
+import click
+
+from dualize.errors import DualizeError
+
+EXIT_INTERNAL = 3
+
+
+def _version() -> str:
+    from importlib.metadata import PackageNotFoundError, version
+
+    try:
+        return version("dualize")
+    except PackageNotFoundError:
+        return "0.1.0"
+
+
+class DualizeGroup(click.Group):
+    """A click group that turns every failure into one line and an exit code."""
+
+    def invoke(self, ctx: click.Context) -> object:
+        try:
+            return super().invoke(ctx)
+        except DualizeError as err:
+            click.echo(f"dualize: {err.message}", err=True)
+            ctx.exit(err.exit_code)
+        except (click.exceptions.Exit, click.exceptions.Abort, click.ClickException):
+            raise
+        except Exception as err:  # noqa: BLE001 - the one catch-all of the program
+            click.echo(f"internal error: {type(err).__name__}: {err}", err=True)
+            ctx.exit(EXIT_INTERNAL)
+        return None
+
+
+@click.group(cls=DualizeGroup)
+@click.version_option(_version(), prog_name="dualize")
+def main() -> None:
+    """Derive, check and explain Lagrange duals of optimization problems."""
+
+
+@main.command()
+@click.argument("paths", nargs=-1, required=True, type=click.Path())
+@click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
+              show_default=True, help="How to print the findings.")
+def lint(paths: tuple[str, ...], fmt: str) -> None:
+    """Check problem files (and folders of *.prob files) for mistakes."""
+    from dualize.lint import lint_paths
+
+    report = lint_paths(paths)
+    _print_lint(report, fmt)
+    sys.exit(1 if report.count("error") else 0)
+
+
+def _print_lint(report: object, fmt: str) -> None:
+    from dualize.render.diagnostics import diagnostics_json, format_text
+
+    diagnostics = report.diagnostics  # type: ignore[attr-defined]
+    if fmt == "json":
+        click.echo(json.dumps(diagnostics_json(diagnostics), indent=2, ensure_ascii=False))
+        return
+    if diagnostics:
+        click.echo(format_text(diagnostics, report.sources))  # type: ignore[attr-defined]
+    errors, warnings = report.count("error"), report.count("warning")  # type: ignore[attr-defined]
+    files = len(report.files)  # type: ignore[attr-defined]
+    click.echo(f"{files} file(s) checked: {errors} error(s), {warnings} warning(s)")

@@ -1,0 +1,101 @@
+"""The lint runner: files and folders in, every diagnostic of every file out.
+
+Each file is loaded (syntax and resolution); a file that resolves is then handed
+to the analysis stage (``dualize.analysis.analyze``) when that stage is present.
+The report is in a stable order: files sorted by path, diagnostics by position.
+"""
+
+from __future__ import annotations
+
+import importlib
+from collections.abc import Callable, Iterable, Sequence
+from dataclasses import dataclass
+from pathlib import Path
+
+from dualize.diagnostics import SEVERITY_ORDER, Diagnostic
+from dualize.errors import DualizeError
+
+PROBLEM_SUFFIX = ".prob"
+
+
+@dataclass(frozen=True)
+class FileReport:
+    path: str
+    source: str
+    diagnostics: tuple[Diagnostic, ...]
+
+
+@dataclass(frozen=True)
+class LintReport:
+    files: tuple[FileReport, ...]
+
+    @property
+    def diagnostics(self) -> tuple[Diagnostic, ...]:
+        return tuple(d for f in self.files for d in f.diagnostics)
+
+    @property
+    def sources(self) -> dict[str, str]:
+        return {f.path: f.source for f in self.files}
+
+    def count(self, severity: str) -> int:
+        return sum(1 for d in self.diagnostics if d.severity == severity)
+
+    def worst(self) -> str | None:
+        """The highest severity found, or None for a clean run."""
+        found = [d.severity for d in self.diagnostics]
+        return max(found, key=SEVERITY_ORDER.__getitem__) if found else None
+
+
+def collect_files(paths: Iterable[str | Path]) -> list[Path]:
+    """Files as given, folders searched recursively for *.prob, in sorted order."""
+    found: list[Path] = []
+    for raw in paths:
+        path = Path(raw)
+        if path.is_dir():
+            found.extend(sorted(p for p in path.rglob(f"*{PROBLEM_SUFFIX}") if p.is_file()))
+        elif path.is_file():
+            found.append(path)
+        else:
+            raise DualizeError(f"no such file or folder: {raw}", exit_code=2)
+    return sorted(dict.fromkeys(found), key=str)
+
+
+def lint_paths(paths: Sequence[str | Path]) -> LintReport:
+    """Lint every problem file under ``paths``."""
+    return LintReport(tuple(lint_file(p) for p in collect_files(paths)))
+
+
+def lint_file(path: str | Path) -> FileReport:
+    from dualize.model import load_file
+
+    loaded = load_file(path)
+    found = list(loaded.diagnostics)
+    problem = loaded.problem
+    analyze = analysis_hook()
+    if problem is not None and analyze is not None:
+        found.extend(analyze(problem).diagnostics)
+    source = problem.source if problem is not None else _source(path)
+    return FileReport(str(path), source, tuple(sorted(found, key=_position)))
+
+
+def analysis_hook() -> Callable | None:
+    """``dualize.analysis.analyze`` if the analysis stage provides it."""
+    try:
+        module = importlib.import_module("dualize.analysis")
+    except ModuleNotFoundError as err:
+        if err.name != "dualize.analysis":
+            raise
+        return None
+    return getattr(module, "analyze", None)
+
+
+def _source(path: str | Path) -> str:
+    try:
+        return Path(path).read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError):
+        return ""
+
+
+def _position(d: Diagnostic) -> tuple[int, int, str, str]:
+    line, column = (d.span.line, d.span.column) if d.span else (0, 0)
+    return line, column, d.rule, d.message
