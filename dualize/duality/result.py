@@ -105,8 +105,11 @@ KKTGroup = Literal[
 
 @dataclass(frozen=True)
 class Condition:
+    """One KKT condition; ``equation`` is None when only ``note`` can state it
+    (a subgradient condition such as 0 in the subdifferential of a norm)."""
+
     group: KKTGroup
-    equation: Equation
+    equation: Equation | None
     note: str = ""
 
 
