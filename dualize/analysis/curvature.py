@@ -14,7 +14,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 
 from dualize.analysis import sign as S
-from dualize.analysis.forms import gram_middle, is_log_sum_exp, transpose_of
+from dualize.analysis.forms import gram_middle, is_log_sum_exp, pull_scalars, transpose_of
 from dualize.model import expr as E
 
 Curvature = str  # "constant" | "affine" | "convex" | "concave" | "unknown"
@@ -129,6 +129,9 @@ class _Rules:
         return "unknown"
 
     def _matmul(self, node: E.MatMul) -> Curvature:
+        pulled = pull_scalars(node)
+        if pulled != node:
+            return self.of(pulled)
         curvs = [self.of(f) for f in node.factors]
         varying = [i for i, c in enumerate(curvs) if c != "constant"]
         if not varying:

@@ -26,6 +26,31 @@ def transpose_of(node: E.Expr) -> E.Expr:
     return E.Transpose(node)
 
 
+def _scalar_part(f: E.Expr) -> tuple[list[E.Expr], E.Expr]:
+    """A factor ``c * A`` (or ``(c * A)'``) as ([c], A), so products can be reordered."""
+    if isinstance(f, E.Scale):
+        inner, rest = _scalar_part(f.arg)
+        return [f.factor] + inner, rest
+    if isinstance(f, E.Transpose) and isinstance(f.arg, E.Scale):
+        inner, rest = _scalar_part(f.arg.arg)
+        return [f.arg.factor] + inner, E.Transpose(rest)
+    return [], f
+
+
+def pull_scalars(node: E.MatMul) -> E.Expr:
+    """``A (c B) C`` as ``c (A B C)``: scalar factors moved out of a matrix product."""
+    scalars: list[E.Expr] = []
+    factors: list[E.Expr] = []
+    for f in node.factors:
+        cs, rest = _scalar_part(f)
+        scalars += cs
+        factors.append(rest)
+    out: E.Expr = E.MatMul(tuple(factors))
+    for c in reversed(scalars):
+        out = E.Scale(c, out)
+    return out
+
+
 def _flat(factors: tuple[E.Expr, ...]) -> list[E.Expr]:
     out: list[E.Expr] = []
     for f in factors:

@@ -27,6 +27,8 @@ from dualize.model.problem import Problem
 
 TOL = 1e-7
 SLATER = "Slater's condition holds (Boyd and Vandenberghe, 2004, section 5.2.3)"
+REFINED = ("the refined Slater condition holds (Boyd and Vandenberghe, 2004, "
+           "section 5.2.3)")
 Row = Callable[[np.ndarray], np.ndarray]
 
 
@@ -44,16 +46,16 @@ def numeric_verdict(problem: Problem, conv: Convexity, instance: Mapping[str, An
                        detail="the instance's affine constraints have no common point")
     if not rows.strict:
         if point is not None and rows.hard_ok(point):
-            return _shown(lay, point, "feasible and every constraint is affine, so the "
-                          "refined condition holds")
+            return _shown(lay, point, "feasible and every constraint is affine", REFINED)
         return Verdict("unknown", "linprog could not decide the feasibility of the affine "
                        "constraints on this instance")
     return _decide(rows, lay)
 
 
-def _shown(lay: Layout, z: np.ndarray, what: str) -> Verdict:
+def _shown(lay: Layout, z: np.ndarray, what: str, why: str = "") -> Verdict:
+    z = np.where(z == 0, 0.0, z)  # no "-0" in reports
     shown = ", ".join(f"{k} = {_short(v)}" for k, v in lay.witness(z).items())
-    return Verdict("guaranteed", f"{shown} is {what}: {SLATER}", lay.witness(z))
+    return Verdict("guaranteed", f"{shown} is {what}: {why or SLATER}", lay.witness(z))
 
 
 def _decide(rows: _Rows, lay: Layout) -> Verdict:

@@ -13,7 +13,7 @@ from typing import Any
 from dualize.analysis import rules as R
 from dualize.analysis.convexity import Convexity
 from dualize.analysis.curvature import curvature
-from dualize.analysis.forms import gram_middle
+from dualize.analysis.forms import gram_middle, pull_scalars
 from dualize.diagnostics import Diagnostic, make
 from dualize.model import expr as E
 from dualize.model.problem import Constraint, Problem
@@ -115,6 +115,7 @@ def _dual_unbounded(problem: Problem, conv: Convexity) -> list[Diagnostic]:
 def _quadratic_direction(obj: E.Expr, problem: Problem) -> str | None:
     """The free variable of a term -c * e'Me (or -c * ||e||^2) in the objective, if any."""
     terms = obj.terms if isinstance(obj, E.Add) else (obj,)
+    terms = tuple(pull_scalars(t) if isinstance(t, E.MatMul) else t for t in terms)
     free = {v.name for v in problem.variables if v.domain.kind == "free"}
     for t in terms:
         if isinstance(t, E.Scale) and _is_square(t.arg):
