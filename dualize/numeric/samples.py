@@ -4,6 +4,8 @@ Weak duality says g(y) <= f0(x) for EVERY dual-feasible y and primal-feasible
 x of a minimization (common practice; S. Boyd and L. Vandenberghe, Convex
 Optimization, 2004, section 5.1.3).  Checking it away from the optima catches
 a dual objective that is right at the optimum by accident but wrong elsewhere.
+The reference optimum joins the primal samples, which makes the check sharp:
+every random dual value must stay below p*.
 Random feasible points are made by projecting random points onto each
 feasible set (a small convex solve); where a set is not convex, no samples are
 drawn and the report says so.
@@ -36,12 +38,18 @@ class WeakDualitySamples:
 
 def weak_duality_samples(derivation: Derivation, instance: Instance, n: int = 8,
                          seed: int = 0) -> WeakDualitySamples:
-    """``n`` random feasible points on each side; ok when no dual value beats a primal one."""
+    """``n`` random feasible points on each side; ok when no dual value beats a primal one.
+
+    The primal side also includes the reference optimum (the last entry of
+    ``primal_values`` when the reference solve succeeded), so a dual objective is
+    tested against p* at every random dual-feasible point.
+    """
     from dualize.numeric.verify import tolerance
 
     rng = np.random.default_rng(seed)
     primal = [v for v in (_primal_sample(derivation.problem, instance, rng) for _ in range(n))
               if v is not None and math.isfinite(v)]
+    primal += _reference_optimum(derivation.problem, instance)
     dual = [v for v in (_dual_sample(derivation.dual, instance, rng) for _ in range(n))
             if v is not None and math.isfinite(v)]
     if not primal or not dual:
@@ -53,6 +61,15 @@ def weak_duality_samples(derivation: Derivation, instance: Instance, n: int = 8,
     violation = best_dual - best_primal
     ok = violation <= tolerance(best_primal, best_dual)
     return WeakDualitySamples(tuple(dual), tuple(primal), ok, max(0.0, violation))
+
+
+def _reference_optimum(problem: Problem, instance: Instance) -> list[float]:
+    """The reference p* (or a local value: still a primal-feasible value) when solved."""
+    from dualize.numeric.reference import solve_primal
+
+    sol = solve_primal(problem, instance)
+    ok = sol.status in ("optimal", "inaccurate", "local") and math.isfinite(sol.value)
+    return [sol.value] if ok else []
 
 
 def _projected(variables: dict[str, Any], targets: dict[str, np.ndarray], constraints: list[Any]
