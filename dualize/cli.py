@@ -53,21 +53,41 @@ def main() -> None:
 
 @main.command()
 @click.argument("paths", nargs=-1, required=True, type=click.Path())
-@click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
-              show_default=True, help="How to print the findings.")
-def lint(paths: tuple[str, ...], fmt: str) -> None:
-    """Check problem files (and folders of *.prob files) for mistakes."""
-    from dualize.lint import lint_paths
+@click.option("--format", "fmt", type=click.Choice(["text", "json", "sarif"]), default="text",
+              show_default=True, help="How to print the findings (sarif: SARIF 2.1.0).")
+@click.option("--select", multiple=True, metavar="RULES",
+              help="Report only these rule ids or id prefixes (comma-separated, repeatable).")
+@click.option("--ignore", multiple=True, metavar="RULES",
+              help="Do not report these rule ids or id prefixes (comma-separated, repeatable).")
+@click.option("--fail-on", type=click.Choice(["error", "warning", "info"]), default=None,
+              help="Exit with 1 when a finding is at least this severe [default: error].")
+def lint(paths: tuple[str, ...], fmt: str, select: tuple[str, ...], ignore: tuple[str, ...],
+         fail_on: str | None) -> None:
+    """Check problem files (and folders of *.prob files) for mistakes.
 
-    report = lint_paths(paths)
+    Settings may also come from [tool.dualize] in pyproject.toml (keys select, ignore,
+    fail-on); options given here replace them.
+    """
+    from dualize.lint import lint_paths
+    from dualize.lint_config import configured, filtered
+
+    config = configured(select, ignore, fail_on)
+    report = filtered(lint_paths(paths), config)
     _print_lint(report, fmt)
-    sys.exit(1 if report.count("error") else 0)
+    sys.exit(1 if config.fails(report.diagnostics) else 0)
 
 
 def _print_lint(report: object, fmt: str) -> None:
     from dualize.render.diagnostics import diagnostics_json, format_text
 
     diagnostics = report.diagnostics  # type: ignore[attr-defined]
+    if fmt == "sarif":
+        from dualize.diagnostics import rule_table
+        from dualize.render.sarif import sarif_log
+
+        log = sarif_log(diagnostics, rule_table(), _version())
+        click.echo(json.dumps(log, indent=2, ensure_ascii=False))
+        return
     if fmt == "json":
         click.echo(json.dumps(diagnostics_json(diagnostics), indent=2, ensure_ascii=False))
         return
