@@ -61,8 +61,11 @@ def main() -> None:
               help="Do not report these rule ids or id prefixes (comma-separated, repeatable).")
 @click.option("--fail-on", type=click.Choice(["error", "warning", "info"]), default=None,
               help="Exit with 1 when a finding is at least this severe [default: error].")
+@click.option("--data", type=click.Path(), default=None,
+              help="An instance (JSON or TOML data values) for one problem file: decides "
+              "Slater's condition and dependent equalities on those values.")
 def lint(paths: tuple[str, ...], fmt: str, select: tuple[str, ...], ignore: tuple[str, ...],
-         fail_on: str | None) -> None:
+         fail_on: str | None, data: str | None) -> None:
     """Check problem files (and folders of *.prob files) for mistakes.
 
     Settings may also come from [tool.dualize] in pyproject.toml (keys select, ignore,
@@ -72,7 +75,7 @@ def lint(paths: tuple[str, ...], fmt: str, select: tuple[str, ...], ignore: tupl
     from dualize.lint_config import configured, filtered
 
     config = configured(select, ignore, fail_on)
-    report = filtered(lint_paths(paths), config)
+    report = filtered(lint_paths(paths, data=data), config)
     _print_lint(report, fmt)
     sys.exit(1 if config.fails(report.diagnostics) else 0)
 

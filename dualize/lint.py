@@ -62,10 +62,16 @@ def collect_files(paths: Iterable[str | Path]) -> list[Path]:
     return sorted(dict.fromkeys(found), key=str)
 
 
-def lint_paths(paths: Sequence[str | Path], jobs: int | None = None) -> LintReport:
+def lint_paths(paths: Sequence[str | Path], jobs: int | None = None,
+               data: str | None = None) -> LintReport:
     """Lint every problem file under ``paths``, on ``jobs`` processes (default: every core)
-    when there are at least PARALLEL_FROM files; the report keeps the sorted file order."""
+    when there are at least PARALLEL_FROM files; the report keeps the sorted file order.
+    ``data`` is an instance file for a single problem (Slater's condition on its values)."""
     files = collect_files(paths)
+    if data is not None:
+        if len(files) != 1:
+            raise DualizeError("--data applies to exactly one problem file", exit_code=2)
+        return LintReport((lint_file(files[0], data),))
     workers = min(jobs or os.cpu_count() or 1, len(files))
     if len(files) < PARALLEL_FROM or workers < 2:
         return LintReport(tuple(lint_file(p) for p in files))
@@ -75,7 +81,7 @@ def lint_paths(paths: Sequence[str | Path], jobs: int | None = None) -> LintRepo
         return LintReport(tuple(pool.map(lint_file, files)))
 
 
-def lint_file(path: str | Path) -> FileReport:
+def lint_file(path: str | Path, data: str | None = None) -> FileReport:
     from dualize.model import load_file
 
     loaded = load_file(path)
@@ -83,9 +89,18 @@ def lint_file(path: str | Path) -> FileReport:
     problem = loaded.problem
     analyze = analysis_hook()
     if problem is not None and analyze is not None:
-        found.extend(analyze(problem).diagnostics)
+        found.extend(analyze(problem, *_instance(problem, data)).diagnostics)
     source = problem.source if problem is not None else _source(path)
     return FileReport(str(path), source, tuple(sorted(found, key=_position)))
+
+
+def _instance(problem: object, data: str | None) -> tuple[object, ...]:
+    """The instance read from ``data`` (as the analysis's extra argument), if given."""
+    if data is None:
+        return ()
+    from dualize.numeric.instance import read_instance
+
+    return (read_instance(data, problem),)  # type: ignore[arg-type]
 
 
 def analysis_hook() -> Callable | None:

@@ -16,7 +16,6 @@ from dualize.diagnostics import Diagnostic, RuleKind
 
 SARIF_VERSION = "2.1.0"
 SARIF_SCHEMA = "https://json.schemastore.org/sarif-2.1.0.json"
-INFORMATION_URI = "https://dualize.invalid/docs/lint"
 _LEVEL = {"error": "error", "warning": "warning", "info": "note"}
 
 
@@ -30,7 +29,7 @@ def sarif_log(diagnostics: Iterable[Diagnostic], rules: Mapping[str, RuleKind],
         table.setdefault(d.rule, RuleKind(d.rule, d.severity, d.rule, "", "analysis"))
     table = dict(sorted(table.items()))
     index = {rule_id: i for i, rule_id in enumerate(table)}
-    driver = {"name": "dualize", "version": version, "informationUri": INFORMATION_URI,
+    driver = {"name": "dualize", "version": version,
               "rules": [_rule(k) for k in table.values()]}
     run = {"tool": {"driver": driver}, "columnKind": "unicodeCodePoints",
            "results": [_result(d, index[d.rule]) for d in found]}
