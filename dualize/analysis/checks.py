@@ -91,8 +91,10 @@ def _integrality(problem: Problem, conv: Convexity) -> list[Diagnostic]:
 
 
 def _slater(problem: Problem, verdict: Verdict) -> list[Diagnostic]:
+    spans = {c.label: c.span for c in problem.constraints}
+    span = spans.get(verdict.label) if verdict.label else None
     if verdict.finding == "slater-fails":
-        return [make(R.SLATER_FAILS, problem.path, None, detail=verdict.detail)]
+        return [make(R.SLATER_FAILS, problem.path, span, detail=verdict.detail)]
     if verdict.finding == "slater-undecided":
-        return [make(R.SLATER_UNDECIDED, problem.path, None, detail=verdict.detail)]
+        return [make(R.SLATER_UNDECIDED, problem.path, span, detail=verdict.detail)]
     return []

@@ -19,6 +19,7 @@ class Verdict:
     witness: dict[str, list | float] | None = None
     finding: str | None = None  # the lint rule id the verdict raises, if any
     detail: str = ""  # the part of the reason the finding's message quotes
+    label: str | None = None  # the constraint the finding points at
 
 
 @dataclass(frozen=True)

@@ -83,7 +83,8 @@ def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
     detail = f"a point must satisfy {what} strictly"
     return Verdict("unknown", f"Slater's condition cannot be decided on symbolic data "
                    f"({detail}); give an instance with --data",
-                   finding="slater-undecided", detail=detail)
+                   finding="slater-undecided", detail=detail,
+                   label=strict[0] if strict else None)
 
 
 AFFINE_REASON = ("all constraints are affine and the domain is polyhedral or open: by the "

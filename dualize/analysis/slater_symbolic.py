@@ -75,7 +75,7 @@ def _proved_empty(rows: list, strict: set[str]) -> Verdict | None:
                           f"so '{con.label}' can never hold strictly")
                 return Verdict("not-guaranteed", f"no strictly feasible point: {detail}; "
                                "Slater's condition fails and a duality gap is possible",
-                               finding="slater-fails", detail=detail)
+                               finding="slater-fails", detail=detail, label=con.label)
     return None
 
 
