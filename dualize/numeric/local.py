@@ -37,7 +37,7 @@ def solve_local(problem: Problem, instance: Instance, fixed: dict[str, np.ndarra
         return Solution("failed", float("nan"), note=f"{why}; no local solve found a "
                                                      "feasible point")
     point = {**layout.split(best), **fixed}
-    value = sign * _objective(problem, instance, point)
+    value = _objective(problem, instance, point)
     x = {k: _stored(v) for k, v in sorted(point.items())}
     return Solution("local", float(value), x, {},
                     note=f"{why}; best of {STARTS} local solves (a bound, not p*)")

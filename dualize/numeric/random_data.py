@@ -23,8 +23,15 @@ The feasibility rule, in full:
    outside its set, x0 is redrawn (up to 20 times); if that never works the
    data keeps its step-2 value and feasibility is not promised.
 
-Constraints without such a data symbol are left as they are: the primal is
-then feasible only if x0 (or some other point) happens to satisfy them.
+5. Before step 4, when x0 violates a constraint that no target covers
+   (``sum(x) == 1``), x0 is moved to the nearest point (least squares) that
+   satisfies those constraints with a margin of 0.05 and keeps the arguments
+   of every log and sqrt above 0.05; this needs a convex solve and is skipped
+   when those constraints are not convex.
+
+Constraints without such a data symbol that x0 cannot be moved into are left
+as they are: the primal is then feasible only if some point happens to satisfy
+them.
 """
 
 from __future__ import annotations
@@ -60,7 +67,8 @@ def random_instance(problem: Problem, dims: dict[str, int] | None = None,
     values = {d.name: draw_value(d.symbol, sizes, rng) for d in problem.data}
     targets = find_targets(problem)
     for _ in range(ATTEMPTS):
-        point = draw_point(problem, values, sizes, rng)
+        point = repair_point(problem, targets, values, draw_point(problem, values, sizes, rng),
+                             sizes)
         fixed = _apply_targets(problem, targets, values, point, sizes, rng)
         if fixed is not None:
             values = fixed
@@ -224,3 +232,84 @@ def _raise_into_set(value: np.ndarray | float, facts: frozenset[str]) -> np.ndar
     floor = 0.1 if facts & {"pos", "nonneg"} else -np.inf
     raised = np.maximum(arr, floor)
     return float(raised) if raised.ndim == 0 else raised
+
+
+MARGIN = 0.05
+
+
+def repair_point(problem: Problem, targets: tuple[Target | None, ...],
+                 values: dict[str, np.ndarray | float], point: dict[str, np.ndarray | float],
+                 dims: dict[str, int]) -> dict[str, np.ndarray | float]:
+    """x0 moved into the constraints no target covers (rule 5), or x0 unchanged."""
+    loose = [c for c, t in zip(problem.constraints, targets, strict=True) if t is None]
+    env = {**values, **point}
+    if all(_holds(c, env, dims) for c in loose):
+        return point
+    try:
+        return _project(problem, loose, values, point, dims)
+    except (ValueError, TypeError, ArithmeticError):
+        return point
+
+
+def _holds(con: Constraint, env: dict[str, np.ndarray | float], dims: dict[str, int]) -> bool:
+    with np.errstate(all="ignore"):
+        f = np.asarray(evaluate(con.function, env, dims), dtype=float)
+    if con.kind == "eq":
+        return bool(np.all(np.abs(f) <= 1e-9))
+    if con.kind == "psd":
+        return bool(np.linalg.eigvalsh((f + f.T) / 2)[-1] < 0)
+    return bool(np.all(f < 0))
+
+
+def _project(problem: Problem, loose: list[Constraint], values: dict[str, np.ndarray | float],
+             point: dict[str, np.ndarray | float], dims: dict[str, int]
+             ) -> dict[str, np.ndarray | float]:
+    import cvxpy as cp
+
+    from dualize.numeric.reference import domain_constraints, make_variable, run_solver
+    from dualize.numeric.translate import to_cvxpy
+
+    inst = Instance(values, dims)
+    variables, cons = {}, []
+    for var in problem.variables:
+        if var.domain.kind in ("binary", "integer"):
+            return point
+        x, _ = make_variable(var, dims)
+        variables[var.name] = x
+        cons += domain_constraints(var, x, inst)
+    for con in loose:
+        cons.append(_with_margin(con.kind, to_cvxpy(con.function, variables, values, dims)))
+    cons += _log_domains(problem, variables, values, dims)
+    distance = sum(cp.sum_squares(variables[k] - np.reshape(np.asarray(point[k]),
+                                                             variables[k].shape))
+                   for k in sorted(variables))
+    prob = cp.Problem(cp.Minimize(distance), cons)
+    if not prob.is_dcp() or run_solver(prob) not in ("optimal", "inaccurate"):
+        return point
+    return {k: _stored(np.asarray(v.value)) for k, v in variables.items()}
+
+
+def _with_margin(kind: str, f: object) -> object:
+    if kind == "eq":
+        return f == 0
+    if kind == "psd":
+        size = f.shape[0]  # type: ignore[attr-defined]
+        return (f + f.T) / 2 << -MARGIN * np.eye(size)  # type: ignore[attr-defined]
+    return f <= -MARGIN
+
+
+def _log_domains(problem: Problem, variables: dict[str, object],
+                 values: dict[str, np.ndarray | float], dims: dict[str, int]) -> list[object]:
+    """arg >= MARGIN for every log or sqrt of a variable expression that cvxpy accepts."""
+    from dualize.numeric.translate import to_cvxpy
+
+    exprs = [problem.objective] + [c.function for c in problem.constraints]
+    args = [node.arg for e in exprs for node in ir.walk(e)
+            if isinstance(node, ir.Apply) and node.func in ("log", "sqrt")
+            and ir.depends_on(node.arg, set(variables))]
+    out = []
+    for arg in args:
+        con = to_cvxpy(arg, variables, values, dims) >= MARGIN
+        if con.is_dcp():
+            out.append(con)
+    return out

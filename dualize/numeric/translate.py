@@ -69,25 +69,42 @@ def _translate(expr: ir.Expr, ctx: _Ctx) -> CvxExpr:
     return handler(expr, ctx)
 
 
-def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
-    """u' M1 ... Mk u with every M data, or u' u: a quadratic form cvxpy can certify.
+def _peel(e: ir.Expr) -> tuple[list[ir.Expr], ir.Expr]:
+    """Scalar factors around a row or column: Scale(k, Transpose(Scale(j, u))) -> [k, j], u'."""
+    coefs: list[ir.Expr] = []
+    while isinstance(e, ir.Scale) or (isinstance(e, ir.Transpose)
+                                      and isinstance(e.arg, ir.Scale)):
+        if isinstance(e, ir.Scale):
+            coefs.append(e.factor)
+            e = e.arg
+        else:
+            coefs.append(e.arg.factor)
+            e = ir.Transpose(e.arg.arg)
+    return coefs, e
 
-    The middle product P is symmetrized (u'Pu = u'(P + P')/2 u); cvxpy then
-    certifies convexity when P is PSD and concavity when it is NSD.
+
+def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    """k u' M1 ... Mj u with k and every M data, or k u' u: a quadratic form cvxpy certifies.
+
+    Scalar factors written on the row or the column (``1/2 * x' * P * x`` resolves
+    to a scaled row vector) are pulled out; the middle product P is symmetrized
+    (u'Pu = u'(P + P')/2 u), so cvxpy certifies convexity when P is PSD.
     """
     if not isinstance(expr, ir.MatMul) or len(expr.factors) < 2:
         return None
-    first, last = expr.factors[0], expr.factors[-1]
+    head_coefs, first = _peel(expr.factors[0])
+    tail_coefs, last = _peel(expr.factors[-1])
+    coefs, middle = head_coefs + tail_coefs, expr.factors[1:-1]
     if not (isinstance(first, ir.Transpose) and first.arg == last and last.shape.cols == 1):
         return None
-    middle = expr.factors[1:-1]
-    if any(ctx.varies(f) for f in middle):
+    if any(ctx.varies(f) for f in (*middle, *coefs)):
         return None
+    k = float(np.prod([evaluate_2d(c, ctx.values, ctx.dims)[0, 0] for c in coefs]))
     u = ctx(last)
     if not middle:
-        return _as_2d(ctx.cp, ctx.cp.sum_squares(u))
+        return _as_2d(ctx.cp, k * ctx.cp.sum_squares(u))
     p = evaluate_2d(ir.MatMul(middle) if len(middle) > 1 else middle[0], ctx.values, ctx.dims)
-    return _as_2d(ctx.cp, ctx.cp.quad_form(u, (p + p.T) / 2))
+    return _as_2d(ctx.cp, k * ctx.cp.quad_form(u, (p + p.T) / 2))
 
 
 def _squared_norm(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:

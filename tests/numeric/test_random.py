@@ -82,8 +82,19 @@ def box_domain_problem() -> Problem:
     return problem(ir.SumAll(x.symbol), [x], [u, b, A], cons)
 
 
+def entropy_problem() -> Problem:
+    """Entropy maximization (Boyd and Vandenberghe, 2004, section 5.1.6, from memory):
+    sum(x) == 1 has no data, so x0 is moved onto it (rule 5) before b is set."""
+    A, b = data("A", m, n), data("b", m)
+    x = var("x", n)
+    obj = ir.SumAll(ir.Hadamard(x.symbol, ir.Apply("log", x.symbol)))
+    cons = [con("lam", ir.MatMul((A.symbol, x.symbol)), "<=", b.symbol),
+            con("nu", ir.SumAll(x.symbol), "==", num(1))]
+    return problem(obj, [x], [A, b], cons)
+
+
 FEASIBLE = [inequality_lp, standard_lp, least_norm, norm_ball_qp, small_sdp,
-            box_chain_problem, matrix_upper_problem, box_domain_problem]
+            box_chain_problem, matrix_upper_problem, box_domain_problem, entropy_problem]
 
 
 def strictly_feasible(p: Problem, inst: Instance) -> bool:
@@ -161,3 +172,19 @@ def test_scalar_data_are_floats_and_vectors_one_dimensional() -> None:
     assert isinstance(inst.values["r"], float) and inst.values["r"] > 0
     assert inst.values["q"].shape == (4,)
     assert inst.values["P"].shape == (4, 4)
+
+
+def test_point_repair_is_what_makes_the_entropy_instance_feasible() -> None:
+    from dualize.numeric import random_data
+
+    p = entropy_problem()
+    targets = random_data.find_targets(p)
+    assert [t.name if t else None for t in targets] == ["b", None]
+    rng = np.random.default_rng(0)
+    sizes = {"m": 4, "n": 5}
+    values = {d.name: random_data.draw_value(d.symbol, sizes, rng) for d in p.data}
+    point = random_data.draw_point(p, values, sizes, rng)
+    fixed = random_data.repair_point(p, targets, values, point, sizes)
+    assert float(np.sum(point["x"])) > 1.2  # drawn entries lie in [0.25, 1]
+    assert float(np.sum(fixed["x"])) == pytest.approx(1.0, abs=1e-7)
+    assert float(np.min(fixed["x"])) >= random_data.MARGIN - 1e-7

@@ -253,3 +253,32 @@ def test_to_cvxpy_strict_fallback() -> None:
 
     with pytest.raises(TypeError, match="Strange"):
         to_cvxpy(Strange(), {"x": cp.Variable((1, 1))}, {}, {})
+
+
+def test_nonconvex_maximization_reports_the_true_objective() -> None:
+    # maximize x1 * x2 s.t. x1 + x2 <= 2, x >= 0: optimum 1 at (1, 1) (AM-GM inequality,
+    # common practice).  The product is not certifiable, so the status is "local".
+    x1, x2 = var("x1").symbol, var("x2").symbol
+    cons = [con("a", ir.Add((x1, x2)), "<=", num(2)), con("b", x1, ">=", num(0)),
+            con("c", x2, ">=", num(0))]
+    p, _ = scalar_problem(ir.Scale(x1, x2), cons, ("x1", "x2"))
+    sol = solve_primal(replace(p, sense="maximize"), Instance({}, {}))
+    assert sol.status == "local"
+    assert sol.value == pytest.approx(1.0, abs=1e-6)
+
+
+def test_scaled_quadratic_forms_are_recognised() -> None:
+    # 1/2 * x' * P * x resolves to MatMul(Scale(1/2, x'), P, x); still a convex QP whose
+    # unconstrained minimum is -1/2 q'P^-1 q (common practice).
+    P = data("P", n, n, ("symmetric", "psd", "pd"), "S^n_++")
+    q = data("q", n)
+    x = var("x", n)
+    row = ir.Scale(num("1/2"), ir.Transpose(x.symbol))
+    obj = ir.Add((ir.MatMul((row, P.symbol, x.symbol)),
+                  ir.MatMul((ir.Transpose(q.symbol), x.symbol))))
+    p = problem(obj, [x], [P, q], [], dims=(n,))
+    inst = random_instance(p, {"n": 3}, seed=4)
+    sol = solve_primal(p, inst)
+    assert sol.status == "optimal"
+    pv, qv = inst.values["P"], inst.values["q"]
+    assert sol.value == pytest.approx(-0.5 * qv @ np.linalg.solve(pv, qv), rel=1e-6)
