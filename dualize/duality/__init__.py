@@ -1,1 +1,5 @@
+"""The derivation engine: Lagrangian, inner minimization, simplification, KKT."""
 
+from dualize.duality.engine import derive
+
+__all__ = ["derive"]

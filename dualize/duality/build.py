@@ -37,7 +37,7 @@ from dualize.model.expr import (
 
 
 def num(value: int | sympy.Expr) -> Number:
-    return Number(sympy.sympify(value) if isinstance(value, int) else value)
+    return Number(sympy.Integer(value) if isinstance(value, int) else value)
 
 
 def zeros(shape: Shape) -> Expr:
@@ -84,31 +84,45 @@ def sub(a: Expr, b: Expr) -> Expr:
 
 
 def scale(c: Expr, e: Expr) -> Expr:
-    """A scalar times an expression; numbers fold and nested scalings merge."""
+    """A scalar times an expression: scalar factors flattened, numbers folded
+    into one leading number, the result nested as Scale(k, Scale(c1, ... e))."""
     if is_zero(c) or is_zero(e):
         return zeros(e.shape)
-    if is_one(c):
-        return e
-    if isinstance(c, Number) and isinstance(e, Number):
-        return Number(c.value * e.value)
-    if isinstance(e, Scale):
-        return scale(mul_scalars(c, e.factor), e.arg)
-    if isinstance(c, Scale) and isinstance(c.factor, Number) and not isinstance(e, Number):
-        return scale(c.factor, scale(c.arg, e))
-    if isinstance(e, Number) and e.shape.is_scalar:
-        return scale(e, c) if c.shape.is_scalar else Scale(e, c)
-    return Scale(c, e)
+    factors = _scalar_factors(c)
+    while isinstance(e, Scale):
+        factors += _scalar_factors(e.factor)
+        e = e.arg
+    if e.shape.is_scalar:
+        factors += _scalar_factors(e)
+        body: Expr | None = None
+    else:
+        body = e
+    number = sympy.Integer(1)
+    others: list[Expr] = []
+    for f in factors:
+        if isinstance(f, Number):
+            number *= f.value
+        else:
+            others.append(f)
+    if number == 0:
+        return zeros(e.shape)
+    parts = ([Number(number)] if number != 1 else []) + others
+    if body is None:
+        if not parts:
+            return Number(sympy.Integer(1))
+        body, parts = parts[-1], parts[:-1]
+    for p in reversed(parts):
+        body = Scale(p, body)
+    return body
+
+
+def _scalar_factors(c: Expr) -> list[Expr]:
+    if isinstance(c, Scale) and c.arg.shape.is_scalar:
+        return _scalar_factors(c.factor) + _scalar_factors(c.arg)
+    return [c]
 
 
 def mul_scalars(a: Expr, b: Expr) -> Expr:
-    if isinstance(a, Number) and isinstance(b, Number):
-        return Number(a.value * b.value)
-    if is_one(a):
-        return b
-    if is_one(b):
-        return a
-    if isinstance(b, Number):
-        a, b = b, a
     return scale(a, b)
 
 

@@ -55,9 +55,9 @@ def conjugate(
     phi: sympy.Expr, t: sympy.Symbol, domain: sympy.Interval = sympy.S.Reals
 ) -> Conjugate:
     """The checked convex conjugate of phi(t) on ``domain``, as a function of S."""
-    params = _parameters(phi, t)
     if not isinstance(domain, sympy.Interval):
         raise NoClosedForm(f"the domain of {t} must be an interval, not {domain}")
+    params = _parameters(phi, t, domain)
     dom = _closure(phi, t, domain)
     dphi = sympy.diff(phi, t)
     derived = _affine(phi, t, dom, dphi) if t not in dphi.free_symbols else _legendre(phi, t, dom)
@@ -90,9 +90,15 @@ def _scale_set(domain: sympy.Set, a: sympy.Expr) -> sympy.Set:
     return sympy.Interval(a * domain.inf, a * domain.sup, domain.left_open, domain.right_open)
 
 
-def _parameters(phi: sympy.Expr, t: sympy.Symbol) -> tuple[sympy.Symbol, ...]:
+def _free(t: sympy.Symbol, *exprs: sympy.Basic) -> tuple[sympy.Symbol, ...]:
+    """The parameters: symbols other than t, in a fixed order."""
+    found: set[sympy.Symbol] = set().union(*(e.free_symbols for e in exprs))
+    return tuple(sorted(found - {t}, key=lambda p: p.name))
+
+
+def _parameters(phi: sympy.Expr, t: sympy.Symbol, domain: sympy.Set) -> tuple[sympy.Symbol, ...]:
     """Symbols other than t; the derivation and the check need them positive."""
-    params = tuple(sorted(phi.free_symbols - {t}, key=lambda p: p.name))
+    params = _free(t, phi, domain)
     for p in params:
         if p.is_positive is not True:
             raise NoClosedForm(f"the parameter {p} is not known to be positive")
@@ -200,17 +206,55 @@ def _select_branch(
 ) -> sympy.Expr:
     """The solution of phi'(t) = s that is real, in dom phi and solves it at sample s."""
     dphi = sympy.diff(phi, t)
-    try:
-        candidates = sympy.solve(sympy.Eq(dphi, S), t)
-    except (NotImplementedError, ValueError) as exc:
-        raise NoClosedForm(f"cannot solve {dphi} = s for {t}") from exc
-    samples = _parameter_samples(tuple(sorted(phi.free_symbols - {t}, key=lambda p: p.name)))
-    for candidate in candidates:
+    candidates = _solutions(dphi, t, _range_sign(r_lo, r_hi))
+    candidates += [_real_roots(c) for c in candidates]
+    samples = _parameter_samples(_free(t, phi, dom))
+    for candidate in dict.fromkeys(candidates):
         if isinstance(candidate, sympy.Expr) and all(
             _branch_fits(candidate, dphi, t, dom, r_lo, r_hi, values) for values in samples
         ):
             return candidate
     raise NoClosedForm(f"no real solution of {dphi} = s lies in the domain of {t}")
+
+
+def _solutions(dphi: sympy.Expr, t: sympy.Symbol, sign: int | None) -> list[sympy.Expr]:
+    """Solutions of phi'(t) = s; with s of one sign also solved for s = +-u, u > 0.
+
+    sympy drops a root such as t = 1/(4 s^2) of -1/(2 sqrt t) = s when it cannot
+    tell the sign of s, so the signed solve recovers it.
+    """
+    u = sympy.Dummy("u", positive=True)
+    try:
+        found = [e for e in sympy.solve(sympy.Eq(dphi, S), t) if isinstance(e, sympy.Expr)]
+        if sign is not None:
+            signed = sympy.solve(sympy.Eq(dphi, sign * u), t)
+            found += [e.subs(u, sign * S) for e in signed if isinstance(e, sympy.Expr)]
+    except (NotImplementedError, ValueError) as exc:
+        raise NoClosedForm(f"cannot solve {dphi} = s for {t}") from exc
+    return found
+
+
+def _range_sign(lo: sympy.Expr, hi: sympy.Expr) -> int | None:
+    """+1 or -1 when the range of phi' lies on one side of 0, else None."""
+    if (lo >= 0) is sympy.true:
+        return 1
+    if (hi <= 0) is sympy.true:
+        return -1
+    return None
+
+
+def _real_roots(expr: sympy.Expr) -> sympy.Expr:
+    """Odd roots made real: b^(p/q) with q odd becomes sign(b)^p |b|^(p/q).
+
+    sympy's b^(1/3) is the principal, complex root for b < 0; the inverse of
+    t^3 = s on all of R needs the real one.
+    """
+
+    def odd(e: sympy.Basic) -> bool:
+        exponent = e.exp if isinstance(e, sympy.Pow) else None
+        return isinstance(exponent, sympy.Rational) and exponent.q % 2 == 1 and exponent.q > 1
+
+    return expr.replace(odd, lambda e: sympy.sign(e.base) ** e.exp.p * sympy.Abs(e.base) ** e.exp)
 
 
 def _branch_fits(
@@ -240,13 +284,13 @@ def _tidy(
     raw: sympy.Expr, r_lo: sympy.Expr, r_hi: sympy.Expr, phi: sympy.Expr, t: sympy.Symbol
 ) -> sympy.Expr:
     """The shortest of several equivalent forms that agrees with ``raw`` numerically."""
-    forms = [sympy.simplify(raw)]
+    forms = [raw, sympy.simplify(raw)]
     signed = _signed_simplify(raw, r_lo, r_hi)
     if signed is not None:
         forms.append(signed)
     forms += [_split_logs(f, r_lo, r_hi) for f in list(forms)]
     forms += [sympy.collect(sympy.expand(f), sorted(f.atoms(sympy.log), key=str)) for f in forms]
-    params = tuple(sorted(phi.free_symbols - {t}, key=lambda p: p.name))
+    params = _free(t, phi, r_lo, r_hi)
     good = [f for f in forms if not f.has(sympy.I) and _agrees(f, raw, r_lo, r_hi, params)]
     return min(good, key=lambda f: (sympy.count_ops(f), len(str(f)), str(f))) if good else raw
 
@@ -265,15 +309,20 @@ def _agrees(
 
 
 def _signed_simplify(raw: sympy.Expr, lo: sympy.Expr, hi: sympy.Expr) -> sympy.Expr | None:
-    """Simplify with s written as +u or -u, u > 0, when the range has one sign."""
-    if (lo >= 0) is sympy.true:
-        sign = 1
-    elif (hi <= 0) is sympy.true:
-        sign = -1
-    else:
-        return None
+    """Simplify with s written as +u or -u, u > 0, when the range has one sign.
+
+    When it has both and the two sides agree, the result is even in s and is
+    written in |s| ((t^4 / 4)* = 3 |s|^(4/3) / 4).
+    """
+    sign = _range_sign(lo, hi)
     u = sympy.Dummy("u", positive=True)
-    return sympy.simplify(raw.subs(S, sign * u)).subs(u, sign * S)
+    if sign is not None:
+        return sympy.simplify(raw.subs(S, sign * u)).subs(u, sign * S)
+    if (lo < 0) is sympy.true and (hi > 0) is sympy.true:
+        positive, negative = (sympy.simplify(raw.subs(S, k * u)) for k in (1, -1))
+        if positive == negative:
+            return positive.subs(u, sympy.Abs(S))
+    return None
 
 
 def _split_logs(expr: sympy.Expr, lo: sympy.Expr, hi: sympy.Expr) -> sympy.Expr:

@@ -156,7 +156,7 @@ def _affine_matmul(e: MatMul, x: Symbol) -> Affine | None:
         return None
     i = dependent[0]
     if e.shape.is_scalar and i == 0 and factors[0].shape.rows == 1 and len(factors) > 1:
-        flipped = b.transpose(e)
+        flipped = flip(e)
         return None if flipped == e else affine(flipped, x)
     head, f, tail = factors[:i], factors[i], factors[i + 1 :]
     if tail:
@@ -191,6 +191,11 @@ _AFFINE_RULES = {
     MatMul: _affine_matmul,
     Trace: _affine_trace,
 }
+
+
+def flip(e: MatMul) -> Expr:
+    """A scalar chain read backwards: u'M v = v'M'u."""
+    return b.mul(*(b.transpose(f) for f in reversed(e.factors)))
 
 
 # -- quadratic ---------------------------------------------------------------
@@ -291,7 +296,7 @@ def _quad_weighted(e: MatMul, i: int, x: Symbol) -> Quadratic | None:
     """w' f(x) with f elementwise quadratic: distribute the weight inside."""
     factors = e.factors
     if i != len(factors) - 1:
-        flipped = b.transpose(e)
+        flipped = flip(e)
         if flipped == e or not isinstance(flipped, MatMul):
             return None
         return _quad_weighted(flipped, len(flipped.factors) - 1, x) if _free(
@@ -359,6 +364,8 @@ def trace_linear(e: Expr, X: Symbol) -> Affine | None:
         if any(p is None for p in parts):
             return None
         return Affine(_add_opt(*(p.lin for p in parts)), _add_opt(*(p.const for p in parts)))
+    if isinstance(e, Scale) and not _free(e.factor, X) and _free(e.arg, X):
+        return trace_linear(b.scale(e.arg, e.factor), X)
     if isinstance(e, Scale) and _free(e.factor, X):
         inner = trace_linear(e.arg, X)
         return None if inner is None else Affine(_scale_opt(e.factor, inner.lin),

@@ -1,0 +1,285 @@
+"""Nonsmooth and nonquadratic building blocks, recognised in a Lagrangian term,
+and the infimum of each against a linear term (its conjugate).
+
+A term is an atom when it is ``c * phi(arg)`` with ``c`` a positive scalar free
+of the decision variables and ``phi`` one of the building blocks below.  The
+rule used with an atom is always
+
+    inf over u of  c phi(u) - s'u  =  -(c phi)*(s),
+
+which is finite exactly on the domain of the conjugate; that domain becomes
+constraints of the dual (S. Boyd and L. Vandenberghe, Convex Optimization,
+2004, sections 3.3 and 5.1.6).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import sympy
+
+from dualize.duality import build as b
+from dualize.duality.normal import Term, rebuild
+from dualize.duality.scalar import Scope, to_sympy
+from dualize.model.expr import (
+    Apply,
+    Expr,
+    Extremum,
+    Hadamard,
+    MatMul,
+    Norm,
+    Number,
+    Ones,
+    Power,
+    SumAll,
+    Symbol,
+    Transpose,
+    Zero,
+    depends_on,
+)
+
+DUAL_NORM = {"2": "2", "1": "inf", "inf": "1"}
+
+
+@dataclass(frozen=True)
+class Atom:
+    """``coef * phi(arg)``; ``kind`` names phi, ``body`` is the elementwise
+    expression for separable atoms (phi applied to ``arg`` entry by entry)."""
+
+    coef: Expr
+    kind: str  # norm | square | hinge | abs | logsumexp | separable
+    arg: Expr
+    p: str = "2"
+    body: Expr | None = None
+
+
+@dataclass(frozen=True)
+class Infimum:
+    """inf over u of atom(u) - s'u: a value, constraints on s, and the minimizer."""
+
+    value: Expr
+    constraints: tuple[tuple[Expr, str, Expr], ...]
+    minimizer: Expr | None
+    statement: str
+
+
+def recognise(term: Term, variables: frozenset[str]) -> Atom | None:
+    """The atom in one collected term, or None."""
+    dependent = [s for s in term.scalars if depends_on(s, variables)]
+    if term.chain or len(dependent) != 1:
+        return None
+    coef_parts = [s for s in term.scalars if s is not dependent[0]]
+    coef = rebuild([Term(term.coef, tuple(coef_parts), ())], dependent[0].shape)
+    if _sign(coef) != "pos":
+        return _separable(coef, dependent[0], variables)
+    return _shaped(coef, dependent[0]) or _separable(coef, dependent[0], variables)
+
+
+def _sign(coef: Expr) -> str | None:
+    value = to_sympy(coef, Scope())
+    if value.is_positive:
+        return "pos"
+    return None
+
+
+def _shaped(coef: Expr, e: Expr) -> Atom | None:
+    if isinstance(e, Norm):
+        return Atom(coef, "norm", e.arg, e.p)
+    if isinstance(e, Power) and e.exponent == 2 and isinstance(e.base, Norm) and e.base.p == "2":
+        return Atom(coef, "square", e.base.arg)
+    if isinstance(e, Apply) and e.func == "log":
+        inner = _summed(e.arg)
+        if inner is not None and isinstance(inner, Apply) and inner.func == "exp":
+            return Atom(coef, "logsumexp", inner.arg)
+    if isinstance(e, Apply) and e.func == "abs" and e.shape.is_scalar:
+        return Atom(coef, "abs", e.arg)
+    if isinstance(e, Extremum) and e.kind == "max" and _is_zero(e.right):
+        return Atom(coef, "hinge", e.left)
+    inner = _summed(e)
+    if inner is None:
+        return None
+    if isinstance(inner, Apply) and inner.func == "abs":
+        return Atom(coef, "abs", inner.arg)
+    if isinstance(inner, Extremum) and inner.kind == "max" and _is_zero(inner.right):
+        return Atom(coef, "hinge", inner.left)
+    return None
+
+
+def _is_zero(e: Expr) -> bool:
+    return isinstance(e, Zero) or (isinstance(e, Number) and e.value == 0)
+
+
+def _summed(e: Expr) -> Expr | None:
+    """E when e is sum(E) (written sum(E) or 1'E)."""
+    if isinstance(e, SumAll):
+        return e.arg
+    if isinstance(e, MatMul) and len(e.factors) == 2:
+        first, second = e.factors
+        if isinstance(first, Transpose) and isinstance(first.arg, Ones):
+            return second
+        if isinstance(second, Ones) and isinstance(first, Transpose):
+            return first.arg
+    return None
+
+
+def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> Atom | None:
+    """coef * sum(E(v)) with E elementwise in one decision variable v."""
+    inner = _summed(e)
+    if inner is None and isinstance(e, MatMul) and len(e.factors) == 2:
+        first, second = e.factors
+        if isinstance(first, Transpose) and first.arg.shape.cols == 1:
+            inner = Hadamard(first.arg, second)
+    if inner is None and e.shape.is_scalar and isinstance(e, Apply | Power):
+        inner = e
+    if inner is None:
+        return None
+    var = _sole_variable(inner, variables)
+    if var is None:
+        return _separable_of_affine(coef, inner, variables)
+    from dualize.duality.elementwise import scalar_form
+
+    if scalar_form(inner, var, sympy.Symbol("t", real=True)) is None:
+        return _separable_of_affine(coef, inner, variables)
+    return Atom(coef, "separable", var, body=inner)
+
+
+PLACE = Symbol("u", "auxiliary", b.SCALAR)
+
+
+def _separable_of_affine(coef: Expr, inner: Expr, variables: frozenset[str]) -> Atom | None:
+    """phi applied entrywise to an affine argument: the argument is split off later.
+
+    ``body`` is phi applied to a placeholder symbol of the argument's shape.
+    """
+    from dualize.duality.elementwise import scalar_form
+    from dualize.duality.linear import affine
+    from dualize.model.expr import substitute
+
+    for arg in _candidate_arguments(inner):
+        vs = [n for n in variables if depends_on(arg, {n})]
+        if not vs:
+            continue
+        if any(affine(arg, _find(arg, n)) is None for n in vs):
+            continue
+        place = Symbol(PLACE.name, "auxiliary", arg.shape)
+        body = substitute(inner, {arg: place})
+        if depends_on(body, variables):
+            continue
+        if scalar_form(body, place, sympy.Symbol("t", real=True)) is None:
+            continue
+        return Atom(coef, "separable", arg, body=body)
+    return None
+
+
+def _candidate_arguments(e: Expr) -> list[Expr]:
+    if isinstance(e, Apply):
+        inner = e.arg
+        if e.func == "log" and isinstance(inner, b.Add):
+            return [inner] + [t.arg for t in inner.terms if isinstance(t, Apply)]
+        return [inner]
+    if isinstance(e, Power):
+        return [e.base]
+    if isinstance(e, Hadamard):
+        return [e.left, e.right]
+    return []
+
+
+def _find(e: Expr, name: str) -> Symbol:
+    from dualize.model.expr import walk
+
+    return next(n for n in walk(e) if isinstance(n, Symbol) and n.name == name)
+
+
+def with_argument(atom: Atom, u: Symbol) -> Atom:
+    """The atom applied to the split variable u instead of its affine argument."""
+    from dualize.model.expr import substitute
+
+    if atom.kind != "separable" or atom.body is None:
+        return Atom(atom.coef, atom.kind, u, atom.p)
+    place = Symbol(PLACE.name, "auxiliary", atom.arg.shape)
+    body = substitute(atom.body, {place: u}) if depends_on(atom.body, {PLACE.name}) else \
+        substitute(atom.body, {atom.arg: u})
+    return Atom(atom.coef, "separable", u, body=body)
+
+
+def _sole_variable(e: Expr, variables: frozenset[str]) -> Symbol | None:
+    from dualize.model.expr import walk
+
+    found = {n for n in walk(e) if isinstance(n, Symbol) and n.name in variables}
+    return next(iter(found)) if len(found) == 1 else None
+
+
+# -- the infimum of each atom against a linear term ----------------------------
+
+
+def infimum(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
+    """inf over u of atom(u) - s'u, where ``u`` stands for the atom's argument."""
+    handler = _INFIMUM.get(atom.kind)
+    return handler(atom, s, u) if handler else None
+
+
+def _norm(atom: Atom, s: Expr, u: Expr) -> Infimum:
+    q = DUAL_NORM[atom.p]
+    return Infimum(
+        b.num(0),
+        ((_norm_of(s, q) if not s.shape.is_scalar else Apply("abs", s), "<=", atom.coef),),
+        None,
+        f"the infimum of c||u|| - s'u is 0 when the dual norm ||s||_{q} <= c, "
+        "and minus infinity otherwise",
+    )
+
+
+def _square(atom: Atom, s: Expr, u: Expr) -> Infimum:
+    c = atom.coef
+    value = b.scale(b.scale(b.num(-1), b.power(b.scale(b.num(4), c), sympy.Integer(-1))),
+                    b.inner(s, s))
+    minimizer = b.scale(b.power(b.scale(b.num(2), c), sympy.Integer(-1)), s)
+    return Infimum(value, (), minimizer,
+                   "c||u||^2 - s'u is minimized at u = s/(2c), with value -||s||^2/(4c)")
+
+
+def _hinge(atom: Atom, s: Expr, u: Expr) -> Infimum:
+    zero = b.zeros(s.shape)
+    c = b.broadcast(atom.coef, s.shape)
+    return Infimum(b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
+                   "c max(u, 0) - s u is bounded below exactly when 0 <= s <= c, with infimum 0")
+
+
+def _abs(atom: Atom, s: Expr, u: Expr) -> Infimum:
+    lhs = Apply("abs", s) if s.shape.is_scalar else _norm_of(s, "inf")
+    return Infimum(b.num(0), ((lhs, "<=", atom.coef),), None,
+                   "c|u| - s u is bounded below exactly when |s| <= c, with infimum 0")
+
+
+def _logsumexp(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
+    c = atom.coef
+    if not s.shape.is_vector:
+        return None
+    ratio = b.scale(b.power(c, sympy.Integer(-1)), s)
+    entropy = b.sum_all(b.hadamard(s, b.apply("log", ratio)))
+    return Infimum(
+        b.neg(entropy),
+        ((s, ">=", b.zeros(s.shape)), (b.sum_all(s), "=", c)),
+        None,
+        "the conjugate of log-sum-exp is the negative entropy on the simplex",
+    )
+
+
+_INFIMUM = {
+    "norm": _norm,
+    "square": _square,
+    "hinge": _hinge,
+    "abs": _abs,
+    "logsumexp": _logsumexp,
+}
+
+
+def _norm_of(s: Expr, p: str) -> Expr:
+    """||s||_p, with a sign in front of s dropped (||-s|| = ||s||)."""
+    from dualize.model.expr import Scale
+
+    if isinstance(s, Scale) and isinstance(s.factor, Number) and s.factor.value < 0:
+        factor = -s.factor.value
+        inner = Norm(s.arg, p)  # type: ignore[arg-type]
+        return inner if factor == 1 else b.scale(Number(factor), inner)
+    return Norm(s, p)  # type: ignore[arg-type]

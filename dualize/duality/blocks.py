@@ -1,0 +1,242 @@
+"""Minimizing the Lagrangian over one block of primal variables.
+
+Each rule is one function with its mathematical statement in the docstring.
+A rule returns an ``Outcome``: the block's contribution to the dual objective,
+the constraints under which the infimum is finite, how the block is recovered,
+and the recorded steps.  When no rule applies the outcome says so (``inner``),
+and the engine keeps the infimum instead of guessing.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import sympy
+
+from dualize.duality import build as b
+from dualize.duality.definite import definiteness
+from dualize.duality.linear import Affine, Quadratic, hessian
+from dualize.duality.normal import tidy
+from dualize.duality.result import (
+    DualConstraint,
+    DualVariable,
+    Equation,
+    Head,
+    Recovery,
+    Step,
+)
+from dualize.model.expr import Block, Expr, Symbol, depends_on, symbols_of
+from dualize.model.problem import Domain
+
+
+@dataclass
+class Outcome:
+    value: Expr
+    constraints: list[DualConstraint] = field(default_factory=list)
+    recovery: Recovery | None = None
+    steps: list[Step] = field(default_factory=list)
+    extra: list[DualVariable] = field(default_factory=list)
+    unbounded: bool = False
+    inner: bool = False
+    gradient: Expr | None = None
+
+
+def zero_constraint(e: Expr, relation: str, reason: str) -> DualConstraint:
+    """``e relation 0`` (the engine states it readably at the end)."""
+    return DualConstraint(tidy(e), relation, b.zeros(e.shape), reason)  # type: ignore[arg-type]
+
+
+def _has_multiplier(e: Expr) -> bool:
+    return any(s.role == "multiplier" for s in symbols_of(e))
+
+
+def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> Outcome:
+    """inf over x of g'x + r.
+
+    Over R^n it is r if g = 0 and minus infinity otherwise; over R^n_+ (or
+    R^n_++) it is r if g >= 0; over a box [l, u] it is r + sum(min(l g, u g));
+    over {0,1}^n it is r + sum(min(g, 0)); over Z^n it is r if g = 0.
+    """
+    r = r if r is not None else b.num(0)
+    if g is None:
+        return Outcome(r, recovery=Recovery(x.name, None, _undetermined(x)),
+                       steps=[Step("minimize-affine", f"The Lagrangian does not depend on {x.name}.",
+                                   block=x.name)])
+    g = tidy(g)
+    kind = domain.kind
+    if kind in ("free", "integer"):
+        return _affine_condition(x, g, r, "=", "its coefficient vanishes")
+    if kind in ("nonneg", "pos"):
+        return _affine_condition(x, g, r, ">=", "its coefficient is nonnegative (x ranges "
+                                 "over the nonnegative orthant)")
+    if kind == "box":
+        lo, hi = domain.lo, domain.hi
+        assert lo is not None and hi is not None
+        term = b.minimum(b.scale(lo, g), b.scale(hi, g))
+        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+        text = (f"Over the box [{_txt(lo)}, {_txt(hi)}] the infimum of a linear function is "
+                "attained at a corner, entry by entry.")
+        return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
+                       "where its coefficient is positive and at its upper bound where it is "
+                       "negative"), steps=[Step("minimize-affine-box", text, block=x.name)])
+    if kind == "binary":
+        term = b.minimum(g, b.zeros(g.shape))
+        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+        return Outcome(value, steps=[Step("minimize-affine-binary", "Over {0,1} the infimum of "
+                       "g x is min(g, 0), entry by entry.", block=x.name)],
+                       recovery=Recovery(x.name, None, "x_i = 1 where its coefficient is negative"))
+    return Outcome(r, inner=True, steps=[Step("no-closed-form", f"No rule minimizes a linear "
+                   f"function over the domain {kind} of {x.name}.", block=x.name)])
+
+
+def _txt(e: Expr) -> str:
+    from dualize.model.expr import Number
+
+    return str(e.value) if isinstance(e, Number) else getattr(e, "name", "?")
+
+
+def _affine_condition(x: Symbol, g: Expr, r: Expr, rel: str, why: str) -> Outcome:
+    text = (f"The Lagrangian is affine in {x.name}; it is bounded below only where "
+            f"{why}, and then its infimum is the constant part.")
+    c = zero_constraint(g, rel, f"the Lagrangian is affine in {x.name}: {why}")
+    shown = (Equation(_grad_head(x), "=", tidy(g)) if rel == "="
+             else Equation(tidy(g), rel, b.zeros(g.shape)))  # type: ignore[arg-type]
+    step = Step("minimize-affine", text, (shown,), block=x.name)
+    return Outcome(r, [c], Recovery(x.name, None, _undetermined(x)), [step], gradient=g)
+
+
+def _grad_head(x: Symbol) -> Head:
+    return Head(f"grad_{x.name} L")
+
+
+def _undetermined(x: Symbol) -> str:
+    return (f"{x.name} enters the Lagrangian linearly, so minimizing it does not determine "
+            f"{x.name}; recover it from the KKT conditions: complementary slackness on the "
+            "constraints whose multipliers are strictly positive (for a support vector with "
+            "a multiplier strictly inside its bounds, that constraint holds with equality)")
+
+
+def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome:
+    """inf over x of x'Qx + g'x + r with H = Q + Q'.
+
+    H positive definite: attained at x = -H^-1 g with value r - 1/2 g'H^-1 g.
+    H depending on multipliers or not known definite: finite iff H is positive
+    semidefinite and g lies in its range, stated by the Schur complement
+    [[H, g], [g', 2(r - t)]] succeq 0 with t the value (for g = 0 just
+    H succeq 0).  H negative definite for every multiplier: minus infinity.
+    """
+    H = hessian(q, x)
+    if H is None:
+        return affine_block(x, domain, q.g, q.r)
+    H = tidy(H)
+    if domain.kind != "free":
+        return Outcome(q.r or b.num(0), inner=True, steps=[Step(
+            "no-closed-form", f"{x.name} enters quadratically and ranges over a restricted "
+            f"domain ({domain.kind}); no closed form: the infimum over {x.name} is kept.",
+            block=x.name)])
+    r = q.r if q.r is not None else b.num(0)
+    g = tidy(q.g) if q.g is not None else None
+    kind = definiteness(H)
+    if kind == "pd":
+        return _definite(x, H, g, r)
+    if kind == "nd" and not _has_multiplier(H):
+        return Outcome(b.num(0), unbounded=True, steps=[Step(
+            "unbounded", f"The Lagrangian is a concave quadratic in {x.name} whatever the "
+            "multipliers: its infimum is minus infinity, so the dual function is minus "
+            "infinity everywhere.", block=x.name)])
+    return _semidefinite(x, H, g, r, kind)
+
+
+def _definite(x: Symbol, H: Expr, g: Expr | None, r: Expr) -> Outcome:
+    Hinv = b.inverse(H)
+    if g is None:
+        return Outcome(r, recovery=Recovery(x.name, b.zeros(x.shape)), steps=[Step(
+            "minimize-quadratic", f"The Lagrangian is a positive definite quadratic in {x.name} "
+            "with no linear term: minimized at zero.", block=x.name)])
+    xstar = tidy(b.neg(b.mul(Hinv, g)))
+    value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)), b.mul(b.transpose(g), Hinv, g))))
+    grad = b.add(b.mul(H, x), g)
+    text = (f"The Lagrangian is a strictly convex quadratic in {x.name}; setting its gradient "
+            f"to zero gives the minimizer, and substituting it gives the infimum.")
+    eqs = (Equation(_grad_head(x), "=", tidy(grad)), Equation(x, "=", xstar))
+    return Outcome(value, recovery=Recovery(x.name, xstar), steps=[Step(
+        "minimize-quadratic", text, eqs, block=x.name)], gradient=grad)  # type: ignore[arg-type]
+
+
+def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Outcome:
+    psd_known = kind in ("psd", "pd")
+    constraints: list[DualConstraint] = []
+    if g is None:
+        if not psd_known:
+            constraints.append(zero_constraint(b.neg(H), "preceq" if not H.shape.is_scalar
+                                               else "<=", "the quadratic must be bounded below"))
+        text = (f"The Lagrangian is a quadratic form in {x.name} with Hessian {_kind_text(kind)}; "
+                "its infimum is 0 when the Hessian is positive semidefinite and minus infinity "
+                "otherwise.")
+        return Outcome(r, constraints, Recovery(x.name, None, f"{x.name} lies in the null space "
+                       "of the Hessian at the optimal multipliers"), [Step(
+                           "minimize-quadratic-semidefinite", text, block=x.name)])
+    if H.shape.is_scalar:
+        value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)),
+                                      b.mul_scalars(b.power(g, sympy.Integer(2)),
+                                                    b.power(H, sympy.Integer(-1))))))
+        if not psd_known:
+            constraints.append(zero_constraint(b.neg(H), "<=", "the quadratic must be convex"))
+        text = (f"The Lagrangian is a quadratic in {x.name} whose curvature depends on the "
+                "multipliers; where it is positive the minimizer is -g/H and the infimum "
+                "r - g^2/(2H) (where it is zero the infimum is r if g = 0 and minus infinity "
+                "otherwise; the dual keeps the closure).")
+        xstar = tidy(b.neg(b.mul_scalars(g, b.power(H, sympy.Integer(-1)))))
+        return Outcome(value, constraints, Recovery(x.name, xstar), [Step(
+            "minimize-quadratic-scalar", text, (Equation(x, "=", xstar),), block=x.name)])
+    return _schur(x, H, g, r)
+
+
+def _kind_text(kind: str) -> str:
+    return {"psd": "known positive semidefinite", "unknown": "not known to be definite"}.get(
+        kind, kind)
+
+
+def _schur(x: Symbol, H: Expr, g: Expr, r: Expr) -> Outcome:
+    t = Symbol(f"t_{x.name}", "multiplier", b.SCALAR)
+    lmi = Block(((H, g), (b.transpose(g), b.scale(b.num(2), b.sub(r, t)))))
+    c = DualConstraint(lmi, "succeq", b.zeros(lmi.shape),
+                       f"the infimum over {x.name} is at least t exactly when this Schur "
+                       "complement is positive semidefinite")
+    text = (f"The Lagrangian is a quadratic in {x.name} whose Hessian H is not known to be "
+            "definite; its infimum is r - 1/2 g'H^+ g when H is positive semidefinite and g lies "
+            "in its range, and minus infinity otherwise. With an epigraph variable t this is "
+            "a linear matrix inequality.")
+    var = DualVariable(t, "free", f"epigraph of the infimum over {x.name}")
+    return Outcome(t, [c], Recovery(x.name, None, f"{x.name} = -H^+ g plus any null-space "
+                   "direction of H at the optimal multipliers"), [Step(
+                       "minimize-quadratic-schur", text, block=x.name)], [var])
+
+
+def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome:
+    """inf over X of <G, X> + c.
+
+    Over S^n it is c if the symmetric part of G vanishes; over S^n_+ it is c
+    if G is positive semidefinite; over R^(m,n) it is c if G = 0.
+    """
+    r = lin.const if lin.const is not None else b.num(0)
+    if lin.lin is None:
+        return Outcome(r, recovery=Recovery(X.name, None, _undetermined(X)))
+    G = tidy(lin.lin)
+    if domain.kind in ("symmetric", "psd", "pd") and not b.is_symmetric(G):
+        G = tidy(b.scale(b.num(sympy.Rational(1, 2)), b.add(G, b.transpose(G))))
+    if domain.kind in ("free", "symmetric"):
+        return _affine_condition(X, G, r, "=", "its coefficient vanishes")
+    if domain.kind in ("psd", "pd"):
+        c = zero_constraint(b.neg(G), "preceq", f"the Lagrangian is linear in {X.name} over the "
+                            "semidefinite cone: its coefficient must be positive semidefinite")
+        text = (f"The Lagrangian is linear in {X.name}, which ranges over the semidefinite cone; "
+                "it is bounded below only where its coefficient is positive semidefinite.")
+        return Outcome(r, [c], Recovery(X.name, None, _undetermined(X)), [Step(
+            "minimize-affine-cone", text, block=X.name)])
+    return Outcome(r, inner=True, steps=[Step("no-closed-form", f"No rule for the domain "
+                   f"{domain.kind} of the matrix variable {X.name}.", block=X.name)])
+
+
+def depends(e: Expr, x: Symbol) -> bool:
+    return depends_on(e, {x.name})

@@ -1,0 +1,389 @@
+"""The derivation: from a typed problem to its dual, step by step.
+
+1. Form the Lagrangian (``lagrangian``) and expand it into collected terms.
+2. Give every term to the primal block it depends on.  A building block
+   (norm, hinge, log-sum-exp, separable function, squared norm) whose argument
+   is not simply one variable is split off: u = arg is introduced with a free
+   multiplier z, which leaves an equivalent problem whose Lagrangian is affine
+   in the original variables (S. Boyd and L. Vandenberghe, Convex
+   Optimization, 2004, section 5.7).
+3. Minimize block by block (``blocks``, ``atoms``, ``separable``).
+4. Simplify the dual (``simplify``) and state KKT and recovery (``kkt``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from dualize.duality import build as b
+from dualize.duality.atoms import Atom, infimum, recognise, with_argument
+from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
+from dualize.duality.definite import definiteness
+from dualize.duality.kkt import conditions
+from dualize.duality.lagrangian import lagrangian, multipliers
+from dualize.duality.linear import Quadratic, hessian, quadratic, trace_linear
+from dualize.duality.normal import Term, expand, rebuild, tidy
+from dualize.duality.result import (
+    Derivation,
+    DualConstraint,
+    DualProblem,
+    DualVariable,
+    Equation,
+    Head,
+    Recovery,
+    Step,
+)
+from dualize.duality.separable import separable_infimum
+from dualize.duality.simplify import simplify, simplify_scalar, substitutions
+from dualize.model.expr import SCALAR, Expr, Symbol, depends_on, symbols_of
+from dualize.model.problem import Domain, Problem, Variable
+
+
+@dataclass
+class Work:
+    """What the engine accumulates while it walks the blocks."""
+
+    problem: Problem
+    names: set[str]
+    by_var: dict[str, list[Term]] = field(default_factory=dict)
+    constant: list[Term] = field(default_factory=list)
+    coupled: list[Term] = field(default_factory=list)
+    extra: list[DualVariable] = field(default_factory=list)
+    steps: list[Step] = field(default_factory=list)
+    aux_blocks: list[tuple[Symbol, Atom, Symbol]] = field(default_factory=list)
+
+    def fresh(self, base: str) -> str:
+        name, k = base, 1
+        while name in self.names:
+            name, k = f"{base}{k}", k + 1
+        self.names.add(name)
+        return name
+
+
+def derive(problem: Problem) -> Derivation:
+    """The dual of ``problem`` with its recorded steps, KKT conditions and recovery."""
+    shown, L = lagrangian(problem)
+    mults = multipliers(problem)
+    work = Work(problem, _names(problem))
+    work.steps.append(_lagrangian_step(problem, shown, mults))
+    _distribute(work, expand(L))
+    outcomes = _minimize_blocks(work)
+    dual, recovery = _assemble(work, outcomes, mults)
+    dual, more_steps = simplify(dual, problem)
+    work.steps.extend(more_steps)
+    recovery = _substituted(recovery, substitutions(more_steps))
+    if problem.sense == "maximize":
+        dual = _as_minimization(dual)
+    work.steps.append(Step("dual-problem", _dual_sentence(dual)))
+    kkt = conditions(problem, outcomes)
+    notes = _notes(work, dual)
+    return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
+                      kkt, tuple(recovery), notes)
+
+
+def _names(problem: Problem) -> set[str]:
+    names = {v.name for v in problem.variables} | {d.name for d in problem.data}
+    names |= {c.multiplier.name for c in problem.constraints} | {str(d) for d in problem.dims}
+    return names
+
+
+def _lagrangian_step(problem: Problem, L: Expr, mults) -> Step:  # type: ignore[no-untyped-def]
+    args = tuple(v.name for v in problem.variables) + tuple(m.name for m in mults)
+    if problem.sense == "minimize":
+        text = ("The Lagrangian adds each constraint function, weighted by its multiplier "
+                "(nonnegative for inequalities, free for equalities, positive semidefinite for "
+                "matrix inequalities), to the objective.")
+    else:
+        text = ("The problem is a maximization: its Lagrangian subtracts each constraint "
+                "function, weighted by its multiplier, from the objective, and the dual "
+                "function is the supremum over the primal variables, an upper bound on the "
+                "optimal value.")
+    return Step("lagrangian", text, (Equation(Head("L", args), "=", L),))
+
+
+# -- distributing terms to blocks ----------------------------------------------
+
+
+def _primal_names(work: Work) -> frozenset[str]:
+    return frozenset(v.name for v in work.problem.variables)
+
+
+def _vars_of(term: Term, names: frozenset[str]) -> list[str]:
+    found: dict[str, None] = {}
+    for part in term.scalars + term.chain:
+        for s in symbols_of(part):
+            if s.name in names:
+                found.setdefault(s.name, None)
+    return list(found)
+
+
+def _distribute(work: Work, terms: list[Term]) -> None:
+    names = _primal_names(work) | {a.name for a, _, _ in work.aux_blocks}
+    for t in terms:
+        owners = _vars_of(t, _primal_names(work))
+        if not owners:
+            work.constant.append(t)
+        elif len(owners) == 1:
+            work.by_var.setdefault(owners[0], []).append(t)
+        else:
+            atom = recognise(t, frozenset(names))
+            if atom is not None and (atom.kind != "separable" or atom.arg not in
+                                     [v.symbol for v in work.problem.variables]):
+                _split(work, atom)
+            else:
+                work.coupled.append(t)
+
+
+def _split(work: Work, atom: Atom) -> None:
+    """Introduce u = arg with a free multiplier z: the term becomes atom(u) + z'(arg - u)."""
+    u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
+    z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
+    work.aux_blocks.append((u, with_argument(atom, u), z))
+    work.extra.append(DualVariable(z, "free", f"auxiliary u = {u.name}"))
+    text = (f"Introduce {u.name} = (the argument of a {atom.kind} term) with a free multiplier "
+            f"{z.name}: the problem is unchanged, and its Lagrangian is affine in the original "
+            f"variables and separable in {u.name}.")
+    work.steps.append(Step("split-affine-argument", text, (Equation(u, "=", atom.arg),)))
+    _distribute(work, expand(b.inner(z, atom.arg)))
+
+
+# -- minimizing block by block ---------------------------------------------------
+
+
+def _minimize_blocks(work: Work) -> dict[str, Outcome]:
+    outcomes: dict[str, Outcome] = {}
+    coupled = {n for t in work.coupled for n in _vars_of(t, _primal_names(work))}
+    for v in work.problem.variables:
+        if v.name in coupled:
+            continue
+        outcomes[v.name] = _block(work, v)
+    for u, atom, z in work.aux_blocks:
+        outcomes[u.name] = _aux_block(u, atom, z)
+    for v in work.problem.variables:
+        if v.name in coupled:
+            outcomes[v.name] = _kept(v, work.by_var.get(v.name, []), "it is coupled with another "
+                                     "variable through a term that is not affine")
+    if work.coupled:
+        outcomes["(coupled)"] = Outcome(rebuild(work.coupled, SCALAR), inner=True)
+    return outcomes
+
+
+def _kept(v: Variable, terms: list[Term], why: str) -> Outcome:
+    value = rebuild(terms, SCALAR)
+    return Outcome(value, inner=True, steps=[Step(
+        "no-closed-form", f"The infimum over {v.name} is kept: {why}.", block=v.name)])
+
+
+def _block(work: Work, v: Variable) -> Outcome:
+    x, terms = v.symbol, work.by_var.get(v.name, [])
+    if not x.shape.is_scalar and not x.shape.is_vector:
+        lin = trace_linear(rebuild(terms, SCALAR), x)
+        if lin is None:
+            return _kept(v, terms, "the matrix variable enters other than linearly")
+        return matrix_block(x, v.domain, lin)
+    atoms, polys, others = _classify(terms, x)
+    if others:
+        return _kept(v, terms, "a term has no rule: " + _brief(others))
+    nonsmooth = [a for a in atoms if a.kind != "square"]
+    squares = [a for a in atoms if a.kind == "square"]
+    bare = [a for a in squares if a.arg == x]
+    mapped = [a for a in squares if a.arg != x]
+    if not nonsmooth:
+        q = _sum(polys + [_square_poly(a, x) for a in squares])
+        assert q is not None
+        H = hessian(q, x)
+        if not mapped or H is None or definiteness(tidy(H)) == "pd":
+            return quadratic_block(x, v.domain, q)
+    for a in mapped:
+        _split_local(work, a, polys, x)
+    direct = [a for a in nonsmooth if a.arg == x]
+    if len(nonsmooth) == 1 and direct and not bare and _affine_only(polys, x):
+        return _direct(work, v, nonsmooth[0], polys)
+    for a in nonsmooth:
+        _split_local(work, a, polys, x)
+    return _quadratic(v, polys + [_square_poly(a, x) for a in bare])
+
+
+def _brief(terms: list[Term]) -> str:
+    from dualize.model.expr import walk
+
+    kinds = sorted({type(n).__name__ for t in terms for s in t.scalars + t.chain for n in walk(s)
+                    if type(n).__name__ in ("Apply", "Norm", "Extremum", "Power", "Divide")})
+    return ", ".join(kinds) if kinds else "an unrecognised form"
+
+
+def _classify(terms: list[Term], x: Symbol):  # type: ignore[no-untyped-def]
+    atoms, polys, others = [], [], []
+    names = frozenset({x.name})
+    for t in terms:
+        atom = recognise(t, names)
+        e = rebuild([t], SCALAR)
+        if atom is not None and atom.kind == "square":
+            atoms.append(atom)
+            continue
+        q = quadratic(e, x)
+        if q is not None:
+            polys.append(q)
+        elif atom is not None:
+            atoms.append(atom)
+        else:
+            others.append(t)
+    return atoms, polys, others
+
+
+def _affine_only(polys: list[Quadratic], x: Symbol) -> bool:
+    return all(q.Q is None for q in polys)
+
+
+def _square_poly(a: Atom, x: Symbol) -> Quadratic:
+    q = quadratic(b.scale(a.coef, b.inner(a.arg, a.arg)), x)
+    assert q is not None
+    return q
+
+
+def _sum(parts: list[Quadratic | None]) -> Quadratic | None:
+    from dualize.duality.linear import _quad_sum
+
+    return _quad_sum(parts) if parts else Quadratic(None, None, None)
+
+
+def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome:
+    q = _sum(polys)  # type: ignore[arg-type]
+    assert q is not None
+    return quadratic_block(v.symbol, v.domain, q)
+
+
+def _split_local(work: Work, atom: Atom, polys: list[Quadratic], x: Symbol) -> None:
+    """Split an atom of one block; its z'arg part joins that block's polynomial terms."""
+    u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
+    z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
+    work.aux_blocks.append((u, with_argument(atom, u), z))
+    work.extra.append(DualVariable(z, "free", f"auxiliary u = {u.name}"))
+    work.steps.append(Step("split-affine-argument", (
+        f"Introduce {u.name} = (the argument of a {_kind_name(atom)} term in {x.name}) with a "
+        f"free multiplier {z.name}: the problem is unchanged, and the Lagrangian separates."),
+        (Equation(u, "=", atom.arg),)))
+    q = quadratic(b.inner(z, atom.arg), x)
+    assert q is not None
+    polys.append(q)
+
+
+def _kind_name(atom: Atom) -> str:
+    return {"norm": "norm", "square": "squared norm", "hinge": "hinge", "abs": "absolute value",
+            "logsumexp": "log-sum-exp", "separable": "separable"}[atom.kind]
+
+
+def _direct(work: Work, v: Variable, atom: Atom, polys: list[Quadratic]) -> Outcome:
+    """inf over x of atom(x) + g'x + r = r - atom*(-g)."""
+    q = _sum(polys)  # type: ignore[arg-type]
+    assert q is not None
+    g = tidy(q.g) if q.g is not None else b.zeros(v.symbol.shape)
+    r = q.r if q.r is not None else b.num(0)
+    s = tidy(b.neg(g))
+    return _conjugate_outcome(v.symbol, atom, s, r, v.domain, work)
+
+
+def _aux_block(u: Symbol, atom: Atom, z: Symbol) -> Outcome:
+    """inf over u of atom(u) - z'u = -atom*(z)."""
+    return _conjugate_outcome(u, atom, z, b.num(0), Domain("free"), None)
+
+
+def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
+                       work: Work | None) -> Outcome:
+    if atom.kind == "separable":
+        inf = separable_infimum(atom, s, x, domain)
+    else:
+        inf = infimum(atom, s, x) if domain.kind == "free" else None
+    if inf is None:
+        return Outcome(b.add(rebuild([], SCALAR), r), inner=True, steps=[Step(
+            "no-closed-form", f"No closed form for the infimum over {x.name} of this "
+            f"{_kind_name(atom)} term.", block=x.name)])
+    constraints = [DualConstraint(lhs, rel, rhs, inf.statement)  # type: ignore[arg-type]
+                   for lhs, rel, rhs in inf.constraints]
+    value = tidy(b.add(r, inf.value))
+    rec = Recovery(x.name, tidy(inf.minimizer) if inf.minimizer is not None else None,
+                   "" if inf.minimizer is not None else
+                   f"{x.name} is a subgradient point of the {_kind_name(atom)} term; recover it "
+                   "from the KKT conditions")
+    step = Step("conjugate", f"Minimizing over {x.name}: {inf.statement}.",
+                tuple(Equation(lhs, rel, rhs) for lhs, rel, rhs in inf.constraints),  # type: ignore[arg-type]
+                block=x.name)
+    return Outcome(value, constraints, rec, [step])
+
+
+# -- assembling the dual ---------------------------------------------------------
+
+
+def _assemble(work: Work, outcomes: dict[str, Outcome], mults):  # type: ignore[no-untyped-def]
+    objective = rebuild(work.constant, SCALAR)
+    constraints: list[DualConstraint] = []
+    recovery: list[Recovery] = []
+    inner: list[Variable] = []
+    unbounded = False
+    extra = list(work.extra)
+    for name, out in outcomes.items():
+        work.steps.extend(out.steps)
+        objective = b.add(objective, out.value)
+        constraints.extend(out.constraints)
+        extra.extend(out.extra)
+        unbounded = unbounded or out.unbounded
+        if out.inner and name != "(coupled)":
+            inner.append(work.problem.variable(name) if name in _primal_names(work)
+                         else Variable(next(u for u, _, _ in work.aux_blocks if u.name == name),
+                                       Domain("free")))
+        if out.recovery is not None and name in _primal_names(work):
+            recovery.append(out.recovery)
+    work.extra = [e for e in extra]
+    variables = tuple(mults) + tuple(work.extra)
+    dual = DualProblem("maximize", variables, tidy(objective), tuple(constraints),
+                       tuple(inner), unbounded)
+    return dual, recovery
+
+
+def _substituted(recovery: list[Recovery], fixed: dict[Expr, Expr]) -> list[Recovery]:
+    from dataclasses import replace
+
+    from dualize.model.expr import substitute
+
+    out = []
+    for r in recovery:
+        if r.formula is None:
+            out.append(r)
+            continue
+        formula = r.formula
+        for _ in range(len(fixed)):
+            formula = substitute(formula, fixed)
+        out.append(replace(r, formula=simplify_scalar(tidy(formula))))
+    return out
+
+
+def _as_minimization(dual: DualProblem) -> DualProblem:
+    return DualProblem("minimize", dual.variables, tidy(b.neg(dual.objective)),
+                       dual.constraints, dual.inner, dual.unbounded)
+
+
+def _dual_sentence(dual: DualProblem) -> str:
+    if dual.unbounded:
+        return ("The dual function is minus infinity for every choice of multipliers: the dual "
+                "gives no bound (the primal problem is unbounded below or its Lagrangian is).")
+    if dual.inner:
+        names = ", ".join(v.name for v in dual.inner)
+        return (f"The dual problem, with the infimum over {names} kept because no rule "
+                "eliminates it in closed form.")
+    return "The dual problem collects the dual function and every condition for it to be finite."
+
+
+def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:
+    notes = []
+    if work.aux_blocks:
+        notes.append("Auxiliary variables were introduced (u = affine argument of a building "
+                     "block); the dual is that of this equivalent reformulation, with the same "
+                     "optimal value and the same strong-duality conditions.")
+    if work.problem.sense == "maximize":
+        notes.append("For a maximization the dual is a minimization whose value bounds the "
+                     "primal optimum from above.")
+    return tuple(notes)
+
+
+def uses(e: Expr, name: str) -> bool:
+    return depends_on(e, {name})

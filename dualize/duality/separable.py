@@ -1,0 +1,70 @@
+"""Separable terms: inf over x of sum_i phi(x_i) - s'x = -sum_i phi*(s_i).
+
+phi is read off the IR as a scalar function (``elementwise.scalar_form``), its
+conjugate is derived and checked numerically (``conjugate``), and the answer
+is lifted back entry by entry (``elementwise.lift``).  The domain of phi* gives
+the dual constraints; an open end is stated by its closure, which leaves the
+supremum of the dual unchanged.
+"""
+
+from __future__ import annotations
+
+import sympy
+from sympy.calculus.util import continuous_domain
+
+from dualize.duality import build as b
+from dualize.duality.atoms import Atom, Infimum
+from dualize.duality.conjugate import NoClosedForm, conjugate
+from dualize.duality.elementwise import LiftError, lift, lift_interval, scalar_form
+from dualize.duality.scalar import Scope, to_sympy
+from dualize.model.expr import Expr, Number, Symbol, symbols_of
+from dualize.model.problem import Domain
+
+_CLOSED = {">": ">=", "<": "<=", "==": "="}
+
+
+def _interval(domain: Domain) -> sympy.Interval | None:
+    if domain.kind == "free":
+        return sympy.S.Reals
+    if domain.kind == "nonneg":
+        return sympy.Interval(0, sympy.oo)
+    if domain.kind == "pos":
+        return sympy.Interval.open(0, sympy.oo)
+    if domain.kind == "box" and isinstance(domain.lo, Number) and isinstance(domain.hi, Number):
+        return sympy.Interval(domain.lo.value, domain.hi.value)
+    return None
+
+
+def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
+    """-sum(phi*(s)) with the domain of phi* as constraints on s."""
+    interval = _interval(domain)
+    if interval is None or atom.body is None:
+        return None
+    t = sympy.Symbol("t", real=True)
+    var = atom.arg
+    assert isinstance(var, Symbol)
+    f = scalar_form(atom.body, var, t)
+    if f is None:
+        return None
+    phi = to_sympy(atom.coef, Scope()) * f
+    natural = continuous_domain(phi, t, sympy.S.Reals)
+    region = natural.intersect(interval)
+    if not isinstance(region, sympy.Interval):
+        return None
+    try:
+        conj = conjugate(phi, t, region)
+    except NoClosedForm:
+        return None
+    data = {d.name: d for d in symbols_of(atom.body) + symbols_of(atom.coef) if d.role == "data"}
+    try:
+        entries = lift(conj.value, conj.s, s, data)
+        relations = lift_interval(conj.domain, s, data)
+        minimizer = lift(conj.maximizer, conj.s, s, data) if conj.maximizer is not None else None
+    except LiftError:
+        return None
+    total = b.sum_all(entries) if not entries.shape.is_scalar else entries
+    constraints = tuple((lhs, _CLOSED.get(rel, rel), rhs) for lhs, rel, rhs in relations)
+    statement = (f"the term is separable, sum_i phi({var.name}_i) with phi(t) = {phi}; its "
+                 f"conjugate is phi*(s) = {sympy.simplify(conj.value)} (derived by the "
+                 "Legendre transform and checked numerically)")
+    return Infimum(b.neg(total), constraints, minimizer, statement)

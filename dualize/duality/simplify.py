@@ -1,0 +1,273 @@
+"""Simplifying a dual problem into its textbook form.  Every rule is an
+equivalence (the optimal value and the optimal remaining multipliers are
+unchanged) and is recorded as a step.
+
+* A multiplier beta >= 0 that occurs only as +-beta in one equation E = 0 is
+  eliminated: beta = -+E0 >= 0 turns the equation into an inequality
+  (C 1 - alpha - beta = 0 becomes alpha <= C 1).  The same with a
+  semidefinite multiplier gives a matrix inequality.
+* An auxiliary multiplier z that occurs as +-z in an equation is substituted
+  away.
+* A free scalar multiplier in which the objective is smooth and strictly
+  concave, and which occurs in no constraint, is maximized in closed form when
+  its stationarity equation has one real solution (the entropy dual).
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+
+import sympy
+
+from dualize.duality import build as b
+from dualize.duality.normal import Term, expand, rebuild, tidy
+from dualize.duality.result import DualConstraint, DualProblem, DualVariable, Equation, Step
+from dualize.duality.scalar import Scope, from_sympy, to_sympy
+from dualize.model.expr import Apply, Expr, Ones, Symbol, depends_on, substitute
+from dualize.model.problem import Problem
+
+FLIP = {"<=": ">=", ">=": "<=", "succeq": "preceq", "preceq": "succeq", "=": "="}
+
+
+def simplify(dual: DualProblem, problem: Problem) -> tuple[DualProblem, list[Step]]:
+    """The simplified dual and the steps taken; each step that fixes a multiplier
+    carries it as its one equation ``y = value`` (see ``substitutions``)."""
+    steps: list[Step] = []
+    if dual.unbounded:
+        return dual, steps
+    changed = True
+    while changed:
+        changed = False
+        for rule in (_eliminate_slack, _substitute_auxiliary):
+            result = rule(dual)
+            if result is not None:
+                dual, step = result
+                steps.append(step)
+                changed = True
+                break
+    result = _maximize_free_scalars(dual)
+    if result is not None:
+        dual, more = result
+        steps.extend(more)
+    dual = replace(dual, constraints=tuple(_readable(c) for c in dual.constraints),
+                   objective=simplify_scalar(dual.objective))
+    return dual, steps
+
+
+def _occurs(dual: DualProblem, name: str, skip: int | None = None) -> bool:
+    if depends_on(dual.objective, {name}):
+        return True
+    return any(i != skip and (depends_on(c.lhs, {name}) or depends_on(c.rhs, {name}))
+               for i, c in enumerate(dual.constraints))
+
+
+def _lone_term(terms: list[Term], y: Symbol) -> tuple[int, sympy.Expr] | None:
+    """(index, coefficient) of the term that is exactly +-y, when y occurs nowhere else."""
+    found = None
+    for i, t in enumerate(terms):
+        parts = t.scalars + t.chain
+        if not any(depends_on(p, {y.name}) for p in parts):
+            continue
+        if found is not None or parts != (y,) or abs(t.coef) != 1:
+            return None
+        found = (i, t.coef)
+    return found
+
+
+def _eliminate_slack(dual: DualProblem):  # type: ignore[no-untyped-def]
+    for i, c in enumerate(dual.constraints):
+        if c.relation != "=" or not b.is_zero(c.rhs):
+            continue
+        terms = expand(c.lhs)
+        for v in dual.variables:
+            if v.set not in ("nonneg", "psd") or v.symbol.shape != c.lhs.shape:
+                continue
+            hit = _lone_term(terms, v.symbol)
+            if hit is None or _occurs(dual, v.name, skip=i):
+                continue
+            k, coef = hit
+            rest = rebuild(terms[:k] + terms[k + 1 :], c.lhs.shape)
+            cone = "succeq" if v.set == "psd" else ">="
+            relation = cone if coef < 0 else FLIP[cone]
+            new = DualConstraint(tidy(rest), relation, b.zeros(rest.shape),  # type: ignore[arg-type]
+                                 f"{c.reason}; the multiplier {v.name} was eliminated",
+                                 c.label)
+            dual = _without(dual, v.name, i, new)
+            text = (f"The multiplier {v.name} occurs only in this equation, with its sign fixed by "
+                    f"its set: eliminating it turns the equation into an inequality.")
+            return dual, Step("eliminate-slack-multiplier", text,
+                              (Equation(new.lhs, relation, new.rhs),))  # type: ignore[arg-type]
+    return None
+
+
+def _without(dual: DualProblem, name: str, index: int, new: DualConstraint | None) -> DualProblem:
+    constraints = list(dual.constraints)
+    if new is None:
+        del constraints[index]
+    else:
+        constraints[index] = new
+    variables = tuple(v for v in dual.variables if v.name != name)
+    return replace(dual, variables=variables, constraints=tuple(constraints))
+
+
+def _substitute_auxiliary(dual: DualProblem):  # type: ignore[no-untyped-def]
+    for i, c in enumerate(dual.constraints):
+        if c.relation != "=" or not b.is_zero(c.rhs):
+            continue
+        terms = expand(c.lhs)
+        for v in dual.variables:
+            if v.set != "free" or not v.origin.startswith("auxiliary"):
+                continue
+            if v.symbol.shape != c.lhs.shape:
+                continue
+            hit = _lone_term(terms, v.symbol)
+            if hit is None:
+                continue
+            k, coef = hit
+            rest = rebuild(terms[:k] + terms[k + 1 :], c.lhs.shape)
+            value = tidy(b.scale(b.num(-coef), rest))
+            dual = _without(dual, v.name, i, None)
+            dual = _substitute(dual, v.symbol, value)
+            text = f"The equation determines {v.name}; substituting it leaves the others."
+            return dual, Step("substitute-multiplier", text, (Equation(v.symbol, "=", value),))
+    return None
+
+
+def _substitute(dual: DualProblem, y: Symbol, value: Expr) -> DualProblem:
+    mapping = {y: value}
+    constraints = tuple(
+        replace(c, lhs=tidy(substitute(c.lhs, mapping)), rhs=tidy(substitute(c.rhs, mapping)))
+        for c in dual.constraints
+    )
+    return replace(dual, objective=tidy(substitute(dual.objective, mapping)),
+                   constraints=constraints)
+
+
+# -- closed-form maximization over a free scalar multiplier ----------------------
+
+
+def _maximize_free_scalars(dual: DualProblem):  # type: ignore[no-untyped-def]
+    steps = []
+    for v in dual.variables:
+        if v.set != "free" or not v.symbol.shape.is_scalar or dual.inner:
+            continue
+        if any(depends_on(c.lhs, {v.name}) or depends_on(c.rhs, {v.name})
+               for c in dual.constraints):
+            continue
+        if not depends_on(dual.objective, {v.name}):
+            continue
+        result = _maximize_over(dual.objective, v)
+        if result is None:
+            continue
+        value, argmax = result
+        dual = replace(dual, objective=value,
+                       variables=tuple(w for w in dual.variables if w.name != v.name))
+        steps.append(Step("maximize-free-multiplier", (
+            f"The dual objective is smooth and strictly concave in the free multiplier {v.name}, "
+            "which occurs in no constraint: setting its derivative to zero gives it in closed "
+            "form."), (Equation(v.symbol, "=", argmax),)))
+    return (dual, steps) if steps else None
+
+
+def _maximize_over(objective: Expr, v: DualVariable) -> tuple[Expr, Expr] | None:
+    scope = Scope()
+    expr = to_sympy(tidy(pull_out_of_exp(objective, v.symbol)), scope)
+    nu = scope.symbol_for(v.symbol)
+    if nu not in expr.free_symbols or _opaque_uses(scope, v.name):
+        return None
+    d1 = sympy.diff(expr, nu)
+    try:
+        roots = sympy.solve(d1, nu, dict=False)
+    except (NotImplementedError, ValueError):
+        return None
+    roots = [r for r in roots if r.is_real is not False]
+    if len(roots) != 1:
+        return None
+    second = sympy.simplify(sympy.diff(expr, nu, 2).subs(nu, roots[0]))
+    if second.is_negative is not True:
+        return None
+    value = sympy.simplify(sympy.expand_log(expr.subs(nu, roots[0]), force=False))
+    try:
+        return tidy(from_sympy(value, scope)), tidy(from_sympy(roots[0], scope))
+    except (ValueError, KeyError):
+        return None
+
+
+def _opaque_uses(scope: Scope, name: str) -> bool:
+    """True when the multiplier hides inside an opaque factor (then sympy cannot see it)."""
+    return any(not isinstance(e, Symbol) and depends_on(e, {name}) for e in scope.to_ir.values())
+
+
+def pull_out_of_exp(e: Expr, y: Symbol) -> Expr:
+    """exp(a + s 1) = exp(s) exp(a) for a scalar s, everywhere in ``e``."""
+    if isinstance(e, Apply) and e.func == "exp" and not e.shape.is_scalar:
+        scalar_terms, rest = [], []
+        for t in expand(e.arg):
+            (scalar_terms if t.chain == (Ones(e.shape.rows),) else rest).append(t)
+        if scalar_terms and any(depends_on(p, {y.name}) for t in scalar_terms
+                                for p in t.scalars):
+            s = rebuild([Term(t.coef, t.scalars, ()) for t in scalar_terms], b.SCALAR)
+            inner = b.apply("exp", rebuild(rest, e.shape))
+            return b.scale(b.apply("exp", s), inner)
+        return e
+    from dataclasses import fields
+
+    changes = {}
+    for f in fields(e):  # type: ignore[arg-type]
+        value = getattr(e, f.name)
+        if isinstance(value, Expr):
+            changes[f.name] = pull_out_of_exp(value, y)
+        elif isinstance(value, tuple) and value and isinstance(value[0], Expr):
+            changes[f.name] = tuple(pull_out_of_exp(x, y) for x in value)
+    return replace(e, **changes) if changes else e  # type: ignore[type-var]
+
+
+# -- stating constraints readably ------------------------------------------------
+
+
+def _readable(c: DualConstraint) -> DualConstraint:
+    """E rel 0 as (terms with multipliers) rel (the rest), signs made positive."""
+    if not b.is_zero(c.rhs) or c.relation in ("succeq", "preceq"):
+        return c
+    terms = expand(c.lhs)
+    var_terms = [t for t in terms if _has_unknowns(t)]
+    const_terms = [t for t in terms if not _has_unknowns(t)]
+    if not var_terms:
+        return c
+    lhs = rebuild(var_terms, c.lhs.shape)
+    rhs = tidy(b.neg(rebuild(const_terms, c.lhs.shape)))
+    relation = c.relation
+    if all(t.coef < 0 for t in var_terms):
+        lhs, rhs, relation = tidy(b.neg(lhs)), tidy(b.neg(rhs)), FLIP[relation]
+    return replace(c, lhs=lhs, rhs=rhs, relation=relation)  # type: ignore[arg-type]
+
+
+def _has_unknowns(t: Term) -> bool:
+    from dualize.model.expr import symbols_of
+
+    return any(s.role != "data" for p in t.scalars + t.chain for s in symbols_of(p))
+
+
+def simplify_scalar(e: Expr) -> Expr:
+    """A dual objective in scalars only, put over a common denominator by sympy."""
+    from dualize.model.expr import symbols_of, walk
+
+    if any(not s.shape.is_scalar for s in symbols_of(e)) or not any(
+            isinstance(n, b.Power) and n.exponent < 0 for n in walk(e)):
+        return e
+    scope = Scope()
+    value = sympy.cancel(sympy.together(to_sympy(e, scope)))
+    try:
+        return from_sympy(value, scope)
+    except (ValueError, KeyError):
+        return e
+
+
+def substitutions(steps: list[Step]) -> dict[Expr, Expr]:
+    """The multipliers fixed by simplification steps, for use in recovery formulas."""
+    out: dict[Expr, Expr] = {}
+    for step in steps:
+        if step.rule in ("substitute-multiplier", "maximize-free-multiplier"):
+            eq = step.equations[0]
+            out[eq.lhs] = eq.rhs  # type: ignore[index]
+    return out
