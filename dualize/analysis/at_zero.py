@@ -11,7 +11,7 @@ from collections.abc import Mapping
 
 import sympy
 
-from dualize.analysis import sign as S
+from dualize.analysis import sign_rules as S
 from dualize.model import expr as E
 
 

@@ -11,9 +11,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from dualize.analysis.curvature import Curvature, flip, is_convex
+from dualize.analysis.dcp import Curvature, flip, is_convex
 from dualize.analysis.hessian import curvature_with_fallback
-from dualize.analysis.sign import Sign
+from dualize.analysis.sign_rules import Sign
 from dualize.model.expr import symbols_of
 from dualize.model.problem import Constraint, Problem
 
@@ -47,7 +47,7 @@ def variable_signs(problem: Problem) -> dict[str, Sign]:
     for v in problem.variables:
         s = _DOMAIN_SIGN.get(v.domain.kind)
         if v.domain.kind == "box" and v.domain.lo is not None:
-            from dualize.analysis.sign import NONNEG, sign
+            from dualize.analysis.sign_rules import NONNEG, sign
             s = "nonneg" if sign(v.domain.lo) in NONNEG else None
         if s is not None:
             out[v.name] = s

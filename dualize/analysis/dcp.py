@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 
-from dualize.analysis import sign as S
+from dualize.analysis import sign_rules as S
 from dualize.analysis.forms import gram_middle, is_log_sum_exp, pull_scalars, transpose_of
 from dualize.model import expr as E
 

@@ -14,31 +14,30 @@ from __future__ import annotations
 from collections.abc import Mapping
 from itertools import combinations
 
-from dualize.analysis.curvature import Curvature, curvature
-from dualize.analysis.sign import Sign
+from dualize.analysis.dcp import Curvature, curvature
+from dualize.analysis.sign_rules import Sign
 from dualize.model import expr as E
 from dualize.model.problem import Problem
 
 MAX_UNKNOWNS = 6
 
 
-def curvature_with_fallback(node: E.Expr, problem: Problem,
+def curvature_with_fallback(node: E.Expr, problem: Problem | None,
                             signs: Mapping[str, Sign]) -> Curvature:
-    """DCP curvature, else the Hessian test on a small fixed-size expression."""
+    """DCP curvature, else the Hessian test on a small fixed-size expression; may say
+    "neither" (proved neither convex nor concave) beside the five curvatures."""
     c = curvature(node, signs)
     if c != "unknown":
         return c
-    return hessian_curvature(node, problem, signs)
+    return hessian_curvature(node, signs)
 
 
-def hessian_curvature(node: E.Expr, problem: Problem, signs: Mapping[str, Sign]) -> Curvature:
+def hessian_curvature(node: E.Expr, signs: Mapping[str, Sign]) -> Curvature:
     import sympy
 
     from dualize.analysis.scalarize import NotScalarizable, to_sympy, unknowns_for
 
-    used = {s.name for s in E.symbols_of(node, "variable")}
-    spec = {v.name: (v.symbol.shape, signs.get(v.name)) for v in problem.variables
-            if v.name in used}
+    spec = {v.name: (v.shape, signs.get(v.name)) for v in E.symbols_of(node, "variable")}
     try:
         unknowns = unknowns_for(spec)
         entries = list(to_sympy(node, unknowns))

@@ -14,7 +14,7 @@ from itertools import product
 from dualize.analysis.at_zero import Undefined, at_zero
 from dualize.analysis.convexity import Convexity, variable_signs
 from dualize.analysis.report import Verdict
-from dualize.analysis.sign import NONNEG, NONPOS, Sign, sign
+from dualize.analysis.sign_rules import NONNEG, NONPOS, Sign, sign
 from dualize.model import expr as E
 from dualize.model.problem import Constraint, Problem
 

@@ -12,7 +12,7 @@ from typing import Any
 
 from dualize.analysis import rules as R
 from dualize.analysis.convexity import Convexity
-from dualize.analysis.curvature import curvature
+from dualize.analysis.dcp import curvature
 from dualize.analysis.forms import gram_middle, pull_scalars
 from dualize.diagnostics import Diagnostic, make
 from dualize.model import expr as E

@@ -70,3 +70,29 @@ def problem(objective: E.Expr, variables: list[tuple[E.Symbol, str]],
                          for d in (s.shape.rows, s.shape.cols) if isinstance(d, sympy.Symbol)},
                         key=str))
     return Problem(None, sense, objective, vs, ds, tuple(constraints), dims)
+
+
+def load_problem(text: str) -> Problem:
+    """The typed problem of ``text``, which must load without errors."""
+    from dualize.model import load
+
+    loaded = load(text)
+    errors = [d for d in loaded.diagnostics if d.severity == "error"]
+    assert loaded.problem is not None and not errors, errors
+    return loaded.problem
+
+
+def objective_curvature(objective: str, over: str, data_lines: str = "") -> str:
+    """Curvature (composition rules plus the Hessian fallback) of an objective as written."""
+    from dualize.analysis import curvature
+    from dualize.analysis.convexity import variable_signs
+
+    p = load_problem(f"{data_lines}\nminimize {objective}\nover {over}\n")
+    return curvature(p.objective, variable_signs(p))
+
+
+def rules_of(text: str, instance: object = None) -> list[str]:
+    """The rule ids the analysis raises on ``text`` (sorted)."""
+    from dualize.analysis import analyze
+
+    return sorted(d.rule for d in analyze(load_problem(text), instance).diagnostics)
