@@ -260,9 +260,15 @@ def kkt_views(conditions: tuple[Condition, ...], fmt: Formatter) -> tuple[KKTVie
     groups = [g for g in KKT_ORDER if any(c.group == g for c in conditions)]
     groups += sorted({c.group for c in conditions} - set(KKT_ORDER))
     return tuple(
-        KKTView(fmt.prose(g), tuple(equation_line(c.equation, fmt, c.note)
-                                    for c in conditions if c.group == g))
+        KKTView(fmt.prose(g), tuple(condition_line(c, fmt) for c in conditions if c.group == g))
         for g in groups)
+
+
+def condition_line(condition: Condition, fmt: Formatter) -> Line:
+    """A KKT condition; one stated only in words (a subgradient condition) is a bare note."""
+    if condition.equation is None:
+        return Line("", "", "", note=fmt.prose(condition.note))
+    return equation_line(condition.equation, fmt, condition.note)
 
 
 def recovery_view(recovery: Recovery, fmt: Formatter) -> RecoveryView:

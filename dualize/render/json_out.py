@@ -170,8 +170,10 @@ def step_json(step: Step) -> dict[str, Any]:
 
 
 def kkt_json(condition: Condition) -> dict[str, Any]:
-    return {"group": condition.group, **equation_json(condition.equation),
-            "note": condition.note}
+    """A condition; ``text`` and ``latex`` are null when only the note states it."""
+    stated = ({"text": None, "latex": None} if condition.equation is None
+              else equation_json(condition.equation))
+    return {"group": condition.group, **stated, "note": condition.note}
 
 
 def recovery_json(recovery: Recovery) -> dict[str, Any]:

@@ -162,8 +162,14 @@ def _tag(line: Line) -> str:
 
 def align_block(lines: tuple[Line, ...]) -> str:
     """Equations of one step, aligned at their relation signs."""
-    rows = [f"{line.lhs} &{line.relation} {line.rhs}{_note(line)}" for line in lines]
+    rows = [_align_row(line) for line in lines]
     return "\\begin{align*}\n" + " \\\\\n".join(rows) + "\n\\end{align*}"
+
+
+def _align_row(line: Line) -> str:
+    if not line.relation:
+        return rf"& \text{{{line.note}}}"
+    return f"{line.lhs} &{line.relation} {line.rhs}{_note(line)}"
 
 
 def _note(line: Line) -> str:

@@ -56,9 +56,11 @@ class IRLatexPrinter(LatexPrinter):
         return latex_name(node.name)
 
     def _print_ir_Number(self, node: ir.Number) -> str:
-        value = sympy.Rational(node.value)
-        if value < 0:
-            return "-" + self._print_ir_Number(ir.Number(-value))
+        value = st.number_value(node.value)
+        if st.is_negative_number(value):
+            return "-" + self.wrap(ir.Number(-value), st.NEG)
+        if not value.is_Rational:
+            return self._print(value)  # a size such as n or n + 1, printed by sympy
         if value.q == 1:
             return self._print(sympy.Integer(value.p))
         return rf"\tfrac{{{value.p}}}{{{value.q}}}"
@@ -97,7 +99,7 @@ class IRLatexPrinter(LatexPrinter):
     def _factor(self, factor: ir.Expr) -> str:
         """A scalar factor in front of what it scales; products get parentheses."""
         if isinstance(factor, ir.Number):
-            return self._print(factor)
+            return self.wrap(factor, st.ADD)
         return self.wrap(factor, st.MUL if not isinstance(factor, ir.Symbol) else 0)
 
     def _scaled(self, arg: ir.Expr) -> str:

@@ -53,9 +53,15 @@ def display(body: str) -> str:
 
 def aligned(lines: tuple[Line, ...]) -> str:
     """Equations aligned at their relation signs, in an ``aligned`` environment."""
-    rows = [f"{line.lhs} &{line.relation} {line.rhs}"
-            + (rf" && \text{{{line.note}}}" if line.note else "") for line in lines]
+    rows = [_row(line) for line in lines]
     return "\\begin{aligned}\n" + " \\\\\n".join(rows) + "\n\\end{aligned}"
+
+
+def _row(line: Line) -> str:
+    if not line.relation:
+        return rf"& \text{{{line.note}}}"
+    return f"{line.lhs} &{line.relation} {line.rhs}" + (
+        rf" && \text{{{line.note}}}" if line.note else "")
 
 
 def _verdict_rows(view: DocumentView) -> list[str]:

@@ -8,6 +8,8 @@ The LaTeX and text printers share these rules so the two targets never disagree.
 
 from __future__ import annotations
 
+from fractions import Fraction
+
 import sympy
 
 from dualize.model import expr as ir
@@ -23,6 +25,17 @@ _ATOMS = (ir.Symbol, ir.Ones, ir.Identity, ir.Zero, ir.Norm, ir.Apply, ir.Extrem
 _POSTFIX = (ir.Transpose, ir.Power, ir.Inverse, ir.PseudoInverse)
 
 
+def number_value(value: object) -> sympy.Expr:
+    """A Number's value as a sympy expression (the IR holds sympy values; ints are tolerated)."""
+    if isinstance(value, sympy.Basic):
+        return value  # type: ignore[return-value]
+    if isinstance(value, int):
+        return sympy.Integer(value)
+    if isinstance(value, Fraction):
+        return sympy.Rational(value.numerator, value.denominator)
+    raise TypeError(f"not an exact number: {value!r}")
+
+
 def is_number(node: ir.Expr, value: int | None = None) -> bool:
     """True for a Number node (of ``value`` when given)."""
     return isinstance(node, ir.Number) and (value is None or node.value == value)
@@ -35,7 +48,7 @@ def precedence(node: ir.Expr) -> int:
     if isinstance(node, _POSTFIX):
         return POSTFIX
     if isinstance(node, ir.Number):
-        return _number_precedence(sympy.Rational(node.value))
+        return _number_precedence(node.value)
     if isinstance(node, ir.Add):
         return ADD if len(node.terms) > 1 else precedence(node.terms[0])
     if split_sign(node)[0]:
@@ -49,16 +62,30 @@ def precedence(node: ir.Expr) -> int:
     return MUL
 
 
-def _number_precedence(value: sympy.Rational) -> int:
-    if value < 0:
+def _number_precedence(value: sympy.Expr) -> int:
+    """Rationals bind as atoms (integers) or products (fractions); sizes like n + 1 as sums."""
+    value = number_value(value)
+    if is_negative_number(value):
         return NEG
-    return ATOM if value.q == 1 else MUL
+    if value.is_Rational:
+        return ATOM if value.q == 1 else MUL
+    if value.is_Add:
+        return ADD
+    return MUL if value.is_Mul else ATOM
+
+
+def is_negative_number(value: sympy.Expr) -> bool:
+    """True for -3/4 and for -n: a value whose printed form opens with a minus sign."""
+    value = number_value(value)
+    if value.is_Rational:
+        return bool(value < 0)
+    return bool(value.could_extract_minus_sign())
 
 
 def split_sign(node: ir.Expr) -> tuple[bool, ir.Expr]:
     """(negative, magnitude) with ``node == -magnitude`` when negative is True."""
-    if isinstance(node, ir.Number) and node.value < 0:
-        return True, ir.Number(-sympy.Rational(node.value))
+    if isinstance(node, ir.Number) and is_negative_number(node.value):
+        return True, ir.Number(-number_value(node.value))
     if isinstance(node, ir.Scale):
         negative, factor = split_sign(node.factor)
         inner_negative, arg = split_sign(node.arg)
@@ -99,7 +126,7 @@ def scalar_factors(node: ir.Scale) -> tuple[tuple[ir.Expr, ...], ir.Expr]:
         arg = arg.arg
     numbers = [f for f in factors if isinstance(f, ir.Number)]
     others = [f for f in factors if not isinstance(f, ir.Number)]
-    coefficient = sympy.Mul(*(sympy.Rational(n.value) for n in numbers)) if numbers else None
+    coefficient = sympy.Mul(*(number_value(n.value) for n in numbers)) if numbers else None
     lead = [] if coefficient is None or coefficient == 1 else [ir.Number(coefficient)]
     return tuple(lead + others), arg
 
@@ -121,56 +148,73 @@ def flat_terms(node: ir.Add) -> tuple[ir.Expr, ...]:
 def ordered_terms(node: ir.Add) -> tuple[ir.Expr, ...]:
     """Quadratic and higher terms first, then other nonlinear ones, linear, constant.
 
-    The sort is stable, so terms of one kind keep the order they were written in;
-    a sum is not made to open with a minus sign when it has a positive term
-    (``1 - s``, not ``-s + 1``), as authors write it.
+    Degrees count the primal variables when the sum has any (so a Lagrangian keeps
+    the objective's shape, multiplier terms counting as linear), else the
+    multipliers (a dual objective).  The sort is stable, so terms of one kind keep
+    the order they were written in; a sum is not made to open with a minus sign
+    when it has a positive term: the positive terms of the first positive kind
+    lead (``1 - s``, not ``-s + 1``), as authors write it.
     """
-    terms = sorted(flat_terms(node), key=_term_rank)
-    if split_sign(terms[0])[0]:
-        positive = next((t for t in terms if not split_sign(t)[0]), None)
-        if positive is not None:
-            terms.remove(positive)
-            terms.insert(0, positive)
-    return tuple(terms)
+    terms = flat_terms(node)
+    roles = PRIMAL if any(_mentions(t, PRIMAL) for t in terms) else DUAL
+    ordered = sorted(terms, key=lambda t: _term_rank(t, roles))
+    if not split_sign(ordered[0])[0]:
+        return tuple(ordered)
+    positive = [t for t in ordered if not split_sign(t)[0]]
+    if not positive:
+        return tuple(ordered)
+    lead_rank = _term_rank(positive[0], roles)
+    lead = [t for t in positive if _term_rank(t, roles) == lead_rank]
+    return tuple(lead + [t for t in ordered if all(t is not p for p in lead)])
 
 
-def _term_rank(term: ir.Expr) -> int:
-    d = degree(term)
+PRIMAL = frozenset({"variable", "auxiliary"})
+DUAL = frozenset({"multiplier"})
+
+
+def _mentions(node: ir.Expr, roles: frozenset[str]) -> bool:
+    return any(isinstance(n, ir.Symbol) and n.role in roles for n in ir.walk(node))
+
+
+def _term_rank(term: ir.Expr, roles: frozenset[str]) -> int:
+    d = degree(term, roles)
     if d is None:
         return 1
     return 0 if d >= 2 else 3 - d  # degree 1 -> 2, constants -> 3
 
 
-def degree(node: ir.Expr) -> int | None:
-    """Polynomial degree in the non-data symbols; None for other nonlinear terms."""
+def degree(node: ir.Expr, roles: frozenset[str] = PRIMAL | DUAL) -> int | None:
+    """Polynomial degree in the symbols of ``roles``; None for other nonlinear terms."""
     if isinstance(node, ir.Symbol):
-        return 0 if node.role == "data" else 1
+        return 1 if node.role in roles else 0
     if isinstance(node, ir.Number | ir.Ones | ir.Identity | ir.Zero):
         return 0
     if isinstance(node, ir.Add | ir.Extremum | ir.Block):
-        return _max_degree(node.children())
+        return _max_degree(node.children(), roles)
     if isinstance(node, ir.MatMul | ir.Hadamard | ir.Scale):
-        return _sum_degree(node.children())
+        return _sum_degree(node.children(), roles)
     if isinstance(node, ir.Power):
-        return _power_degree(node)
+        return _power_degree(node, roles)
     if isinstance(node, ir.Divide):
-        return degree(node.left) if degree(node.right) == 0 else _nonpolynomial(node)
+        if degree(node.right, roles) == 0:
+            return degree(node.left, roles)
+        return _nonpolynomial(node, roles)
     if isinstance(node, ir.Apply) and node.func == "abs":
-        return degree(node.arg)
+        return degree(node.arg, roles)
     if isinstance(node, ir.Norm | ir.Transpose | ir.Broadcast | ir.SumAll | ir.Diag
                   | ir.Trace):
-        return degree(node.children()[0])
-    return _nonpolynomial(node)
+        return degree(node.children()[0], roles)
+    return _nonpolynomial(node, roles)
 
 
-def _nonpolynomial(node: ir.Expr) -> int | None:
-    """Constant when no decision symbol occurs, else not a polynomial."""
-    constant = all(degree(c) == 0 for c in node.children())
+def _nonpolynomial(node: ir.Expr, roles: frozenset[str]) -> int | None:
+    """Constant when no counted symbol occurs, else not a polynomial."""
+    constant = all(degree(c, roles) == 0 for c in node.children())
     return 0 if constant else None
 
 
-def _power_degree(node: ir.Power) -> int | None:
-    base = degree(node.base)
+def _power_degree(node: ir.Power, roles: frozenset[str]) -> int | None:
+    base = degree(node.base, roles)
     if base == 0:
         return 0
     exponent = sympy.Rational(node.exponent)
@@ -179,11 +223,11 @@ def _power_degree(node: ir.Power) -> int | None:
     return base * int(exponent)
 
 
-def _max_degree(children: tuple[ir.Expr, ...]) -> int | None:
-    degrees = [degree(c) for c in children]
+def _max_degree(children: tuple[ir.Expr, ...], roles: frozenset[str]) -> int | None:
+    degrees = [degree(c, roles) for c in children]
     return None if None in degrees else max(degrees, default=0)  # type: ignore[type-var]
 
 
-def _sum_degree(children: tuple[ir.Expr, ...]) -> int | None:
-    degrees = [degree(c) for c in children]
+def _sum_degree(children: tuple[ir.Expr, ...], roles: frozenset[str]) -> int | None:
+    degrees = [degree(c, roles) for c in children]
     return None if None in degrees else sum(degrees)  # type: ignore[arg-type]

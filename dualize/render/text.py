@@ -123,7 +123,8 @@ def equation_rows(lines: tuple[Line, ...]) -> list[str]:
     """Equations with their relation signs in one column."""
     width = max((len(line.lhs) for line in lines), default=0)
     return [f"{line.lhs.rjust(width)} {line.relation} {line.rhs}"
-            + (f"   ({line.note})" if line.note else "") for line in lines]
+            + (f"   ({line.note})" if line.note else "") if line.relation else line.note
+            for line in lines]
 
 
 def _verdict_rows(view: DocumentView, color: bool) -> list[str]:

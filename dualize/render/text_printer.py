@@ -59,9 +59,12 @@ class IRTextPrinter(StrPrinter):
         return text_name(node.name)
 
     def _print_ir_Number(self, node: ir.Number) -> str:
-        value = sympy.Rational(node.value)
-        if value < 0:
-            return "-" + self._print_ir_Number(ir.Number(-value))
+        value = st.number_value(node.value)
+        if st.is_negative_number(value):
+            return "-" + self.wrap(ir.Number(-value), st.NEG)
+        if not value.is_Rational:
+            # a size such as n or n + 1, printed by sympy
+            return self._print(value).replace("**", "^").replace("*", " ")
         if value.q == 1:
             return self._print(sympy.Integer(value.p))
         return _VULGAR.get((int(value.p), int(value.q)), f"{value.p}/{value.q}")
@@ -99,8 +102,8 @@ class IRTextPrinter(StrPrinter):
     def _factor(self, factor: ir.Expr) -> str:
         """A scalar factor in front of what it scales; fractions and products get parentheses."""
         if isinstance(factor, ir.Number):
-            shown = self._print(factor)
-            return f"({shown})" if "/" in shown else shown
+            shown = self.wrap(factor, st.ADD)
+            return f"({shown})" if "/" in shown and shown[0] != "(" else shown
         return self.wrap(factor, st.MUL if not isinstance(factor, ir.Symbol) else 0)
 
     def _scaled(self, arg: ir.Expr) -> str:
