@@ -27,7 +27,7 @@ from dualize.model.expr import (
     Trace,
     symbols_of,
 )
-from dualize.model.scope import FUNCTIONS, Scope
+from dualize.model.scope import FUNCTIONS, ResolveError, Scope
 from dualize.syntax import ast
 
 ELEMENTWISE = {"exp": "exp", "log": "log", "sqrt": "sqrt"}
@@ -54,6 +54,8 @@ class ExprResolver:
         symbol = self.scope.names.get(node.name)
         if symbol is not None:
             return symbol.with_span(node.span)
+        if node.name in self.scope.failed:
+            raise ResolveError(None)
         if node.name in self.scope.dims:
             raise self.scope.fail(M.DIMENSION_AS_VALUE, node.span, name=node.name)
         raise self.scope.fail(M.UNDECLARED_NAME, node.span, name=node.name,

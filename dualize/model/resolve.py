@@ -31,7 +31,8 @@ class _Run:
         try:
             return step(*args)
         except ResolveError as err:
-            self.diagnostics.append(err.diagnostic)
+            if err.diagnostic is not None:
+                self.diagnostics.append(err.diagnostic)
             return None
 
 
@@ -59,9 +60,17 @@ def _declare(run: _Run, decl: ast.Decl, role: str) -> tuple[Symbol, SetMeaning]:
         raise scope.fail(M.RESERVED_NAME, decl.name_span, name=decl.name)
     if decl.name in scope.names:
         raise scope.fail(M.DECLARED_TWICE, decl.name_span, name=decl.name)
-    meaning = set_meaning(decl.set, scope, run.resolve)
+    try:
+        meaning = set_meaning(decl.set, scope, run.resolve)
+    except ResolveError:
+        scope.failed.add(decl.name)
+        raise
     if role == "data":
-        check_data_set(decl.set, meaning, decl.name, scope)
+        try:
+            check_data_set(decl.set, meaning, decl.name, scope)
+        except ResolveError:
+            scope.failed.add(decl.name)
+            raise
     symbol = Symbol(decl.name, role, meaning.shape, meaning.facts,  # type: ignore[arg-type]
                     span=decl.name_span)
     scope.names[decl.name] = symbol

@@ -24,10 +24,14 @@ RESERVED = frozenset(FUNCTIONS + KEYWORDS)
 
 
 class ResolveError(Exception):
-    """Stops resolving one statement; the resolver records the diagnostic and goes on."""
+    """Stops resolving one statement; the resolver records the diagnostic and goes on.
 
-    def __init__(self, diagnostic: Diagnostic) -> None:
-        super().__init__(diagnostic.message)
+    A ``diagnostic`` of None stops the statement silently: it refers to a name whose
+    declaration already failed, and one report per defect is enough.
+    """
+
+    def __init__(self, diagnostic: Diagnostic | None) -> None:
+        super().__init__(diagnostic.message if diagnostic else "already reported")
         self.diagnostic = diagnostic
 
 
@@ -36,6 +40,7 @@ class Scope:
     path: str
     names: dict[str, Symbol] = field(default_factory=dict)
     dims: dict[str, sympy.Symbol] = field(default_factory=dict)
+    failed: set[str] = field(default_factory=set)
 
     def fail(self, kind: RuleKind, span: Span | None, hint: str | None = None,
              **values: object) -> ResolveError:

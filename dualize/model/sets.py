@@ -111,7 +111,8 @@ def _bound(e: ast.Expr, scope: Scope, bound: BoundResolver) -> Expr:
     value = bound(e)
     if _is_constant_scalar(value):
         return value
-    found = "a variable" if isinstance(value, Symbol) else f"a {value.shape}"
+    moving = isinstance(value, Symbol) and value.role != "data"
+    found = "a variable" if moving else f"a {value.shape}"
     raise scope.fail(M.BAD_BOX_BOUND, e.span, found=found)
 
 

@@ -1,0 +1,62 @@
+"""Functions -> IR nodes: sum, exp, log, sqrt, max, min, diag, trace, inv, ones, identity."""
+
+import sympy
+
+from dualize.model import load
+from dualize.model.expr import (
+    SCALAR,
+    Apply,
+    Diag,
+    Expr,
+    Extremum,
+    Identity,
+    Inverse,
+    MatMul,
+    Ones,
+    Shape,
+    SumAll,
+    Trace,
+    Transpose,
+)
+
+n = sympy.Symbol("n", integer=True, positive=True)
+
+
+def resolved(text: str) -> tuple[Expr, dict]:
+    loaded = load("data Q in S^n_++\ndata v in R^n\n" + text)
+    assert loaded.problem is not None, loaded.diagnostics
+    table = {d.name: d.symbol for d in loaded.problem.data}
+    table.update({x.name: x.symbol for x in loaded.problem.variables})
+    return loaded.problem.objective, table
+
+
+def test_sum_exp_log_sqrt() -> None:
+    e, s = resolved("minimize sum(exp(x)) + sum(log(x)) + sum(sqrt(x)) over x in R^n")
+    assert [t.shape for t in e.terms] == [SCALAR] * 3
+    assert e.terms[0] == SumAll(Apply("exp", s["x"]))
+    assert e.terms[1] == SumAll(Apply("log", s["x"]))
+    assert e.terms[2] == SumAll(Apply("sqrt", s["x"]))
+
+
+def test_log_sum_exp_is_built_as_written() -> None:
+    e, s = resolved("minimize log(sum(exp(x))) over x in R^n")
+    assert e == Apply("log", SumAll(Apply("exp", s["x"])))
+
+
+def test_max_min_elementwise() -> None:
+    e, s = resolved("minimize sum(max(x, v)) + sum(min(x, 1)) over x in R^n")
+    assert e.terms[0].arg == Extremum("max", s["x"], s["v"])
+    assert e.terms[1].arg.kind == "min" and e.terms[1].arg.right.shape == s["x"].shape
+
+
+def test_diag_trace_inv() -> None:
+    e, s = resolved("minimize trace(diag(x) * inv(Q)) over x in R^n")
+    assert e == Trace(MatMul((Diag(s["x"]), Inverse(s["Q"]))))
+    assert Diag(s["x"]).shape == Shape(n, n)
+
+
+def test_ones_and_identity_with_dimension_symbols_and_numbers() -> None:
+    e, s = resolved("minimize ones(n)' * x + trace(identity(n) * Q) + sum(ones(3)) over x in R^n")
+    assert e.terms[0] == MatMul((Transpose(Ones(n)), s["x"]))
+    assert e.terms[1] == Trace(MatMul((Identity(n), s["Q"])))
+    assert e.terms[2] == SumAll(Ones(sympy.Integer(3)))
