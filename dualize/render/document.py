@@ -68,6 +68,8 @@ class Formatter(Protocol):
 
     def prose(self, text: str) -> str: ...
 
+    def gradient(self, variable: str, of: str) -> str: ...
+
 
 @dataclass(frozen=True)
 class Line:
@@ -189,10 +191,18 @@ def lagrangian_line(derivation: Derivation, fmt: Formatter) -> Line:
 
 
 def head_text(head: Head, fmt: Formatter) -> str:
-    """``g(alpha, beta)`` with each name in the target's spelling."""
+    """``g(alpha, beta)`` with each name in the target's spelling; ``grad_x L`` as a gradient."""
+    name = _head_name(head.name, fmt)
     if not head.args:
-        return fmt.name(head.name)
-    return fmt.name(head.name) + "(" + ", ".join(fmt.name(a) for a in head.args) + ")"
+        return name
+    return name + "(" + ", ".join(fmt.name(a) for a in head.args) + ")"
+
+
+def _head_name(name: str, fmt: Formatter) -> str:
+    if name.startswith("grad_") and " " in name:
+        variable, _, of = name.removeprefix("grad_").partition(" ")
+        return fmt.gradient(fmt.name(variable), _head_name(of.strip(), fmt))
+    return " ".join(fmt.name(word) for word in name.split())
 
 
 def equation_line(equation: Equation, fmt: Formatter, note: str = "") -> Line:

@@ -27,9 +27,8 @@ from dualize.duality.result import (
 )
 from dualize.model import expr as ir
 from dualize.model.problem import Constraint, DataDecl, Problem, Variable
-from dualize.render.document import Analysis, diagnostic_key, shape_text
+from dualize.render.document import Analysis, diagnostic_key, head_text, shape_text
 from dualize.render.latex_printer import latex_expr, latex_relation
-from dualize.render.names import latex_name, text_name
 from dualize.render.text_printer import text_expr, text_relation
 
 SCHEMA_VERSION = 1
@@ -51,11 +50,10 @@ def relation_math(lhs: ir.Expr | Head, relation: str, rhs: ir.Expr) -> dict[str,
 def _side(lhs: ir.Expr | Head) -> tuple[str, str]:
     if not isinstance(lhs, Head):
         return text_expr(lhs), latex_expr(lhs)
-    if not lhs.args:
-        return text_name(lhs.name), latex_name(lhs.name)
-    text = ", ".join(text_name(a) for a in lhs.args)
-    latex = ", ".join(latex_name(a) for a in lhs.args)
-    return f"{text_name(lhs.name)}({text})", f"{latex_name(lhs.name)}({latex})"
+    from dualize.render.latex import LatexFormatter
+    from dualize.render.text import TextFormatter
+
+    return head_text(lhs, TextFormatter()), head_text(lhs, LatexFormatter())
 
 
 def variable_json(variable: Variable) -> dict[str, Any]:

@@ -132,6 +132,9 @@ class LatexFormatter:
     def prose(self, text: str) -> str:
         return latex_prose(text)
 
+    def gradient(self, variable: str, of: str) -> str:
+        return rf"\nabla_{{{variable}}} {of}"
+
 
 def problem_block(view: ProblemView) -> str:
     """``\\begin{aligned} \\underset{x}{\\text{minimize}} \\quad & f \\\\ ... \\end{aligned}``."""

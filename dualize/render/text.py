@@ -20,7 +20,7 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
-from dualize.render.names import PROSE_RELATIONS, prose_pieces, text_name
+from dualize.render.names import PROSE_RELATIONS, prose_pieces, text_name, unicode_subscript
 from dualize.render.templating import fill
 from dualize.render.text_printer import text_expr, text_relation
 
@@ -98,6 +98,10 @@ class TextFormatter:
 
     def prose(self, text: str) -> str:
         return text_prose(text)
+
+    def gradient(self, variable: str, of: str) -> str:
+        small = unicode_subscript(variable)
+        return f"∇{small} {of}" if small else f"∇_{variable} {of}"
 
 
 def problem_rows(view: ProblemView) -> list[str]:
