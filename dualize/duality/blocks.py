@@ -25,7 +25,7 @@ from dualize.duality.result import (
     Recovery,
     Step,
 )
-from dualize.model.expr import Block, Expr, Symbol, depends_on, symbols_of
+from dualize.model.expr import Block, Divide, Expr, Symbol, depends_on, symbols_of
 from dualize.model.problem import Domain
 
 
@@ -50,7 +50,7 @@ def _has_multiplier(e: Expr) -> bool:
     return any(s.role == "multiplier" for s in symbols_of(e))
 
 
-def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> Outcome:
+def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> Outcome | None:
     """inf over x of g'x + r.
 
     Over R^n it is r if g = 0 and minus infinity otherwise; over R^n_+ (or
@@ -85,8 +85,7 @@ def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> O
         return Outcome(value, steps=[Step("minimize-affine-binary", "Over {0,1} the infimum of "
                        "g x is min(g, 0), entry by entry.", block=x.name)],
                        recovery=Recovery(x.name, None, "x_i = 1 where its coefficient is negative"))
-    return Outcome(r, inner=True, steps=[Step("no-closed-form", f"No rule minimizes a linear "
-                   f"function over the domain {kind} of {x.name}.", block=x.name)])
+    return None
 
 
 def _txt(e: Expr) -> str:
@@ -116,7 +115,7 @@ def _undetermined(x: Symbol) -> str:
             "a multiplier strictly inside its bounds, that constraint holds with equality)")
 
 
-def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome:
+def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
     """inf over x of x'Qx + g'x + r with H = Q + Q'.
 
     H positive definite: attained at x = -H^-1 g with value r - 1/2 g'H^-1 g.
@@ -130,10 +129,7 @@ def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome:
         return affine_block(x, domain, q.g, q.r)
     H = tidy(H)
     if domain.kind != "free":
-        return Outcome(q.r or b.num(0), inner=True, steps=[Step(
-            "no-closed-form", f"{x.name} enters quadratically and ranges over a restricted "
-            f"domain ({domain.kind}); no closed form: the infimum over {x.name} is kept.",
-            block=x.name)])
+        return None
     r = q.r if q.r is not None else b.num(0)
     g = tidy(q.g) if q.g is not None else None
     kind = definiteness(H)
@@ -178,8 +174,7 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
                            "minimize-quadratic-semidefinite", text, block=x.name)])
     if H.shape.is_scalar:
         value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)),
-                                      b.mul_scalars(b.power(g, sympy.Integer(2)),
-                                                    b.power(H, sympy.Integer(-1))))))
+                                      Divide(b.power(g, sympy.Integer(2)), H))))
         if not psd_known:
             constraints.append(zero_constraint(b.neg(H), "<=", "the quadratic must be convex"))
         text = (f"The Lagrangian is a quadratic in {x.name} whose curvature depends on the "
@@ -213,7 +208,7 @@ def _schur(x: Symbol, H: Expr, g: Expr, r: Expr) -> Outcome:
                        "minimize-quadratic-schur", text, block=x.name)], [var])
 
 
-def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome:
+def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome | None:
     """inf over X of <G, X> + c.
 
     Over S^n it is c if the symmetric part of G vanishes; over S^n_+ it is c
@@ -234,8 +229,7 @@ def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome:
                 "it is bounded below only where its coefficient is positive semidefinite.")
         return Outcome(r, [c], Recovery(X.name, None, _undetermined(X)), [Step(
             "minimize-affine-cone", text, block=X.name)])
-    return Outcome(r, inner=True, steps=[Step("no-closed-form", f"No rule for the domain "
-                   f"{domain.kind} of the matrix variable {X.name}.", block=X.name)])
+    return None
 
 
 def depends(e: Expr, x: Symbol) -> bool:

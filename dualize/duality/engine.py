@@ -180,7 +180,7 @@ def _block(work: Work, v: Variable) -> Outcome:
         lin = trace_linear(rebuild(terms, SCALAR), x)
         if lin is None:
             return _kept(v, terms, "the matrix variable enters other than linearly")
-        return matrix_block(x, v.domain, lin)
+        return matrix_block(x, v.domain, lin) or _kept(v, terms, _domain_why(v))
     atoms, polys, others = _classify(terms, x)
     if others:
         return _kept(v, terms, "a term has no rule: " + _brief(others))
@@ -193,7 +193,7 @@ def _block(work: Work, v: Variable) -> Outcome:
         assert q is not None
         H = hessian(q, x)
         if not mapped or H is None or definiteness(tidy(H)) == "pd":
-            return quadratic_block(x, v.domain, q)
+            return quadratic_block(x, v.domain, q) or _kept(v, terms, _domain_why(v))
     for a in mapped:
         _split_local(work, a, polys, x)
     direct = [a for a in nonsmooth if a.arg == x]
@@ -201,7 +201,26 @@ def _block(work: Work, v: Variable) -> Outcome:
         return _direct(work, v, nonsmooth[0], polys)
     for a in nonsmooth:
         _split_local(work, a, polys, x)
-    return _quadratic(v, polys + [_square_poly(a, x) for a in bare])
+    polys = polys + [_square_poly(a, x) for a in bare]
+    return _quadratic(v, polys) or _kept_quadratic(v, polys)
+
+
+def _kept_quadratic(v: Variable, polys: list[Quadratic]) -> Outcome:
+    """The infimum kept over what remains of the block after splitting."""
+    x = v.symbol
+    q = _sum(polys)  # type: ignore[arg-type]
+    assert q is not None
+    parts = [b.mul(b.transpose(x), q.Q, x) if q.Q is not None else None,
+             b.mul(b.transpose(q.g), x) if q.g is not None else None, q.r]
+    value = tidy(b.add(*(p for p in parts if p is not None)))
+    return Outcome(value, inner=True, steps=[Step(
+        "no-closed-form", f"The infimum over {v.name} is kept: {_domain_why(v)}.",
+        block=v.name)])
+
+
+def _domain_why(v: Variable) -> str:
+    return (f"no rule minimizes this Lagrangian over the domain of {v.name} "
+            f"({v.domain.kind}), which is not dualized")
 
 
 def _brief(terms: list[Term]) -> str:
@@ -247,7 +266,7 @@ def _sum(parts: list[Quadratic | None]) -> Quadratic | None:
     return _quad_sum(parts) if parts else Quadratic(None, None, None)
 
 
-def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome:
+def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome | None:
     q = _sum(polys)  # type: ignore[arg-type]
     assert q is not None
     return quadratic_block(v.symbol, v.domain, q)

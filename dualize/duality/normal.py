@@ -92,8 +92,28 @@ def tidy(e: Expr) -> Expr:
 
 
 def equal(a: Expr, c: Expr) -> bool:
-    """Structural equality after canonicalization (a proof of equality, not a test)."""
-    return expand(b.sub(a, c)) == []
+    """Structural equality after full expansion (a proof of equality, not a test)."""
+    _KEEP_FORMS.append(False)
+    try:
+        return expand(b.sub(a, c)) == []
+    finally:
+        _KEEP_FORMS.pop()
+
+
+# Quadratic forms v' M v of a sum v are kept whole in derived expressions, the way
+# a textbook writes -(1/2)(G'l + q)' P^-1 (G'l + q); ``equal`` expands them.
+_KEEP_FORMS = [True]
+
+
+def _is_compact_form(e: MatMul) -> bool:
+    f = e.factors
+    if not e.shape.is_scalar or len(f) < 2:
+        return False
+    if not any(isinstance(x, Add) for x in f):
+        return False
+    n = len(f)
+    return all(b.transpose(f[i]) == f[n - 1 - i] for i in range(n // 2)) and (
+        n % 2 == 0 or b.is_symmetric(f[n // 2]))
 
 
 def _expand(e: Expr) -> list[Term]:
@@ -141,6 +161,19 @@ def _scale(e: Scale) -> list[Term]:
 
 
 def _matmul(e: MatMul) -> list[Term]:
+    if _KEEP_FORMS[-1] and _is_compact_form(e):
+        scalars: list[Expr] = []
+        chain: list[Expr] = []
+        for f in e.factors:
+            f = tidy(f)
+            while isinstance(f, Scale):
+                scalars.append(f.factor)
+                f = f.arg
+            chain.append(f)
+        terms = [_atom(MatMul(tuple(chain)))]
+        for s in scalars:
+            terms = _product(_expand(s), terms)
+        return terms
     terms = _expand(e.factors[0])
     for f in e.factors[1:]:
         terms = _product(terms, _expand(f))
@@ -362,6 +395,7 @@ def rebuild(terms: list[Term], shape) -> Expr:  # type: ignore[no-untyped-def]
     """An IR expression from terms (the inverse of ``expand``)."""
     parts = []
     for t in terms:
+        t = Term(t.coef, tuple(_as_sum(s) for s in t.scalars), t.chain)
         body: Expr | None = None
         if t.chain:
             body = t.chain[0] if len(t.chain) == 1 else MatMul(t.chain)
@@ -377,6 +411,27 @@ def rebuild(terms: list[Term], shape) -> Expr:  # type: ignore[no-untyped-def]
     if not parts:
         return b.zeros(shape)
     return parts[0] if len(parts) == 1 else Add(tuple(parts))
+
+
+_ELEMENTWISE = (Apply, Power, Hadamard, Extremum, Divide)
+
+
+def _as_sum(e: Expr) -> Expr:
+    """1'E as sum(E), and a'E with an elementwise E as sum(a .* E), for reading."""
+    if not isinstance(e, MatMul) or len(e.factors) != 2:
+        return e
+    first, second = e.factors
+    if not isinstance(first, Transpose):
+        return e
+    if isinstance(first.arg, Ones) and isinstance(second, _ELEMENTWISE):
+        return SumAll(second)
+    if isinstance(second, Ones) and isinstance(first.arg, _ELEMENTWISE):
+        return SumAll(first.arg)
+    if isinstance(first.arg, _ELEMENTWISE) and not isinstance(second, _ELEMENTWISE):
+        return SumAll(Hadamard(second, first.arg))
+    if isinstance(second, _ELEMENTWISE) and not isinstance(first.arg, _ELEMENTWISE):
+        return SumAll(Hadamard(first.arg, second))
+    return e
 
 
 def _scalar_product(scalars: tuple[Expr, ...]) -> Expr | None:

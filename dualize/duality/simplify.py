@@ -49,8 +49,7 @@ def simplify(dual: DualProblem, problem: Problem) -> tuple[DualProblem, list[Ste
     if result is not None:
         dual, more = result
         steps.extend(more)
-    dual = replace(dual, constraints=tuple(_readable(c) for c in dual.constraints),
-                   objective=simplify_scalar(dual.objective))
+    dual = replace(dual, constraints=tuple(_readable(c) for c in dual.constraints))
     return dual, steps
 
 
