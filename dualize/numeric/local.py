@@ -12,8 +12,11 @@ from __future__ import annotations
 from typing import Any
 
 import numpy as np
+import sympy
 
-from dualize.model.problem import Problem, Variable
+from dualize.duality.result import DualProblem
+from dualize.model import expr as ir
+from dualize.model.problem import Constraint, Domain, Problem, Variable
 from dualize.numeric.evaluate import evaluate_2d, shape_of
 from dualize.numeric.instance import Instance
 
@@ -119,13 +122,27 @@ def _best_start(problem: Problem, instance: Instance, fixed: dict[str, np.ndarra
 
     best, best_value = None, np.inf
     for _ in range(STARTS):
-        start = rng.normal(size=layout.size)
+        start = _inside(rng.normal(size=layout.size), bounds)
         with np.errstate(all="ignore"):
             res = minimize(goal, start, method="SLSQP", bounds=bounds, constraints=cons,
                            options={"maxiter": 500, "ftol": 1e-10})
         if _feasible(res.x, cons) and np.isfinite(res.fun) and res.fun < best_value:
             best, best_value = res.x, float(res.fun)
     return best
+
+
+def _inside(start: np.ndarray, bounds: list[tuple[float | None, float | None]]
+            ) -> np.ndarray:
+    """A start strictly inside the bounds (a log or 1/y term is undefined on them)."""
+    out = start.copy()
+    for i, (lo, hi) in enumerate(bounds):
+        if lo is not None and hi is not None:
+            out[i] = lo + (hi - lo) * (0.25 + 0.5 / (1.0 + np.exp(-start[i])))
+        elif lo is not None:
+            out[i] = lo + 0.1 + abs(start[i])
+        elif hi is not None:
+            out[i] = hi - 0.1 - abs(start[i])
+    return out
 
 
 def _feasible(flat: np.ndarray, cons: list[dict[str, Any]]) -> bool:
@@ -145,3 +162,35 @@ def _stored(value: np.ndarray) -> np.ndarray | float:
     if arr.ndim == 2 and arr.shape[1] == 1:
         return arr[:, 0].copy()
     return arr.copy()
+
+
+_DUAL_DOMAINS = {"free": "free", "nonneg": "nonneg", "nonpos": "free", "symmetric": "symmetric"}
+_DUAL_KINDS = {"=": "eq", "<=": "ineq", ">=": "ineq"}
+
+
+def dual_as_problem(dual: DualProblem) -> Problem | None:
+    """A derived dual posed as a problem for the local solver; None with PSD variables.
+
+    Dual constraints become normalized constraints (``lhs - rhs <= 0`` and so on);
+    a ``nonpos`` variable gets the constraint ``y <= 0``.
+    """
+    if any(v.set not in _DUAL_DOMAINS for v in dual.variables) or any(
+            c.relation not in _DUAL_KINDS for c in dual.constraints):
+        return None
+    variables = tuple(Variable(v.symbol, Domain(_DUAL_DOMAINS[v.set]))  # type: ignore[arg-type]
+                      for v in dual.variables)
+    cons = [_dual_constraint(i, c.lhs, c.relation, c.rhs)
+            for i, c in enumerate(dual.constraints)]
+    cons += [_dual_constraint(len(cons) + i, v.symbol, "<=", ir.Zero(v.symbol.shape))
+             for i, v in enumerate(dual.variables) if v.set == "nonpos"]
+    return Problem(None, dual.sense, dual.objective, variables, (), tuple(cons), ())
+
+
+def _dual_constraint(index: int, lhs: ir.Expr, relation: str, rhs: ir.Expr) -> Constraint:
+    minus_one = ir.Number(sympy.Integer(-1))
+    first, second = (rhs, lhs) if relation == ">=" else (lhs, rhs)
+    function = ir.Add((first, ir.Scale(minus_one, second)))
+    label = f"c{index + 1}"
+    multiplier = ir.Symbol(label, "auxiliary", function.shape)
+    return Constraint(label, _DUAL_KINDS[relation], relation, lhs, rhs,  # type: ignore[arg-type]
+                      function, multiplier, False)

@@ -223,6 +223,11 @@ def _nonconvex(problem: Problem, instance: Instance, fixed: dict[str, np.ndarray
 def solve_dual(dual: DualProblem, instance: Instance) -> Solution:
     """Solve a derived dual over its variables and their sets.
 
+    A dual whose form cvxpy cannot certify (``-2y - 1/(2y)`` written as a
+    quotient) is maximized by local solves instead: a dual function is concave
+    whatever the primal, so a local maximum is global when the derivation is
+    right; the status is then ``local`` and the value, attained at a
+    dual-feasible point, is still a valid bound.
     A dual that is minus infinity everywhere (``unbounded``) is reported as
     infeasible with value -inf (+inf for a minimization).  A dual that still
     contains an inner minimization is not solved: a max-min needs a saddle
@@ -240,9 +245,9 @@ def solve_dual(dual: DualProblem, instance: Instance) -> Solution:
     try:
         built = build_dual(dual, instance)
     except (ValueError, TypeError, ArithmeticError) as err:
-        return Solution("unsupported", float("nan"), note=f"dual not certifiably convex: {err}")
+        return _local_dual(dual, instance, f"dual not certifiably concave: {err}")
     if not built.prob.is_dcp():
-        return Solution("unsupported", float("nan"), note="dual not certifiably convex (DCP)")
+        return _local_dual(dual, instance, "dual not certifiably concave (DCP)")
     status = run_solver(built.prob)
     return built.solution(status, dual.sense)
 
@@ -293,3 +298,13 @@ def _relation(relation: str, lhs: Any, rhs: Any) -> Any:
         diff = lhs - rhs if relation == "succeq" else rhs - lhs
         return (diff + diff.T) / 2 >> 0
     raise ValueError(f"dual relation '{relation}' has no numeric form")
+
+
+def _local_dual(dual: DualProblem, instance: Instance, why: str) -> Solution:
+    from dualize.numeric.local import dual_as_problem, solve_local
+
+    as_problem = dual_as_problem(dual)
+    if as_problem is None:
+        return Solution("unsupported", float("nan"), note=f"{why}; semidefinite dual "
+                        "variables need a conic solver")
+    return solve_local(as_problem, instance, {}, why)

@@ -124,6 +124,19 @@ def _neg_entropy(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     return None
 
 
+def _entropy_product(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    """log(u)' u or u' log(u) (a vector inner product) is sum(-entr(u)), convex."""
+    if not isinstance(expr, ir.MatMul) or len(expr.factors) != 2:
+        return None
+    first, last = expr.factors
+    if not isinstance(first, ir.Transpose) or last.shape.cols != 1:
+        return None
+    for a, b in ((first.arg, last), (last, first.arg)):
+        if isinstance(a, ir.Apply) and a.func == "log" and a.arg == b:
+            return _as_2d(ctx.cp, -ctx.cp.sum(ctx.cp.entr(ctx(b))))
+    return None
+
+
 def _log_sum_exp(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     if isinstance(expr, ir.Apply) and expr.func == "log" and isinstance(expr.arg, ir.SumAll) \
             and isinstance(expr.arg.arg, ir.Apply) and expr.arg.arg.func == "exp":
@@ -136,7 +149,7 @@ def _as_2d(cp: Any, e: CvxExpr) -> CvxExpr:
 
 
 _RECOGNISERS: tuple[Callable[[ir.Expr, _Ctx], CvxExpr | None], ...] = (
-    _quad_form, _squared_norm, _neg_entropy, _log_sum_exp,
+    _quad_form, _squared_norm, _neg_entropy, _entropy_product, _log_sum_exp,
 )
 
 

@@ -13,9 +13,11 @@ import pytest
 from handbuilt import (
     inequality_lp,
     least_norm,
+    m,
     neg,
     num,
     problem,
+    shape,
     standard_lp,
     var,
 )
@@ -208,3 +210,35 @@ def test_dimensionless_problem_runs() -> None:
     report = verify(derivation(p, dual), seeds=[0])
     assert report.verdict == "zero-gap"
     assert report.checks[0].primal_value == pytest.approx(0.0, abs=1e-8)
+
+
+def test_uncertifiable_dual_is_maximized_locally() -> None:
+    # J. Nocedal and S. Wright, Numerical Optimization, 2006, chapter 12 (from memory):
+    # minimize x1 + x2 s.t. 2 - x1^2 - x2^2 >= 0 has multiplier 1/2 and p* = -2.  Its dual
+    # g(lam) = -2 lam - 1/(2 lam), written as -(1/2) lam^-1 (4 lam^2 + 1), is a quotient
+    # cvxpy cannot certify; the local maximization must still find -2 at lam = 1/2.
+    import sympy
+
+    from dualize.model.expr import SCALAR, Symbol
+
+    lam = Symbol("lam", "multiplier", SCALAR, frozenset({"nonneg"}))
+    inner = ir.Add((ir.Scale(num(4), ir.Power(lam, sympy.Integer(2))), num(1)))
+    objective = ir.Scale(num("-1/2"), ir.Scale(ir.Power(lam, sympy.Integer(-1)), inner))
+    dual = DualProblem("maximize", (DualVariable(lam, "nonneg", "lam"),), objective, ())
+    sol = solve_dual(dual, random_instance(least_norm(), seed=0))
+    assert sol.status == "local"
+    assert sol.value == pytest.approx(-2.0, abs=1e-6)
+    assert sol.x["lam"] == pytest.approx(0.5, abs=1e-4)
+
+
+def test_entropy_written_as_an_inner_product_is_certified() -> None:
+    # maximize -log(z)'z over the simplex is log m at the uniform z (common practice).
+    from dualize.model.expr import Symbol
+
+    z = Symbol("z", "multiplier", shape(m))
+    objective = neg(ir.MatMul((T(ir.Apply("log", z)), z)))
+    cons = (DualConstraint(ir.MatMul((T(ir.Ones(m)), z)), "=", num(1), "simplex"),)
+    dual = DualProblem("maximize", (DualVariable(z, "nonneg", "z"),), objective, cons)
+    sol = solve_dual(dual, random_instance(least_norm(), {"m": 4, "n": 2}, seed=0))
+    assert sol.status == "optimal"
+    assert sol.value == pytest.approx(np.log(4), rel=1e-6)
