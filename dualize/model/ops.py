@@ -94,13 +94,22 @@ def _terms(e: Expr) -> tuple[Expr, ...]:
 
 
 def multiply(a: Expr, b: Expr, scope: Scope, span: Span) -> Expr:
-    """``*``: Scale when a side is scalar, else a conformable matrix product."""
+    """``*``: Scale when a side is scalar, else a conformable matrix product.
+
+    A scale factor met inside a product is pulled out front, so that
+    ``1/2 * x' * P * x`` is ``Scale(1/2, MatMul(x', P, x))`` and matrix products
+    never hold a scaled factor.
+    """
     if isinstance(a, Number) and isinstance(b, Number):
         return number(a.value * b.value, span)
     if a.shape.is_scalar:
         return Scale(a, b, span=span)
     if b.shape.is_scalar:
         return Scale(b, a, span=span)
+    if isinstance(a, Scale):
+        return Scale(a.factor, multiply(a.arg, b, scope, span), span=span)
+    if isinstance(b, Scale):
+        return Scale(b.factor, multiply(a, b.arg, scope, span), span=span)
     if a.shape.cols != b.shape.rows:
         raise scope.fail(M.SHAPE_MISMATCH, span, what="in a matrix product",
                          left=f"a {a.shape}", right=f"a {b.shape}",

@@ -122,3 +122,12 @@ def test_every_node_carries_a_span() -> None:
     from dualize.model.expr import walk
 
     assert all(node.span is not None for node in walk(loaded.problem.objective))
+
+
+def test_scalar_factors_are_pulled_out_of_matrix_products() -> None:
+    # Scalars commute with matrix products: (c A) x = c (A x) (common practice).
+    x, p_, c = sym("t", "x"), sym("t", "P"), sym("t", "c")
+    e = objective("1/2 * x' * P * x")
+    assert e == Scale(Number(sympy.Rational(1, 2)), MatMul((Transpose(x), p_, x)))
+    e = objective("x' * (c * P) * x")
+    assert e == Scale(c, MatMul((Transpose(x), p_, x)))
