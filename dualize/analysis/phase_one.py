@@ -26,6 +26,7 @@ from dualize.model import expr as E
 from dualize.model.problem import Problem
 
 TOL = 1e-7
+NEAR_ZERO = 1e-5  # an unconverged phase one this close to 0 has found no interior
 SLATER = "Slater's condition holds (Boyd and Vandenberghe, 2004, section 5.2.3)"
 REFINED = ("the refined Slater condition holds (Boyd and Vandenberghe, 2004, "
            "section 5.2.3)")
@@ -64,15 +65,14 @@ def _decide(rows: _Rows, lay: Layout) -> Verdict:
         return Verdict("unknown", "the phase-one solve failed on this instance")
     if s_star < -TOL and rows.check(z):
         return _shown(lay, z, "strictly feasible")
-    if not converged:
+    if not rows.hard_ok(z) or s_star < -NEAR_ZERO:
         return Verdict("unknown", "the phase-one solve did not converge on this instance")
-    if s_star >= -TOL and rows.hard_ok(z):
-        detail = f"the phase-one optimum is s* = {s_star:.3g} >= 0 on this instance"
-        return Verdict("not-guaranteed", f"no strictly feasible point: {detail}; Slater's "
-                       "condition fails and a duality gap is possible",
-                       finding="slater-fails", detail=detail)
-    return Verdict("unknown", "the phase-one solve found no point satisfying the affine "
-                   "constraints to tolerance")
+    how = "" if converged else " (the solver stopped at its iteration limit there)"
+    detail = (f"the phase-one optimum is s* = {s_star:.3g}, zero within tolerance{how}, and "
+              "no point with s < 0 satisfies the constraints on this instance")
+    return Verdict("not-guaranteed", f"no strictly feasible point: {detail}; Slater's "
+                   "condition fails and a duality gap is possible",
+                   finding="slater-fails", detail=detail)
 
 
 def _short(v: list | float) -> str:
