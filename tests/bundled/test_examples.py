@@ -31,6 +31,13 @@ def _solve(name: str) -> tuple[str, float]:
     return problem.status, float(problem.value)
 
 
+def partition_optimum() -> float:
+    """The two-way partitioning optimum by enumeration of every sign vector."""
+    W = _instance("shift_partition")["W"]
+    signs = (np.array(v) for v in itertools.product((-1.0, 1.0), repeat=W.shape[0]))
+    return min(float(x @ W @ x) for x in signs)
+
+
 def test_every_example_has_a_reference_model() -> None:
     assert len(NAMES) >= 14
     assert NAMES == sorted([*CONVEX, *NONCONVEX])
@@ -143,10 +150,8 @@ def test_partition_dual_bound_is_below_enumerated_optimum() -> None:
     # bound on p*; p* itself by enumeration of all sign vectors.
     import cvxpy as cp
     W = _instance("shift_partition")["W"]
-    n = W.shape[0]
-    signs = (np.array(v) for v in itertools.product((-1.0, 1.0), repeat=n))
-    p_star = min(float(x @ W @ x) for x in signs)
-    nu = cp.Variable(n)
+    p_star = partition_optimum()
+    nu = cp.Variable(W.shape[0])
     dual = cp.Problem(cp.Maximize(-cp.sum(nu)), [W + cp.diag(nu) >> 0])
     dual.solve()
     assert dual.status == "optimal"
