@@ -108,6 +108,9 @@ class IRLatexPrinter(LatexPrinter):
         return self.wrap(arg, st.NEG)
 
     def _print_ir_MatMul(self, node: ir.MatMul) -> str:
+        entries = st.as_sum_of_entries(node)
+        if entries is not None:
+            return self._print(entries)
         pieces = []
         for index, factor in enumerate(node.factors):
             loose = isinstance(factor, ir.Hadamard | ir.Divide) or (

@@ -137,6 +137,18 @@ def _flatten_factor(factor: ir.Expr) -> list[ir.Expr]:
     return [factor]
 
 
+def as_sum_of_entries(node: ir.MatMul) -> ir.Expr | None:
+    """``a' * 1`` is the sum of a's entries: shown as ``1' a``, the way papers write it."""
+    if len(node.factors) != 2:
+        return None
+    first, second = node.factors
+    ones = isinstance(second, ir.Ones) or (
+        isinstance(second, ir.Broadcast) and is_number(second.arg, 1))
+    if ones and isinstance(first, ir.Transpose) and first.arg.shape.cols == 1:
+        return ir.SumAll(first.arg)
+    return None
+
+
 def flat_terms(node: ir.Add) -> tuple[ir.Expr, ...]:
     """The terms of nested sums, in the order written."""
     out: list[ir.Expr] = []

@@ -111,6 +111,9 @@ class IRTextPrinter(StrPrinter):
         return self.wrap(arg, st.MUL if loose else st.NEG)
 
     def _print_ir_MatMul(self, node: ir.MatMul) -> str:
+        entries = st.as_sum_of_entries(node)
+        if entries is not None:
+            return self._print(entries)
         pieces = []
         for index, factor in enumerate(node.factors):
             loose = isinstance(factor, ir.Hadamard | ir.Divide) or (

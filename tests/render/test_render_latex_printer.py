@@ -52,6 +52,7 @@ Z = ir.Symbol("Z", "multiplier", ir.Shape(n, n), frozenset({"symmetric"}))
     (ir.Ones(n), r"\mathbf{1}"),
     (ir.SumAll(s), r"\mathbf{1}^\top s"),
     (ir.Broadcast(b, vec(n)), r"b \mathbf{1}"),
+    (mm(T(s), ir.Ones(s.shape.rows)), r"\mathbf{1}^\top s"),
     # Norms with subscripts.
     (ir.Norm(x, "1"), r"\lVert x \rVert_{1}"),
     (ir.Norm(x, "inf"), r"\lVert x \rVert_{\infty}"),
