@@ -20,6 +20,7 @@ from dualize.duality.normal import node_key
 from dualize.model.expr import (
     Add,
     Apply,
+    Divide,
     Expr,
     MatMul,
     Norm,
@@ -112,6 +113,8 @@ def to_sympy(e: Expr, scope: Scope) -> sympy.Expr:
         return to_sympy(e.factor, scope) * to_sympy(e.arg, scope)
     if isinstance(e, Power):
         return to_sympy(e.base, scope) ** e.exponent
+    if isinstance(e, Divide) and e.shape.is_scalar:
+        return to_sympy(e.left, scope) / to_sympy(e.right, scope)
     if isinstance(e, Apply) and e.shape.is_scalar:
         inner = to_sympy(e.arg, scope)
         return {"exp": sympy.exp, "log": sympy.log, "sqrt": sympy.sqrt,

@@ -1,0 +1,69 @@
+"""Comparing expressions that come from different sources (a derivation and a
+claim written by a user) up to the roles of their names."""
+
+from __future__ import annotations
+
+from dualize.duality.normal import equal
+from dualize.model.expr import Expr, Symbol, substitute, symbols_of
+
+
+def _plain(e: Expr) -> Expr:
+    """Every symbol as a data symbol of its name and shape; only symmetry is kept,
+    since it is the one fact that changes the algebra (S' = S)."""
+    mapping: dict[Expr, Expr] = {}
+    for s in symbols_of(e):
+        facts = frozenset({"symmetric"}) & s.facts
+        mapping[s] = Symbol(s.name, "data", s.shape, facts)
+    return substitute(e, mapping)
+
+
+def same_expression(a: Expr, c: Expr) -> bool:
+    """True when ``a`` and ``c`` are provably equal by the rules of linear algebra.
+
+    False means no proof was found, not that they differ: the numeric check
+    decides those cases.
+    """
+    if a.shape != c.shape:
+        return False
+    return equal(_plain(a), _plain(c))
+
+
+_TO_LE = {"<=": 1, ">=": -1, "preceq": 1, "succeq": -1, "=": 1, "==": 1}
+_KIND = {"<=": "ineq", ">=": "ineq", "preceq": "psd", "succeq": "psd", "=": "eq", "==": "eq"}
+
+
+def normalized(lhs: Expr, relation: str, rhs: Expr) -> tuple[str, Expr]:
+    """(kind, E) with the constraint read as E <= 0, E = 0 or E preceq 0."""
+    from dualize.duality import build as b
+
+    sign = _TO_LE[relation]
+    e = b.sub(lhs, rhs) if sign > 0 else b.sub(rhs, lhs)
+    return _KIND[relation], _plain(e)
+
+
+def same_constraint(a: tuple[Expr, str, Expr], c: tuple[Expr, str, Expr]) -> bool:
+    """True when the two constraints are the same up to a constant factor
+    (positive for inequalities, nonzero for equalities) and the side terms sit on."""
+    from dualize.duality.normal import _KEEP_FORMS, expand, node_key
+
+    kind_a, ea = normalized(*a)
+    kind_c, ec = normalized(*c)
+    if kind_a != kind_c or ea.shape != ec.shape:
+        return False
+    _KEEP_FORMS.append(False)
+    try:
+        ta, tc = expand(ea), expand(ec)
+    finally:
+        _KEEP_FORMS.pop()
+    key = lambda t: "|".join(map(node_key, t.scalars + t.chain))  # noqa: E731
+    if sorted(map(key, ta)) != sorted(map(key, tc)) or not ta:
+        return False
+    ratios = {key(t): t.coef for t in ta}
+    factor = None
+    for t in tc:
+        r = ratios[key(t)] / t.coef
+        if factor is None:
+            factor = r
+        elif r != factor:
+            return False
+    return factor is not None and (factor > 0 or kind_a == "eq")
