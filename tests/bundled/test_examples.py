@@ -14,7 +14,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from tests.bundled.reference_models import CONVEX, NONCONVEX, as_arrays
+from bundled.reference_models import CONVEX, NONCONVEX, as_arrays
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
 NAMES = sorted(p.stem for p in EXAMPLES.glob("*.prob"))

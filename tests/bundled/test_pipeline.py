@@ -14,8 +14,8 @@ from functools import cache
 
 import pytest
 
-from tests.bundled.reference_models import CONVEX, NONCONVEX
-from tests.bundled.test_examples import EXAMPLES, NAMES, _instance, _solve, partition_optimum
+from bundled.reference_models import CONVEX, NONCONVEX
+from bundled.test_examples import EXAMPLES, NAMES, _instance, _solve, partition_optimum
 
 
 @cache
