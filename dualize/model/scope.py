@@ -18,8 +18,8 @@ from dualize.syntax.span import Span
 
 FUNCTIONS = ("diag", "exp", "identity", "inv", "log", "max", "min", "ones", "sqrt", "sum",
              "trace")
-KEYWORDS = ("data", "in", "maximize", "minimize", "over", "preceq", "subject", "succeq",
-            "title", "to")
+KEYWORDS = ("data", "in", "maximise", "maximize", "minimise", "minimize", "over", "preceq",
+            "subject", "succeq", "title", "to")
 RESERVED = frozenset(FUNCTIONS + KEYWORDS)
 
 

@@ -75,7 +75,8 @@ class Builder(Transformer):
         return ast.Data(span, tuple(c[1:]))
 
     def rule_objective(self, span: Span, c: list) -> ast.Objective:
-        return ast.Objective(span, str(c[0]), c[1], c[2])
+        sense = "minimize" if str(c[0]).startswith("minimi") else "maximize"
+        return ast.Objective(span, sense, c[1], c[2])
 
     def rule_over(self, span: Span, c: list) -> ast.Over:
         return c[0]

@@ -17,7 +17,8 @@ from dualize.syntax import rules as R
 from dualize.syntax.span import Span
 
 OPERATOR_END = re.compile(r"(\.\*|\./|[-+*/^,−]|<=|>=|==|=|≤|≥|⪰|⪯)$")
-STATEMENT_START = re.compile(r"[ \t]*(title|data|minimize|maximize|over|subject|s\.t\.)(?!\w)")
+STATEMENT_START = re.compile(
+    r"[ \t]*(title|data|minimi[sz]e|maximi[sz]e|over|subject|s\.t\.)(?!\w)")
 PRETTY = {
     "NAME": "a name", "NUMBER": "a number", "RELATION": "a relation (<=, >=, ==)",
     "PLUS": "`+`", "MINUS": "`-`", "PRODUCT_OP": "`*`", "CARET": "`^`",
@@ -118,7 +119,7 @@ def _objective_relation(text: str, pos: int, token: Token | None,
     if token is None or token.type != "RELATION":
         return None
     line_start = text.rfind("\n", 0, pos) + 1
-    if not re.match(r"\s*(minimize|maximize)\b", text[line_start:pos]):
+    if not re.match(r"\s*(minimi[sz]e|maximi[sz]e)\b", text[line_start:pos]):
         return None
     return make(R.OBJECTIVE_RELATION, path, _token_span(token), relation=str(token),
                 hint="move the condition under `subject to`")
@@ -128,8 +129,9 @@ def _statement_kind(text: str, pos: int) -> str:
     line_start = text.rfind("\n", 0, max(pos - 1, 0)) + 1
     word = re.match(r"\s*([\w.]+)", text[line_start:pos])
     first = word.group(1) if word else ""
-    return {"title": "title", "data": "data line", "minimize": "objective",
-            "maximize": "objective", "over": "`over` clause"}.get(first, "statement")
+    if first.startswith(("minimi", "maximi")):
+        return "objective"
+    return {"title": "title", "data": "data line", "over": "`over` clause"}.get(first, "statement")
 
 
 def _code_before(text: str, pos: int) -> str:

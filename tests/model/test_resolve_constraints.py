@@ -113,3 +113,9 @@ def test_generated_names_skip_names_the_file_uses() -> None:
     p = problem("data lambda1 in R\nminimize x over x in R, nu1 in R\ns.t.\n x >= lambda1\n"
                 " x == nu1\n lambda3: x <= 3\n x <= 4")
     assert [c.label for c in p.constraints] == ["lambda2", "nu2", "lambda3", "lambda4"]
+
+
+def test_unlabelled_chain_gives_two_generated_multipliers() -> None:
+    p = problem("minimize sum(a) over a in R^n\ns.t.\n 0 <= a <= 1\n sum(a) == 1")
+    assert [c.label for c in p.constraints] == ["lambda1", "lambda2", "nu1"]
+    assert [c.relation for c in p.constraints] == ["<=", "<=", "=="]

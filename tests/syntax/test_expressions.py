@@ -64,3 +64,7 @@ def test_precedence(text: str, tree: object) -> None:
 def test_call_with_no_arguments_parses_and_is_left_to_the_resolver() -> None:
     e = expr("ones() * 1")
     assert isinstance(e, ast.BinOp) and isinstance(e.left, ast.Call) and e.left.args == ()
+
+
+def test_dot_caret_is_the_same_elementwise_power() -> None:
+    assert shape(expr("x.^2")) == shape(expr("x^2")) == ("^", "x", "2")

@@ -81,3 +81,8 @@ def test_newline_ends_a_constraint() -> None:
 def test_crlf_line_endings() -> None:
     doc = document("minimize x\r\nover x in R\r\ns.t.\r\n x >= 0\r\n")
     assert len(doc.constraints) == 1
+
+
+def test_british_spellings_of_the_sense() -> None:
+    assert document("minimise x over x in R").objective.sense == "minimize"
+    assert document("maximise x\nover x in R").objective.sense == "maximize"
