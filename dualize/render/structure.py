@@ -118,17 +118,32 @@ def _split_first(node: ir.Expr) -> tuple[bool, ir.Expr]:
 
 
 def scalar_factors(node: ir.Scale) -> tuple[tuple[ir.Expr, ...], ir.Expr]:
-    """A chain ``Scale(a, Scale(b, x))`` as its factors (a, b) and the scaled x."""
+    """A chain ``Scale(a, Scale(b, x))`` as its factors (a, b) and the scaled x.
+
+    When everything is scalar the order is free, and papers put numbers first and
+    compound factors last: ``1/4 gamma^-1 (u' S u)``, not ``1/4 (u' S u) gamma^-1``.
+    """
     factors: list[ir.Expr] = []
     arg: ir.Expr = node
     while isinstance(arg, ir.Scale):
         factors.extend(_flatten_factor(arg.factor))
         arg = arg.arg
+    if arg.shape.is_scalar:
+        factors.append(arg)
+        factors.sort(key=_factor_rank)
+        arg = factors.pop()
     numbers = [f for f in factors if isinstance(f, ir.Number)]
     others = [f for f in factors if not isinstance(f, ir.Number)]
     coefficient = sympy.Mul(*(number_value(n.value) for n in numbers)) if numbers else None
     lead = [] if coefficient is None or coefficient == 1 else [ir.Number(coefficient)]
     return tuple(lead + others), arg
+
+
+def _factor_rank(factor: ir.Expr) -> int:
+    """Scalar products read numbers first, then single symbols, then compound factors."""
+    if isinstance(factor, ir.Number):
+        return 0
+    return 1 if precedence(factor) >= POSTFIX else 2
 
 
 def _flatten_factor(factor: ir.Expr) -> list[ir.Expr]:

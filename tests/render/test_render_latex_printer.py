@@ -119,6 +119,14 @@ def test_parentheses_only_where_needed() -> None:
     assert latex_expr(ir.Scale(num(2), ir.Scale(num(3), x))) == "6 x"
 
 
+def test_scalar_products_put_numbers_and_symbols_before_compound_factors() -> None:
+    # Common practice: "\tfrac{1}{4} \gamma^{-1} q^\top P q", not "(q^\top P q) ... \gamma^{-1}".
+    gamma = ir.Symbol("gamma", "data", ir.SCALAR)
+    node = ir.Scale(num("1/4"), ir.Scale(mm(T(q), P, q), ir.Inverse(gamma)))
+    assert latex_expr(node) == r"\tfrac{1}{4} \gamma^{-1} q^\top P q"
+    assert latex_expr(ir.Scale(mm(T(q), x), x)) == r"(q^\top x) x"
+
+
 def test_numbers_that_would_touch_get_a_cdot() -> None:
     assert latex_expr(ir.Scale(num(2), ir.Number(sympy.Integer(3)))) == r"2 \cdot 3"
 
