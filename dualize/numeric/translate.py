@@ -83,6 +83,33 @@ def _peel(e: ir.Expr) -> tuple[list[ir.Expr], ir.Expr]:
     return coefs, e
 
 
+def pushed_transpose(e: ir.Expr) -> ir.Expr:
+    """``e`` with transposes pushed to the leaves, so (G'y + q)' and y'G + q' compare equal."""
+    if isinstance(e, ir.Transpose):
+        return _transpose_of(e.arg)
+    if isinstance(e, ir.Add):
+        return ir.Add(tuple(pushed_transpose(t) for t in e.terms))
+    if isinstance(e, ir.MatMul):
+        return ir.MatMul(tuple(pushed_transpose(f) for f in e.factors))
+    if isinstance(e, ir.Scale):
+        return ir.Scale(e.factor, pushed_transpose(e.arg))
+    return e
+
+
+def _transpose_of(e: ir.Expr) -> ir.Expr:
+    if isinstance(e, ir.Transpose):
+        return pushed_transpose(e.arg)
+    if isinstance(e, ir.Add):
+        return ir.Add(tuple(_transpose_of(t) for t in e.terms))
+    if isinstance(e, ir.MatMul):
+        return ir.MatMul(tuple(_transpose_of(f) for f in reversed(e.factors)))
+    if isinstance(e, ir.Scale):
+        return ir.Scale(e.factor, _transpose_of(e.arg))
+    if e.shape.is_scalar or (isinstance(e, ir.Symbol) and "symmetric" in e.facts):
+        return e
+    return ir.Transpose(e)
+
+
 def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     """k u' M1 ... Mj u with k and every M data, or k u' u: a quadratic form cvxpy certifies.
 
@@ -95,7 +122,7 @@ def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     head_coefs, first = _peel(expr.factors[0])
     tail_coefs, last = _peel(expr.factors[-1])
     coefs, middle = head_coefs + tail_coefs, expr.factors[1:-1]
-    if not (isinstance(first, ir.Transpose) and first.arg == last and last.shape.cols == 1):
+    if last.shape.cols != 1 or pushed_transpose(first) != pushed_transpose(ir.Transpose(last)):
         return None
     if any(ctx.varies(f) for f in (*middle, *coefs)):
         return None

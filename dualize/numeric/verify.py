@@ -27,6 +27,7 @@ from typing import Any
 import numpy as np
 
 from dualize.duality.result import Derivation, DualProblem
+from dualize.numeric.dual_data import make_dual_feasible
 from dualize.numeric.instance import Instance, random_instance
 from dualize.numeric.samples import WeakDualitySamples, weak_duality_samples
 
@@ -71,10 +72,16 @@ def tolerance(p: float, d: float) -> float:
 
 def verify(derivation: Derivation, instances: Sequence[Instance] = (),
            seeds: Sequence[int] = (), dims: dict[str, int] | None = None) -> VerifyReport:
-    """Check ``derivation`` on the given instances and on random ones for ``seeds``."""
+    """Check ``derivation`` on the given instances and on random ones for ``seeds``.
+
+    Random instances make the primal strictly feasible where the structure allows
+    (``random_data``) and then the derived dual too (``dual_data``), so both
+    optima are finite and comparable.
+    """
     checks = [check_instance(derivation, inst, None) for inst in instances]
     for seed in seeds:
-        inst = random_instance(derivation.problem, dims, seed)
+        inst = make_dual_feasible(derivation, random_instance(derivation.problem, dims, seed),
+                                  seed)
         checks.append(check_instance(derivation, inst, seed))
     return summarize(tuple(checks))
 

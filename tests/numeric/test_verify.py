@@ -135,10 +135,32 @@ def test_verify_reports_a_gap_for_a_loose_dual() -> None:
     assert report.max_abs_gap == pytest.approx(1.0, abs=1e-6)
 
 
-def test_verify_fails_when_nothing_is_comparable() -> None:
-    # Random c makes this LP unbounded for a wide A: no finite pair to compare.
+def test_random_lp_made_dual_feasible_is_bounded() -> None:
+    # A wide random LP is unbounded for most costs; verify resets c = -A'lam0 + 0 from
+    # the dual constraint A'lam + c = 0, so weak duality bounds it (Boyd and
+    # Vandenberghe, 2004, section 5.2.1; from memory) and both values are finite.
     p = inequality_lp()
+    plain = random_instance(p, {"m": 2, "n": 5}, seed=0)
+    assert solve_primal(p, plain).status == "unbounded"
     report = verify(derivation(p, ineq_lp_dual(p)), seeds=[0], dims={"m": 2, "n": 5})
+    assert report.verdict == "zero-gap", report.messages
+    assert report.checks[0].primal_status == "optimal"
+
+
+def test_verify_fails_when_nothing_is_comparable() -> None:
+    # An infeasible primal (x <= -1 and x >= 1) has no finite value to compare; its dual
+    # (L = x + a (x + 1) + b (1 - x): 1 + a - b = 0, g = a + b) is unbounded above.
+    from handbuilt import con
+
+    x = var("x")
+    cons = [con("a", x.symbol, "<=", num(-1)), con("b", x.symbol, ">=", num(1))]
+    p = problem(x.symbol, [x], [], cons, dims=())
+    a, b = p.constraints[0].multiplier, p.constraints[1].multiplier
+    dual = DualProblem("maximize", (DualVariable(a, "nonneg", "a"),
+                                    DualVariable(b, "nonneg", "b")),
+                       ir.Add((a, b)), (DualConstraint(ir.Add((num(1), a, neg(b))), "=",
+                                                            num(0), "stationarity"),))
+    report = verify(derivation(p, dual), seeds=[0])
     assert report.verdict == "failed"
     assert "no instance gave two comparable" in report.messages[0]
 
@@ -242,3 +264,29 @@ def test_entropy_written_as_an_inner_product_is_certified() -> None:
     sol = solve_dual(dual, random_instance(least_norm(), {"m": 4, "n": 2}, seed=0))
     assert sol.status == "optimal"
     assert sol.value == pytest.approx(np.log(4), rel=1e-6)
+
+
+def sdp_dual(p: Problem) -> DualProblem:
+    """L = trace(CX) + nu (trace(A1 X) - b1) - trace(Z X) over X in S^n: Z = C + nu A1
+    must be PSD, g = -b1 nu (Boyd and Vandenberghe, 2004, section 5.1 method; from memory)."""
+    C, A1, b1, nu = sym(p, "C"), sym(p, "A1"), sym(p, "b1"), sym(p, "nu")
+    cons = (DualConstraint(ir.Add((ir.Scale(nu, A1), C)), "succeq", ir.Zero(C.shape),
+                           "Z = C + nu A1 is PSD", "X"),)
+    return DualProblem("maximize", (DualVariable(nu, "free", "nu"),),
+                       neg(ir.Scale(b1, nu)), cons)
+
+
+def test_sdp_random_instances_made_bounded_and_zero_gap() -> None:
+    from handbuilt import small_sdp
+
+    from dualize.numeric.dual_data import dual_targets, make_dual_feasible
+    from dualize.numeric.instance import set_violation
+
+    p = small_sdp()
+    d = derivation(p, sdp_dual(p))
+    assert [t.name for t in dual_targets(d)] == ["C"]
+    inst = make_dual_feasible(d, random_instance(p, {"n": 3}, seed=4), seed=4)
+    assert set_violation(inst.values["C"], sym(p, "C").facts) is None
+    report = verify(d, seeds=[0, 1, 2], dims={"n": 3})
+    assert report.verdict == "zero-gap", report.messages
+    assert {c.primal_status for c in report.checks} == {"optimal"}
