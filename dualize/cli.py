@@ -11,10 +11,14 @@ from __future__ import annotations
 
 import json
 import sys
+from typing import TYPE_CHECKING
 
 import click
 
 from dualize.errors import DualizeError
+
+if TYPE_CHECKING:
+    pass
 
 EXIT_INTERNAL = 3
 

@@ -6,6 +6,9 @@ defects at once; a file with any error yields no problem.
 
 from __future__ import annotations
 
+from collections.abc import Callable
+from typing import TypeVar
+
 from dualize.diagnostics import Diagnostic
 from dualize.model import constraints as C
 from dualize.model import rules as M
@@ -15,6 +18,8 @@ from dualize.model.problem import Constraint, DataDecl, Problem, Variable
 from dualize.model.scope import RESERVED, ResolveError, Scope
 from dualize.model.sets import SetMeaning, check_data_set, set_meaning
 from dualize.syntax import ast
+
+T = TypeVar("T")
 
 
 class _Run:
@@ -26,7 +31,7 @@ class _Run:
         self.resolve = ExprResolver(self.scope)
         self.diagnostics: list[Diagnostic] = []
 
-    def attempt(self, step, *args):  # type: ignore[no-untyped-def]
+    def attempt(self, step: Callable[..., T], *args: object) -> T | None:
         """Run one statement's resolution; record its diagnostic instead of stopping."""
         try:
             return step(*args)
@@ -62,15 +67,11 @@ def _declare(run: _Run, decl: ast.Decl, role: str) -> tuple[Symbol, SetMeaning]:
         raise scope.fail(M.DECLARED_TWICE, decl.name_span, name=decl.name)
     try:
         meaning = set_meaning(decl.set, scope, run.resolve)
-    except ResolveError:
-        scope.failed.add(decl.name)
-        raise
-    if role == "data":
-        try:
+        if role == "data":
             check_data_set(decl.set, meaning, decl.name, scope)
-        except ResolveError:
-            scope.failed.add(decl.name)
-            raise
+    except ResolveError:
+        scope.failed.add(decl.name)  # its uses are not reported again
+        raise
     symbol = Symbol(decl.name, role, meaning.shape, meaning.facts,  # type: ignore[arg-type]
                     span=decl.name_span)
     scope.names[decl.name] = symbol
