@@ -51,12 +51,19 @@ def test_dual_optimum_matches_primal_optimum(path: Path) -> None:
     report = verify(derivation, [instance], seeds=[7])
     for check in report.checks:
         assert check.weak_duality_ok, (path.stem, check)
-    solved = [c for c in report.checks if c.primal_status == "optimal"
-              and c.dual_status == "optimal"]
-    assert solved, (path.stem, report.checks)
     if path.stem in NONCONVEX:
+        # Boyd and Vandenberghe, 2004, section 5.1.5 (from memory): the partitioning dual
+        # is a lower bound only; a local primal solve gives an upper bound on p*.
+        assert all(c.primal_status == "local" and c.dual_status == "optimal"
+                   for c in report.checks)
+        assert all(c.dual_value <= c.primal_value + 1e-6 for c in report.checks)
         assert report.verdict == "gap"
         return
+    # A local primal value bounds p* from above and a local dual value bounds d* from
+    # below, so agreement of the two proves both optimal (weak duality, common practice).
+    solved = [c for c in report.checks if c.primal_status in ("optimal", "local")
+              and c.dual_status in ("optimal", "local")]
+    assert solved, (path.stem, report.checks)
     for check in solved:
         scale = max(1.0, abs(check.primal_value))
         assert abs(check.gap) <= 1e-5 * scale, (path.stem, check)
