@@ -9,6 +9,8 @@ from functools import cache
 import numpy as np
 import pytest
 import sympy
+from hypothesis import assume, given, settings
+from hypothesis import strategies as st
 
 from dualize.duality.conjugate import Conjugate, S, conjugate
 from dualize.duality.elementwise import LiftError, data_symbol, lift, lift_interval, scalar_form
@@ -81,9 +83,9 @@ def evaluate(expr: Expr, env: dict[str, np.ndarray | float]) -> np.ndarray | flo
     """A small numpy evaluator of the elementwise IR nodes, written for these tests."""
     rules: dict[type, Callable[[Expr], np.ndarray | float]] = {
         Symbol: lambda e: env[e.name],
-        Number: lambda e: float(e.value),
-        Zero: lambda e: 0.0,
-        Ones: lambda e: 1.0,
+        Number: lambda e: np.float64(e.value),
+        Zero: lambda e: np.float64(0.0),
+        Ones: lambda e: np.float64(1.0),
         Broadcast: lambda e: evaluate(e.arg, env),
         Add: lambda e: sum(evaluate(term, env) for term in e.terms),
         Scale: lambda e: evaluate(e.factor, env) * evaluate(e.arg, env),
@@ -237,3 +239,56 @@ def test_lift_interval_matches_membership(name: str) -> None:
         inside &= RELATIONS[relation](evaluate(lhs, {"z": points}), evaluate(rhs, {}))
     expected = [bool(domain.contains(sympy.Rational(p))) for p in points]
     assert inside.tolist() == expected
+
+
+def leaves() -> st.SearchStrategy[Expr]:
+    constants = st.sampled_from([num(2), num(sympy.Rational(1, 3)), num(-1), C])
+    return st.one_of(
+        st.just(X),
+        constants.map(lambda k: Broadcast(k, V)),
+        st.just(ONE),
+        st.just(Zero(V)),
+    )
+
+
+def extend(children: st.SearchStrategy[Expr]) -> st.SearchStrategy[Expr]:
+    factors = st.sampled_from([num(3), num(sympy.Rational(-1, 2)), C])
+    exponents = st.sampled_from([sympy.Integer(2), sympy.Integer(-1), sympy.Rational(1, 2)])
+    return st.one_of(
+        st.tuples(children, children).map(lambda p: Add(p)),
+        st.tuples(factors, children).map(lambda p: Scale(*p)),
+        st.tuples(children, children).map(lambda p: Hadamard(*p)),
+        st.tuples(children, children).map(lambda p: Divide(*p)),
+        children.map(lambda e: Divide(e, C)),
+        st.tuples(children, exponents).map(lambda p: Power(*p)),
+        st.tuples(st.sampled_from(["exp", "log", "sqrt", "abs"]), children).map(
+            lambda p: Apply(*p)
+        ),
+        st.tuples(st.sampled_from(["max", "min"]), children, children).map(lambda p: Extremum(*p)),
+    )
+
+
+ELEMENTWISE = st.recursive(leaves(), extend, max_leaves=6)
+
+
+# Common practice: scalar_form and lift must preserve the value of every entry; random
+# elementwise trees are evaluated on a random vector three ways (the IR itself, phi by
+# lambdify, and the IR lifted back from phi) wherever the entries are finite reals.
+@settings(max_examples=150, deadline=None)
+@given(ELEMENTWISE, st.integers(0, 2**31 - 1))
+def test_random_trees_round_trip(expr: Expr, seed: int) -> None:
+    x = np.random.default_rng(seed).uniform(0.2, 3.0, 6)
+    env = {"x": x, "c": 1.3}
+    with np.errstate(all="ignore"):
+        direct = np.broadcast_to(evaluate(expr, env), x.shape)
+    assume(bool(np.all(np.isfinite(direct))))
+    phi = scalar_form(expr, X, T)
+    assert phi is not None
+    c = data_symbol(C)
+    scalar = sympy.lambdify(T, phi.subs(c, 1.3), "numpy")
+    with np.errstate(all="ignore"):
+        via_sympy = np.broadcast_to(np.asarray(scalar(x), dtype=complex), x.shape)
+        lifted = np.broadcast_to(evaluate(lift(phi, T, X, DATA), env), x.shape)
+    np.testing.assert_allclose(via_sympy.real, direct, rtol=1e-9, atol=1e-12)
+    np.testing.assert_allclose(via_sympy.imag, 0.0, atol=1e-9 * (1 + np.abs(direct).max()))
+    np.testing.assert_allclose(lifted, direct, rtol=1e-9, atol=1e-12)
