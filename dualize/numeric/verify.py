@@ -32,7 +32,7 @@ from dualize.numeric.instance import Instance, random_instance
 from dualize.numeric.samples import WeakDualitySamples, weak_duality_samples
 
 __all__ = ["InstanceCheck", "VerifyReport", "WeakDualitySamples", "check_instance",
-           "dual_function_value", "tolerance", "verify", "weak_duality_samples"]
+           "dual_function_value", "report_dict", "tolerance", "verify", "weak_duality_samples"]
 
 ABS_TOL = 1e-6
 REL_TOL = 1e-5
@@ -95,10 +95,7 @@ def check_instance(derivation: Derivation, instance: Instance, seed: int | None
     dual = solve_dual(derivation.dual, instance)
     dual_value, dual_status, note = dual.value, dual.status, dual.note
     if dual.status == "unsupported" and derivation.dual.inner and primal.status in _SOLVED:
-        point = multiplier_point(derivation, primal.multipliers)
-        dual_value = dual_function_value(derivation.dual, instance, point)
-        dual_status = "at-reference-multipliers"
-        note = "dual evaluated at the reference multipliers (inner solve)"
+        dual_value, dual_status, note = _at_reference(derivation, instance, primal.multipliers)
     sign = 1.0 if problem.sense == "minimize" else -1.0
     gap = sign * (primal.value - dual_value)
     usable = primal.status in _SOLVED + ("local",) and math.isfinite(dual_value)
@@ -108,6 +105,19 @@ def check_instance(derivation: Derivation, instance: Instance, seed: int | None
     return InstanceCheck(instance.source, seed, primal.value, dual_value,
                          gap if usable else float("nan"), primal.status, dual_status,
                          error, weak_ok, notes)
+
+
+def _at_reference(derivation: Derivation, instance: Instance,
+                  multipliers: dict[str, Any]) -> tuple[float, str, str]:
+    """A dual with an inner optimization, evaluated at the reference multipliers."""
+    point = multiplier_point(derivation, multipliers)
+    missing = sorted(v.name for v in derivation.dual.variables if v.name not in point)
+    if missing:
+        return (float("nan"), "unsupported", "the dual keeps an inner optimization and has "
+                f"variables the primal does not price ({', '.join(missing)})")
+    value = dual_function_value(derivation.dual, instance, point)
+    return value, "at-reference-multipliers", "dual evaluated at the reference multipliers " \
+        "(inner solve)"
 
 
 def multiplier_point(derivation: Derivation, by_label: dict[str, Any]) -> dict[str, Any]:
@@ -193,3 +203,29 @@ def _inner_value(dual: DualProblem, instance: Instance) -> float:
     if status == "unbounded":
         return -math.inf if dual.sense == "maximize" else math.inf
     return float(prob.value) if status in _SOLVED else float("nan")
+
+
+def report_dict(report: VerifyReport) -> dict[str, Any]:
+    """The report as JSON-ready data: non-finite numbers as the strings "inf", "-inf", "nan"."""
+    return {
+        "verdict": report.verdict,
+        "max_abs_gap": _json_number(report.max_abs_gap),
+        "messages": list(report.messages),
+        "checks": [{
+            "source": c.source, "seed": c.seed,
+            "primal_status": c.primal_status, "dual_status": c.dual_status,
+            "primal_value": _json_number(c.primal_value),
+            "dual_value": _json_number(c.dual_value), "gap": _json_number(c.gap),
+            "multiplier_error": None if c.multiplier_error is None
+            else _json_number(c.multiplier_error),
+            "weak_duality_ok": c.weak_duality_ok, "note": c.note,
+        } for c in report.checks],
+    }
+
+
+def _json_number(value: float) -> float | str:
+    if math.isnan(value):
+        return "nan"
+    if math.isinf(value):
+        return "inf" if value > 0 else "-inf"
+    return float(value)

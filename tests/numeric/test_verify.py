@@ -10,6 +10,7 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
+from handbuilt import con as con_
 from handbuilt import (
     inequality_lp,
     least_norm,
@@ -290,3 +291,41 @@ def test_sdp_random_instances_made_bounded_and_zero_gap() -> None:
     report = verify(d, seeds=[0, 1, 2], dims={"n": 3})
     assert report.verdict == "zero-gap", report.messages
     assert {c.primal_status for c in report.checks} == {"optimal"}
+
+
+def test_report_dict_is_json_and_deterministic() -> None:
+    import json
+
+    from dualize.numeric.verify import report_dict
+
+    p = least_norm()
+    d = derivation(p, least_norm_dual(p))
+    one = json.dumps(report_dict(verify(d, seeds=[0, 1], dims={"m": 2, "n": 4})))
+    two = json.dumps(report_dict(verify(d, seeds=[0, 1], dims={"m": 2, "n": 4})))
+    assert one == two
+    data = json.loads(one)
+    assert data["verdict"] == "zero-gap"
+    assert [c["seed"] for c in data["checks"]] == [0, 1]
+    x = var("x")
+    cons = [con_("a", x.symbol, "<=", num(-1)), con_("b", x.symbol, ">=", num(1))]
+    p2 = problem(x.symbol, [x], [], cons, dims=())
+    dual = DualProblem("maximize", (), num(0), ())
+    row = report_dict(verify(derivation(p2, dual), seeds=[0]))["checks"][0]
+    assert row["primal_value"] == "inf" and row["gap"] == "nan"
+
+
+def test_inner_dual_with_unpriced_auxiliary_is_unsupported() -> None:
+    from dualize.model.expr import Symbol
+
+    p = least_norm()
+    nu = sym(p, "nu")
+    x = p.variables[0]
+    aux = Symbol("u", "auxiliary", shape(m))
+    lagrangian = ir.Add((ir.MatMul((T(x.symbol), x.symbol)), ir.MatMul((T(nu), aux))))
+    dual = DualProblem("maximize", (DualVariable(nu, "free", "nu"),
+                                    DualVariable(aux, "free", "split")), lagrangian, (),
+                       inner=(x,))
+    report = verify(derivation(p, dual), seeds=[0], dims={"m": 2, "n": 3})
+    assert report.checks[0].dual_status == "unsupported"
+    assert "u" in report.checks[0].note
+    assert report.verdict == "failed"
