@@ -27,6 +27,7 @@ TRIGGERS = [
     ('bad-chain', 'minimize x over x in R\ns.t.\n 0 <= x >= 1\n', 3, 9),
     ('label-count', 'minimize x over x in R\ns.t.\n a, b: x >= 1\n', 3, 2),
     ('too-deep', 'minimize ' + '-' * 250 + 'x over x in R\n', 1, 208),
+    ('number-out-of-range', 'minimize 1e99999999 * x over x in R\n', 1, 10),
     ('bad-size-separator', 'data A in R^(m by n)\nminimize x over x in R\n', 1, 16),
     ('undeclared-name', 'minimize y over x in R\n', 1, 10),
     ('declared-twice', 'data a in R\ndata a in R^n\nminimize x over x in R\n', 2, 6),

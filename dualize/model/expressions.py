@@ -81,7 +81,7 @@ class ExprResolver:
         if not isinstance(exponent, Number):
             found = "a variable expression" if symbols_of(exponent) else f"a {exponent.shape}"
             raise self.scope.fail(M.BAD_EXPONENT, node.exponent.span, found=found)
-        if isinstance(base, Number) and exponent.value.is_integer and base.value != 0:
+        if isinstance(base, Number) and _foldable(base.value, exponent.value):
             return ops.number(base.value ** exponent.value, node.span)
         return Power(base, exponent.value, span=node.span)
 
@@ -181,6 +181,11 @@ class ExprResolver:
     def _wrong(self, node: ast.Call, needs: str, arg: Expr) -> None:
         raise self.scope.fail(M.WRONG_ARGUMENT, node.span, name=node.func, needs=needs,
                               found=str(arg.shape))
+
+
+def _foldable(base: sympy.Expr, exponent: sympy.Expr) -> bool:
+    """Fold number powers that stay small: integer exponents up to 64, nonzero base."""
+    return bool(exponent.is_integer and abs(exponent) <= 64 and base != 0)
 
 
 def _kind_of(arg: ast.Expr, scope: Scope) -> str:

@@ -62,6 +62,7 @@ def resolve(doc: ast.Document, text: str = "", path: str = "<string>",
 def _declare(run: _Run, decl: ast.Decl, role: str) -> tuple[Symbol, SetMeaning]:
     scope = run.scope
     if decl.name in RESERVED:
+        scope.failed.add(decl.name)
         raise scope.fail(M.RESERVED_NAME, decl.name_span, name=decl.name)
     if decl.name in scope.names:
         raise scope.fail(M.DECLARED_TWICE, decl.name_span, name=decl.name)

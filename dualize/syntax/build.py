@@ -7,11 +7,14 @@ grammar rule cannot be skipped silently.  The tree's depth is checked before
 
 from __future__ import annotations
 
+import re
 from fractions import Fraction
 
 from lark import Token, Transformer, Tree
 
+from dualize.diagnostics import RuleKind
 from dualize.syntax import ast
+from dualize.syntax import rules as R
 from dualize.syntax.span import Span
 
 RELATIONS = {"=": "==", "==": "==", "<=": "<=", ">=": ">=", "≤": "<=", "≥": ">=",
@@ -19,13 +22,19 @@ RELATIONS = {"=": "==", "==": "==", "<=": "<=", ">=": ">=", "≤": "<=", "≥": 
 MAX_DEPTH = 200
 
 
+MAX_DECIMAL_EXPONENT = 400
+MAX_DIGITS = 1000
+EXPONENT = re.compile(r"[eE]([+-]?\d+)$")
+
+
 class BuildError(Exception):
     """A construct the grammar lets through but the language does not have."""
 
-    def __init__(self, span: Span, found: str) -> None:
-        super().__init__(found)
+    def __init__(self, kind: RuleKind, span: Span, **values: object) -> None:
+        super().__init__(kind.id)
+        self.kind = kind
         self.span = span
-        self.found = found
+        self.values = values
 
 
 def token_span(token: Token) -> Span:
@@ -116,7 +125,7 @@ class Builder(Transformer):
 
     def rule_size_sep(self, span: Span, c: list) -> None:
         if str(c[0]) not in {",", "×", "x"}:
-            raise BuildError(span, str(c[0]))
+            raise BuildError(R.BAD_SIZE_SEPARATOR, span, found=str(c[0]))
 
     def rule_size(self, span: Span, c: list) -> ast.Size:
         return ast.Size(span, str(c[0]))
@@ -127,7 +136,17 @@ class Builder(Transformer):
 
     @staticmethod
     def _number(span: Span, token: Token) -> ast.Number:
-        return ast.Number(span, str(token), Fraction(str(token)))
+        """The exact value; a huge decimal exponent is refused before it is expanded."""
+        text = str(token)
+        power = EXPONENT.search(text)
+        shown = text if len(text) <= 24 else text[:20] + "..."
+        if len(text) > MAX_DIGITS:
+            raise BuildError(R.NUMBER_OUT_OF_RANGE, span, text=shown,
+                             why=f"more than {MAX_DIGITS} characters")
+        if power and abs(int(power.group(1))) > MAX_DECIMAL_EXPONENT:
+            raise BuildError(R.NUMBER_OUT_OF_RANGE, span, text=shown,
+                             why=f"a decimal exponent beyond {MAX_DECIMAL_EXPONENT}")
+        return ast.Number(span, text, Fraction(text))
 
     def rule_name(self, span: Span, c: list) -> ast.Name:
         return ast.Name(span, str(c[0]))

@@ -59,7 +59,7 @@ def parse(text: str, path: str = "<string>") -> ParseResult:
     try:
         start = Builder().transform(tree)
     except BuildError as bad:
-        return _failed(make(R.BAD_SIZE_SEPARATOR, path, bad.span, found=bad.found))
+        return _failed(make(bad.kind, path, bad.span, **bad.values))
     document, diagnostics = outline(start, path)
     return ParseResult(start, document, diagnostics)
 

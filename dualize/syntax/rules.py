@@ -71,3 +71,7 @@ NOT_UTF8 = _syntax(
 BAD_SIZE_SEPARATOR = _syntax(
     "bad-size-separator", "sizes are separated by `,`, `x` or `×`, not `{found}`",
     "A matrix set is written R^(m,n), R^(m x n) or R^(m × n).")
+NUMBER_OUT_OF_RANGE = _syntax(
+    "number-out-of-range", "the number `{text}` is out of range: {why}",
+    "Numbers are exact rationals; an exponent that large would take unbounded time "
+    "and memory to expand.")

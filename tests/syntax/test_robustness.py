@@ -94,3 +94,10 @@ def test_random_bytes_as_text() -> None:
     for _ in range(50):
         raw = bytes(rng.randrange(256) for _ in range(200))
         assert_reports(raw.decode("utf-8", errors="replace"))
+
+
+def test_huge_literals_are_refused_quickly() -> None:
+    for literal in ["1e99999999", "1e-99999999", "7" * 5000, "0." + "3" * 5000]:
+        diagnostics = load(f"minimize {literal} * x over x in R").diagnostics
+        assert [d.rule for d in diagnostics] == ["number-out-of-range"]
+        assert (diagnostics[0].span.line, diagnostics[0].span.column) == (1, 10)
