@@ -84,6 +84,8 @@ def _load_mapping(path: Path) -> dict[str, object]:
             raw = json.loads(text.decode("utf-8"))
     except (UnicodeDecodeError, ValueError) as err:
         raise InstanceError(f"{path}: not a valid instance file: {err}") from None
+    except RecursionError:
+        raise InstanceError(f"{path}: not a valid instance file: nested too deeply") from None
     if not isinstance(raw, dict):
         raise InstanceError(f"{path}: an instance file must map names to values")
     return raw
@@ -96,6 +98,8 @@ def _to_array(raw: dict[str, object], decl: DataDecl, path: Path) -> np.ndarray:
     value = raw[decl.name]
     if isinstance(value, dict):
         value = _load_npy(value, decl.name, path)
+    if _has_bool(value):
+        raise InstanceError(f"{path}: value of '{decl.name}' holds true/false; write numbers")
     try:
         arr = np.asarray(value, dtype=float)
     except (TypeError, ValueError):
@@ -104,6 +108,12 @@ def _to_array(raw: dict[str, object], decl: DataDecl, path: Path) -> np.ndarray:
     if not np.all(np.isfinite(arr)):
         raise InstanceError(f"{path}: value of '{decl.name}' has entries that are not finite")
     return arr
+
+
+def _has_bool(value: object) -> bool:
+    if isinstance(value, bool):
+        return True
+    return isinstance(value, list) and any(_has_bool(v) for v in value)
 
 
 def _load_npy(spec: dict[str, object], name: str, path: Path) -> np.ndarray:

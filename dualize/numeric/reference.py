@@ -305,6 +305,6 @@ def _local_dual(dual: DualProblem, instance: Instance, why: str) -> Solution:
 
     as_problem = dual_as_problem(dual)
     if as_problem is None:
-        return Solution("unsupported", float("nan"), note=f"{why}; semidefinite dual "
-                        "variables need a conic solver")
+        return Solution("unsupported", float("nan"), note=f"{why}; the local solver takes "
+                        "no semidefinite variables or constraints and no 'in' relations")
     return solve_local(as_problem, instance, {}, why)

@@ -74,6 +74,8 @@ def test_explicit_dimension_for_variable_only_size(tmp_path: Path) -> None:
     ({"A": [[1, 2]], "b": [1], "m": 0}, ["dimension 'm'", "positive integer"]),
     ({"A": [[1, float("nan")]], "b": [1]}, ["'A'", "not finite"]),
     ({"A": [[1, 2]], "b": {"file": "nowhere.npy"}}, ["'b'", "nowhere.npy"]),
+    ({"A": [[1, 2]], "b": [True]}, ["'b'", "true/false"]),
+    ({"A": [[1, 2]], "b": {"path": "b.npy"}}, ["'b'", "file"]),
 ])
 def test_errors_name_the_value_and_the_file(tmp_path: Path, payload: dict,
                                             words: list[str]) -> None:
@@ -102,6 +104,10 @@ def test_unreadable_and_malformed_files(tmp_path: Path) -> None:
     bad.write_text("{not json")
     with pytest.raises(InstanceError, match="not a valid instance"):
         read_instance(str(bad), least_norm())
+    deep = tmp_path / "deep.json"
+    deep.write_text("[" * 100000 + "]" * 100000)
+    with pytest.raises(InstanceError, match="not a valid instance"):
+        read_instance(str(deep), least_norm())
     listed = tmp_path / "list.json"
     listed.write_text("[1, 2]")
     with pytest.raises(InstanceError, match="map names"):
