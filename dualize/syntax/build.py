@@ -20,6 +20,7 @@ from dualize.syntax.span import Span
 RELATIONS = {"=": "==", "==": "==", "<=": "<=", ">=": ">=", "≤": "<=", "≥": ">=",
              "⪰": "succeq", "⪯": "preceq", "succeq": "succeq", "preceq": "preceq"}
 MAX_DEPTH = 200
+SUBSCRIPTS = {"₁": "1", "₂": "2", "_∞": "inf"}
 
 
 MAX_DECIMAL_EXPONENT = 400
@@ -169,7 +170,7 @@ class Builder(Transformer):
         return ast.Call(span, str(c[0]), token_span(c[0]), args)
 
     def rule_norm(self, span: Span, c: list) -> ast.Norm:
-        p = str(c[3])[1:] if c[3] is not None else "2"
+        p = SUBSCRIPTS.get(str(c[3]), str(c[3])[1:]) if c[3] is not None else "2"
         return ast.Norm(span, c[1], p)
 
     def rule_abs(self, span: Span, c: list) -> ast.Abs:

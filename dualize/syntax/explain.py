@@ -174,7 +174,8 @@ def _describe(token: Token) -> str:
 
 
 def _expected_text(expected: list[str]) -> str:
-    names = sorted({PRETTY.get(e, e) for e in expected if not e.startswith("__ANON")})
+    names = sorted({PRETTY.get(e, e) for e in expected if not e.startswith("__ANON")},
+                   key=lambda name: (name.startswith("`"), name))
     if len(names) > 8:
         return ", ".join(names[:8]) + ", ..."
     return ", ".join(names) if names else "something else"

@@ -74,7 +74,8 @@ def test_nested_absolute_values_need_a_space() -> None:
     assert isinstance(expr.arg.left, ast.Abs)
 
 
-@pytest.mark.parametrize("sub, p", [("", "2"), ("_1", "1"), ("_2", "2"), ("_inf", "inf")])
+@pytest.mark.parametrize("sub, p", [("", "2"), ("_1", "1"), ("_2", "2"), ("_inf", "inf"),
+                                    ("₁", "1"), ("₂", "2"), ("_∞", "inf")])
 def test_norm_subscripts(sub: str, p: str) -> None:
     expr = objective_of(f"minimize ||x||{sub} over x in R^n")
     assert isinstance(expr, ast.Norm) and expr.p == p
