@@ -9,6 +9,7 @@ printed wrongly.
 
 from __future__ import annotations
 
+import re
 from typing import Any
 
 import sympy
@@ -125,7 +126,7 @@ class IRLatexPrinter(LatexPrinter):
         ones = self._ones_of(node.target)
         if st.is_number(magnitude, 0):
             return "0"
-        body = ones if st.is_number(magnitude, 1) else f"{self._factor(magnitude)} {ones}"
+        body = ones if st.is_number(magnitude, 1) else _juxtapose([self._factor(magnitude), ones])
         return ("-" if negative else "") + body
 
     def _ones_of(self, shape: ir.Shape) -> str:
@@ -212,12 +213,21 @@ def _is_fraction(node: ir.Expr) -> bool:
 
 
 def _juxtapose(pieces: list[str]) -> str:
-    """Products by juxtaposition, with ``\\cdot`` only where two numbers would touch."""
+    """Products by juxtaposition: ``\\cdot`` where two numbers would touch, a thin space
+    beside a multi-letter name (``B \\, \\mathrm{budget}``, not "Bbudget")."""
     out = pieces[0]
-    for piece in pieces[1:]:
-        out += r" \cdot " if piece[:1] in "0123456789" else " "
+    for before, piece in zip(pieces, pieces[1:], strict=False):
+        if piece[:1] in "0123456789":
+            out += r" \cdot "
+        elif _WORD.search(before) or piece.startswith(r"\mathrm"):
+            out += r" \, "
+        else:
+            out += " "
         out += piece
     return out
+
+
+_WORD = re.compile(r"\\mathrm\{[^{}]*\}(_\{[^{}]*\})?$")
 
 
 def latex_expr(expr: ir.Expr, **settings: Any) -> str:

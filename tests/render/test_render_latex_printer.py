@@ -127,6 +127,13 @@ def test_scalar_products_put_numbers_and_symbols_before_compound_factors() -> No
     assert latex_expr(ir.Scale(mm(T(q), x), x)) == r"(q^\top x) x"
 
 
+def test_multi_letter_names_are_set_apart_by_a_thin_space() -> None:
+    # Common practice: juxtaposed "B budget" must not read as one word "Bbudget".
+    budget = ir.Symbol("budget", "multiplier", ir.SCALAR)
+    assert latex_expr(ir.Scale(t, budget)) == r"t \, \mathrm{budget}"
+    assert latex_expr(ir.Broadcast(budget, vec(n))) == r"\mathrm{budget} \, \mathbf{1}"
+
+
 def test_numbers_that_would_touch_get_a_cdot() -> None:
     assert latex_expr(ir.Scale(num(2), ir.Number(sympy.Integer(3)))) == r"2 \cdot 3"
 
