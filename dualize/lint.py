@@ -116,7 +116,7 @@ def analysis_hook() -> Callable | None:
 
 def _source(path: str | Path) -> str:
     try:
-        return Path(path).read_text(encoding="utf-8")
+        return Path(path).read_text(encoding="utf-8-sig")
     except (OSError, UnicodeDecodeError):
         return ""
 

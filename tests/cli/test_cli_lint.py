@@ -140,3 +140,21 @@ def test_internal_errors_are_one_line_with_exit_three(
     result = CliRunner().invoke(main, ["lint", str(write(tmp_path, "good.prob", GOOD))])
     assert result.exit_code == 3
     assert result.output.strip() == "internal error: RuntimeError: boom"
+
+
+def test_unreadable_file_exits_two(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    path = write(tmp_path, "locked.prob", GOOD)
+
+    def refuse(self: Path) -> bytes:
+        raise PermissionError(13, "Permission denied")
+
+    monkeypatch.setattr(Path, "read_bytes", refuse)
+    result = CliRunner().invoke(main, ["lint", str(path)])
+    assert result.exit_code == 2
+    assert result.output.strip() == f"dualize: cannot read {path}: Permission denied"
+
+
+def test_byte_order_mark_is_accepted(tmp_path: Path) -> None:
+    path = tmp_path / "bom.prob"
+    path.write_bytes(b"\xef\xbb\xbf" + GOOD.encode("utf-8"))
+    assert CliRunner().invoke(main, ["lint", str(path)]).exit_code == 0
