@@ -18,7 +18,7 @@ import click
 from dualize.errors import DualizeError
 
 if TYPE_CHECKING:
-    pass
+    from dualize.lint import LintReport
 
 EXIT_INTERNAL = 3
 
@@ -84,10 +84,10 @@ def lint(paths: tuple[str, ...], fmt: str, select: tuple[str, ...], ignore: tupl
     sys.exit(1 if config.fails(report.diagnostics) else 0)
 
 
-def _print_lint(report: object, fmt: str) -> None:
+def _print_lint(report: LintReport, fmt: str) -> None:
     from dualize.render.diagnostics import diagnostics_json, format_text
 
-    diagnostics = report.diagnostics  # type: ignore[attr-defined]
+    diagnostics = report.diagnostics
     if fmt == "sarif":
         from dualize.diagnostics import rule_table
         from dualize.render.sarif import sarif_log
@@ -99,7 +99,6 @@ def _print_lint(report: object, fmt: str) -> None:
         click.echo(json.dumps(diagnostics_json(diagnostics), indent=2, ensure_ascii=False))
         return
     if diagnostics:
-        click.echo(format_text(diagnostics, report.sources))  # type: ignore[attr-defined]
-    errors, warnings = report.count("error"), report.count("warning")  # type: ignore[attr-defined]
-    files = len(report.files)  # type: ignore[attr-defined]
-    click.echo(f"{files} file(s) checked: {errors} error(s), {warnings} warning(s)")
+        click.echo(format_text(diagnostics, report.sources))
+    errors, warnings = report.count("error"), report.count("warning")
+    click.echo(f"{len(report.files)} file(s) checked: {errors} error(s), {warnings} warning(s)")
