@@ -118,13 +118,14 @@ def _divide(e: ir.Divide, env: _Env) -> np.ndarray:
 
 
 def _power(e: ir.Power, env: _Env) -> np.ndarray:
+    """Integer powers everywhere; fractional powers on x >= 0 only (nan below), as
+    convex analysis defines x^p for non-integer p (and as cvxpy's power does)."""
     base = env(e.base)
     p = sympy.Rational(e.exponent)
-    if p.q == 1:
-        return base ** int(p.p)
-    if p.q % 2 == 1:  # odd roots are real on negative numbers
-        return np.sign(base) ** int(p.p) * np.abs(base) ** float(p)
-    return np.power(base, float(p))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        if p.q == 1:
+            return base ** float(p.p) if p.p < 0 else base ** int(p.p)
+        return np.where(base >= 0, np.power(np.abs(base), float(p)), np.nan)
 
 
 _FUNCS: dict[str, Callable[[np.ndarray], np.ndarray]] = {

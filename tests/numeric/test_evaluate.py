@@ -49,7 +49,7 @@ CASES = [
     (ir.Divide(x, y), X2 / Y2),
     (ir.Divide(x, c), X2 / c_val),
     (ir.Power(x, sympy.Rational(3, 2)), X2 ** 1.5),
-    (ir.Power(ir.Scale(num(-1), x), sympy.Rational(1, 3)), -np.cbrt(X2)),
+    (ir.Power(x, sympy.Rational(1, 3)), np.cbrt(X2)),
     (ir.Power(x, sympy.Integer(-1)), 1 / X2),
     (ir.Apply("exp", x), np.exp(X2)),
     (ir.Apply("log", x), np.log(X2)),
@@ -113,3 +113,11 @@ def test_least_squares_objective_composite() -> None:
     expr = ir.Power(ir.Norm(residual, "2"), sympy.Integer(2))
     got = evaluate(expr, {**VALUES, "b": b_val}, DIMS)
     assert got == pytest.approx(float(np.sum((A_val @ x_val - b_val) ** 2)), rel=1e-12)
+
+
+def test_fractional_power_is_undefined_below_zero() -> None:
+    # x^p for non-integer p is defined on x >= 0 (S. Boyd and L. Vandenberghe, Convex
+    # Optimization, 2004, section 3.1.5; from memory).
+    got = evaluate(ir.Power(ir.Scale(num(-1), x), sympy.Rational(1, 3)), VALUES, DIMS)
+    assert np.all(np.isnan(got))
+    assert evaluate(ir.Power(c, sympy.Integer(-2)), VALUES, DIMS) == pytest.approx(c_val ** -2)
