@@ -1,0 +1,81 @@
+"""The library entry points behind the command line."""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from pathlib import Path
+
+from dualize.diagnostics import Diagnostic
+from dualize.duality.result import Derivation
+from dualize.errors import DualizeError
+from dualize.model.problem import Problem
+
+
+class ProblemError(DualizeError):
+    """A problem file with errors: the diagnostics travel with it (exit code 1)."""
+
+    def __init__(self, diagnostics: tuple[Diagnostic, ...], source: str) -> None:
+        from dualize.render.diagnostics import format_text
+
+        path = diagnostics[0].path if diagnostics else "<string>"
+        super().__init__(format_text(diagnostics, {path: source}), exit_code=1)
+        self.diagnostics = diagnostics
+
+
+def load_problem(source: str | Path | Problem) -> Problem:
+    """A resolved problem from text, a path, or a problem (returned as is)."""
+    from dualize.model import load, load_file
+
+    if isinstance(source, Problem):
+        return source
+    is_path = isinstance(source, Path) or (
+        "\n" not in source and source.endswith(".prob") and Path(source).exists())
+    loaded = load_file(source) if is_path else load(str(source))
+    errors = tuple(d for d in loaded.diagnostics if d.severity == "error")
+    if loaded.problem is None or errors:
+        text = Path(source).read_text(encoding="utf-8", errors="replace") if is_path else str(
+            source)
+        raise ProblemError(errors or loaded.diagnostics, text)
+    return loaded.problem
+
+
+def derive(source: str | Path | Problem) -> Derivation:
+    from dualize.duality import derive as _derive
+
+    return _derive(load_problem(source))
+
+
+def write_atomically(path: str, text: str) -> None:
+    """Write ``text`` to ``path`` so that a failure leaves no partial file and an
+    existing file untouched: a temporary file in the same folder, then a rename."""
+    folder = os.path.dirname(os.path.abspath(path))
+    fd, tmp = tempfile.mkstemp(prefix=".dualize-", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+            handle.write(text)
+        os.replace(tmp, path)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
+
+
+def render(derivation: Derivation, fmt: str, analysis: object | None,
+           standalone: bool = False, color: bool = False) -> str:
+    """The derivation in one of the output formats."""
+    if fmt == "latex":
+        from dualize.render.latex import render_latex
+
+        return render_latex(derivation, analysis, standalone=standalone)  # type: ignore[arg-type]
+    if fmt == "markdown":
+        from dualize.render.markdown import render_markdown
+
+        return render_markdown(derivation, analysis)  # type: ignore[arg-type]
+    if fmt == "json":
+        from dualize.render.json_out import render_json
+
+        return render_json(derivation, analysis)  # type: ignore[arg-type]
+    from dualize.render.text import render_text
+
+    return render_text(derivation, analysis, color=color)  # type: ignore[arg-type]
