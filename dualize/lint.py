@@ -77,8 +77,20 @@ def lint_paths(paths: Sequence[str | Path], jobs: int | None = None,
         return LintReport(tuple(lint_file(p) for p in files))
     from concurrent.futures import ProcessPoolExecutor
 
+    _warm_up()
     with ProcessPoolExecutor(max_workers=workers) as pool:
         return LintReport(tuple(pool.map(lint_file, files)))
+
+
+def _warm_up() -> None:
+    """Import the front end and the analysis and build the parser before the workers
+    start, so that forked workers inherit them instead of each paying for them."""
+    from dualize.model.loading import load
+    from dualize.syntax.parser import lark_parser
+
+    lark_parser()
+    load("minimize x over x in R\n")
+    analysis_hook()
 
 
 def lint_file(path: str | Path, data: str | None = None) -> FileReport:
