@@ -107,6 +107,16 @@ class KKTView:
     group: str
     lines: tuple[Line, ...]
 
+    @property
+    def equations(self) -> tuple[Line, ...]:
+        """The conditions that are relations, for a display."""
+        return tuple(line for line in self.lines if line.relation)
+
+    @property
+    def statements(self) -> tuple[str, ...]:
+        """The conditions stated only in words, for sentences after the display."""
+        return tuple(line.note.rstrip(".") for line in self.lines if not line.relation)
+
 
 @dataclass(frozen=True)
 class RecoveryView:

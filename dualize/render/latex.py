@@ -176,7 +176,7 @@ def _align_row(line: Line) -> str:
 
 
 def _note(line: Line) -> str:
-    return rf" && \text{{{line.note}}}" if line.note else ""
+    return rf" \quad \text{{({line.note})}}" if line.note else ""
 
 
 def _inline(line: Line) -> str:
@@ -193,8 +193,8 @@ def _context(view: DocumentView) -> dict[str, Any]:
                   for s in view.steps],
         "dual": "" if view.dual.unbounded else problem_block(view.dual),
         "unbounded": unbounded_sentence(view.dual, r"$-\infty$", r"$+\infty$"),
-        "kkt": [{"group": k.group[:1].upper() + k.group[1:], "math": align_block(k.lines)}
-                for k in view.kkt],
+        "kkt": [{"group": k.group[:1].upper() + k.group[1:], "statements": k.statements,
+                 "math": align_block(k.equations) if k.equations else ""} for k in view.kkt],
         "recovery": [{"math": align_block((Line(r.variable, "=", r.formula),))
                       if r.formula is not None else "", "variable": r.variable,
                       "note": r.note} for r in view.recovery],

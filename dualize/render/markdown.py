@@ -61,7 +61,7 @@ def _row(line: Line) -> str:
     if not line.relation:
         return rf"& \text{{{line.note}}}"
     return f"{line.lhs} &{line.relation} {line.rhs}" + (
-        rf" && \text{{{line.note}}}" if line.note else "")
+        rf" \quad \text{{({line.note})}}" if line.note else "")
 
 
 def _verdict_rows(view: DocumentView) -> list[str]:
@@ -96,7 +96,8 @@ def _context(view: DocumentView) -> dict[str, Any]:
                   for s in view.steps],
         "dual": "" if view.dual.unbounded else display(problem_block(view.dual)),
         "unbounded": unbounded_sentence(view.dual, r"$-\infty$", r"$+\infty$"),
-        "kkt": [{"group": k.group[:1].upper() + k.group[1:], "math": display(aligned(k.lines))}
+        "kkt": [{"group": k.group[:1].upper() + k.group[1:], "statements": k.statements,
+                 "math": display(aligned(k.equations)) if k.equations else ""}
                 for k in view.kkt],
         "recovery": [{"math": display(aligned((Line(r.variable, "=", r.formula),)))
                       if r.formula is not None else "", "variable": r.variable,
