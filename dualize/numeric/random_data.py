@@ -15,7 +15,9 @@ The feasibility rule, in full:
 4. A constraint with a data symbol alone on one side (``A*x == b``,
    ``G*x <= h``, ``||x|| <= r``, ``alpha <= C`` with C broadcast) whose symbol
    occurs in no other constraint, not on the other side and not in a domain
-   bound, gets that data reset to the other side at x0: equal for an
+   bound, gets that data reset to the other side at x0 (the same holds for a
+   data symbol that is one additive term of the normalized function, such as
+   ``b`` in ``A*x - b <= 0``, with its coefficient divided out): equal for an
    equality, plus a positive slack from [0.1, 1] (times I for a matrix
    inequality) where the data is the upper side, minus one where it is the
    lower side.  An upper side pushed out of its set is raised back into it
@@ -39,6 +41,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
+import sympy
 
 from dualize.model import expr as ir
 from dualize.model.problem import Constraint, Problem, Variable
@@ -187,6 +190,39 @@ def _target_of(con: Constraint, others: list[Constraint],
         side = "equal" if con.kind == "eq" else (
             "upper" if con.relation in upper_when else "lower")
         return Target(name, other, side, broadcast, con.kind == "psd")
+    return _additive_target(con, others, bound_names)
+
+
+def signed_terms(e: ir.Expr, k: sympy.Rational = ir.ONE
+                 ) -> list[tuple[sympy.Rational, ir.Expr]]:
+    """``e`` as a sum of rational multiples of terms (sums and number scalings flattened)."""
+    if isinstance(e, ir.Add):
+        return [pair for t in e.terms for pair in signed_terms(t, k)]
+    if isinstance(e, ir.Scale) and isinstance(e.factor, ir.Number) \
+            and not e.factor.value.free_symbols:
+        return signed_terms(e.arg, k * e.factor.value)
+    return [(k, e)]
+
+
+def _additive_target(con: Constraint, others: list[Constraint],
+                     bound_names: frozenset[str]) -> Target | None:
+    """Data as one additive term k*D of the normalized function: ``A*x - b <= 0``."""
+    terms = signed_terms(con.function)
+    for index, (k, term) in enumerate(terms):
+        lone = _lone_data(term)
+        if lone is None or k == 0 or (lone[1] and con.kind == "eq"):
+            continue
+        name = lone[0]
+        rest = [ir.Scale(ir.Number(c), t) for i, (c, t) in enumerate(terms) if i != index]
+        if name in bound_names or any(ir.depends_on(t, {name}) for t in rest) or any(
+                ir.depends_on(c.function, {name}) for c in others):
+            continue
+        body = rest[0] if len(rest) == 1 else ir.Add(tuple(rest)) if rest else \
+            ir.Zero(term.shape)
+        # F = k D + rest: D = -rest / k, and for F <= 0 D is the upper side when k < 0.
+        side = "equal" if con.kind == "eq" else ("upper" if k < 0 else "lower")
+        other = ir.Scale(ir.Number(-1 / k), body)
+        return Target(name, other, side, lone[1], con.kind == "psd")
     return None
 
 

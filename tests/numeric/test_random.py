@@ -25,6 +25,7 @@ from handbuilt import (
     shape,
     small_sdp,
     standard_lp,
+    sub,
     var,
 )
 
@@ -188,3 +189,26 @@ def test_point_repair_is_what_makes_the_entropy_instance_feasible() -> None:
     assert float(np.sum(point["x"])) > 1.2  # drawn entries lie in [0.25, 1]
     assert float(np.sum(fixed["x"])) == pytest.approx(1.0, abs=1e-7)
     assert float(np.min(fixed["x"])) >= random_data.MARGIN - 1e-7
+
+
+def additive_problem() -> Problem:
+    """b - A*x >= 0 and A2*x - 2*b2 == 0: data as an additive term of the function."""
+    A, b = data("A", m, n), data("b", m)
+    A2, b2 = data("A2", m, n), data("b2", m)
+    x = var("x", n)
+    residual = sub(b.symbol, ir.MatMul((A.symbol, x.symbol)))
+    eq = sub(ir.MatMul((A2.symbol, x.symbol)), ir.Scale(num(2), b2.symbol))
+    cons = [con("lam", residual, ">=", ir.Zero(shape(m))),
+            con("nu", eq, "==", ir.Zero(shape(m)))]
+    return problem(ir.SumAll(x.symbol), [x], [A, b, A2, b2], cons)
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_additive_data_terms_are_targets(seed: int) -> None:
+    from dualize.numeric.random_data import find_targets
+
+    p = additive_problem()
+    targets = find_targets(p)
+    assert [(t.name, t.side) for t in targets] == [("b", "upper"), ("b2", "equal")]
+    inst = random_instance(p, {"m": 6, "n": 2}, seed)
+    assert strictly_feasible(p, inst)
