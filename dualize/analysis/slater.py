@@ -77,6 +77,11 @@ def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
     zero = zero_candidate(problem, conv, variable_signs(problem))
     if zero is not None:
         return zero
+    from dualize.analysis.slack_point import slack_candidate
+
+    slack = slack_candidate(problem, conv)
+    if slack is not None:
+        return slack
     if not strict and not caveats:
         return Verdict("guaranteed", AFFINE_REASON)
     what = ", ".join(strict) if strict else "; ".join(caveats)

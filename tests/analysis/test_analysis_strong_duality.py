@@ -105,3 +105,24 @@ def test_constraint_classes() -> None:
         "neq": "nonaffine-equality", "sup": "nonconvex-inequality",
         "lmi": "linear-matrix-inequality"}
     assert a.convex is False
+
+
+def test_soft_margin_is_feasible_with_large_slacks() -> None:
+    # the soft-margin problem of C. Cortes and V. Vapnik, Support-vector networks, 1995
+    # (from memory): w = 0, b = 0 and large slacks satisfy every constraint strictly, for
+    # any data, so strong duality holds outright (not only "if feasible")
+    text = ("data X in R^(m,n)\ndata y in R^m\ndata C in R_++\n"
+            "minimize 1/2 * ||w||^2 + C * sum(s)\nover w in R^n, b in R, s in R^m\n"
+            "subject to\n  alpha: y .* (X*w + b) >= 1 - s\n  beta: s >= 0\n")
+    status, reason, _ = verdict(text)
+    assert status == "guaranteed"
+    assert "every entry of s equal to t" in reason and "if feasible" not in reason
+
+
+def test_slack_with_a_positive_coefficient_is_not_a_slack() -> None:
+    # s <= u bounds s above: making s large breaks it, so no slack point is claimed
+    from dualize.analysis.slack_point import slacks_of
+
+    p = load_problem("data u in R^n\nminimize sum(x)\nover x in R^n, s in R^n\n"
+                     "subject to\n  lo: x >= 1 - s\n  hi: s <= u\n")
+    assert slacks_of(p) == ()
