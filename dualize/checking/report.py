@@ -1,0 +1,177 @@
+"""``check_claim``: a user's dual against the derived one, symbolically and numerically."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass
+
+from dualize.checking.claims import Claim, ClaimError, load_claim
+from dualize.checking.matching import Matching, match_variables
+from dualize.checking.numeric import Values, claim_as_dual, solve_three
+from dualize.checking.symbolic import SymbolicResult, compare_symbolically
+from dualize.checking.verdict import (
+    EQUIVALENT,
+    INFEASIBLE,
+    INVALID,
+    NOT_TIGHT,
+    Reading,
+    decide,
+    largest_gap,
+    read,
+    witness,
+)
+from dualize.duality.result import Derivation
+from dualize.model.problem import Problem
+from dualize.numeric.instance import Instance
+
+
+@dataclass(frozen=True)
+class ClaimInstance:
+    """One instance's three values and what they say about the claim."""
+
+    values: Values
+    gap: float
+    exceeds: bool
+    agrees: bool
+
+
+@dataclass(frozen=True)
+class ClaimReport:
+    """The verdict, how it was reached, every instance and the evidence kept."""
+
+    verdict: str
+    method: str
+    instances: tuple[ClaimInstance, ...]
+    max_gap: float
+    matching: Matching
+    symbolic: SymbolicResult
+    sense: str
+    counterexample: Instance | None = None
+    counterexample_path: str | None = None
+    borrowed: tuple[str, ...] = ()
+    messages: tuple[str, ...] = ()
+
+    @property
+    def ok(self) -> bool:
+        return self.verdict == "equivalent"
+
+
+def check_claim(problem: Problem | Derivation, claim: str | Problem | Claim,
+                instances: Sequence[Instance] = (), seeds: Sequence[int] = (0, 1, 2),
+                dims: dict[str, int] | None = None, claim_path: str = "<claim>",
+                counterexample_path: str | None = None) -> ClaimReport:
+    """Check ``claim`` (text, a loaded problem or a ``Claim``) as a dual of ``problem``.
+
+    The derived dual is computed unless a derivation is given.  Random instances
+    for ``seeds`` are made as ``verify`` makes them (primal and derived dual
+    feasible).  When the verdict is invalid (or the claim unbounded) and
+    ``counterexample_path`` is given, the witnessing instance is written there.
+    """
+    from dualize.duality.engine import derive
+
+    derivation = problem if isinstance(problem, Derivation) else derive(problem)
+    loaded = _as_claim(derivation.problem, claim, claim_path)
+    matching = match_variables(loaded.problem, derivation.dual)
+    symbolic = compare_symbolically(loaded.problem, derivation.dual, matching)
+    try:
+        posed = claim_as_dual(loaded.problem)
+    except ValueError as err:
+        raise ClaimError(f"{claim_path}: {err}") from None
+    pairs = instance_list(derivation, instances, seeds, dims)
+    values = [solve_three(derivation, posed, inst, seed) for inst, seed in pairs]
+    return _report(loaded, matching, symbolic, values, [inst for inst, _ in pairs],
+                   derivation.problem.sense, counterexample_path)
+
+
+def _as_claim(primal: Problem, claim: str | Problem | Claim, path: str) -> Claim:
+    if isinstance(claim, Claim):
+        return claim
+    if isinstance(claim, Problem):
+        from dualize.checking.claims import check_fits
+
+        check_fits(primal, claim, path)
+        return Claim(claim, claim.source, ())
+    return load_claim(primal, claim, path)
+
+
+def instance_list(derivation: Derivation, given: Sequence[Instance], seeds: Sequence[int],
+                    dims: dict[str, int] | None) -> list[tuple[Instance, int | None]]:
+    from dualize.numeric.dual_data import make_dual_feasible
+    from dualize.numeric.instance import random_instance
+
+    out: list[tuple[Instance, int | None]] = [(inst, None) for inst in given]
+    for seed in seeds:
+        drawn = random_instance(derivation.problem, dims, seed)
+        out.append((make_dual_feasible(derivation, drawn, seed), seed))
+    return out
+
+
+def _report(claim: Claim, matching: Matching, symbolic: SymbolicResult, values: list[Values],
+            instances: list[Instance], sense: str, target: str | None) -> ClaimReport:
+    from dualize.checking.counterexample import save
+
+    readings = [read(v, sense) for v in values]
+    verdict, method = decide(readings, symbolic.proved)
+    index = witness(readings, verdict)
+    found = instances[index] if index is not None else None
+    written = save(found, target) if found is not None and target else None
+    rows = tuple(ClaimInstance(v, r.gap, r.exceeds, r.agrees)
+                 for v, r in zip(values, readings, strict=True))
+    return ClaimReport(verdict, method, rows, largest_gap(readings), matching, symbolic,
+                       sense, found, written, claim.borrowed,
+                       _messages(verdict, symbolic, readings, values))
+
+
+def _messages(verdict: str, symbolic: SymbolicResult, readings: list[Reading],
+              values: list[Values]) -> tuple[str, ...]:
+    """Sentences that say why the verdict is what it is, with the numbers behind it."""
+    out: list[str] = []
+    pairs = list(zip(readings, values, strict=True))
+    if verdict == INVALID:
+        r, v = min(((r, v) for r, v in pairs if r.exceeds), key=lambda rv: rv[0].gap)
+        out.append(f"on {_where(v)} the claim's optimum {v.claim_value:.10g} passes the primal "
+                   f"optimum {v.primal_value:.10g} by {-r.gap:.6g}: weak duality forbids it")
+    elif verdict == INFEASIBLE:
+        v = next(v for r, v in pairs if r.broken)
+        out.append(f"on {_where(v)} the claim is {v.claim_status}, while the derived dual has "
+                   f"the value {v.dual_value:.10g} ({v.dual_status})")
+    elif verdict == NOT_TIGHT:
+        r, v = max(((r, v) for r, v in pairs if r.below), key=lambda rv: rv[0].gap)
+        out.append(f"the claim is on the correct side of the primal optimum everywhere, but "
+                   f"falls short by up to {r.gap:.6g} (on {_where(v)})")
+    elif verdict == EQUIVALENT:
+        out.append(_equivalent_sentence(symbolic, len(values)))
+    else:
+        statuses = sorted({f"{v.primal_status}/{v.dual_status}/{v.claim_status}"
+                           for v in values})
+        out.append("no instance decided the question (primal/dual/claim statuses: "
+                   + ", ".join(statuses) + ")" if values else "no instance was checked")
+    out += _cautions(symbolic, readings, values, verdict)
+    return tuple(out)
+
+
+def _where(v: Values) -> str:
+    return f"seed {v.seed}" if v.seed is not None else v.source
+
+
+def _equivalent_sentence(symbolic: SymbolicResult, count: int) -> str:
+    if symbolic.proved:
+        return ("proved equal to the derived dual symbolically: the same objective and the "
+                "same constraints up to positive factors, variable sets included")
+    return (f"agrees with the derived dual's optimum on all {count} instance(s) to tolerance; "
+            "no symbolic proof (" + "; ".join(symbolic.reasons) + ")")
+
+
+def _cautions(symbolic: SymbolicResult, readings: list[Reading], values: list[Values],
+              verdict: str) -> list[str]:
+    out = []
+    if symbolic.proved and not all(r.agrees for r in readings):
+        out.append("the numeric solves do not all agree with the symbolic proof (solver "
+                   "statuses or tolerances): see the instances")
+    if any(v.primal_status == "local" for v in values):
+        out.append("the primal is not certifiably convex: its values come from local solves "
+                   "and only bound the optimum; an exceeding claim is still caught, but "
+                   "'tight' means tight against those values")
+    if verdict == NOT_TIGHT and any(r.agrees for r in readings):
+        out.append("the claim matches the derived dual on some instances but not all")
+    return out
