@@ -70,14 +70,17 @@ def scalar_form(expr: Expr, var: Symbol, t: sympy.Symbol) -> sympy.Expr | None:
 
     Entry i of the result may depend on entry i of ``var`` and on scalar data
     only; any other variable, a non-scalar data symbol or a node that mixes
-    entries (products, sums, norms) makes the answer None.
+    entries (products, sums, norms) makes the answer None.  So does a function
+    that is undefined everywhere (a division by a literal zero): sympy would
+    carry it as complex infinity, which is no function of t.
     """
     if expr.shape != var.shape:
         return None
     try:
-        return _to_sympy(expr, _Target(var, t))
-    except _NotElementwise:
+        phi = _to_sympy(expr, _Target(var, t))
+    except (_NotElementwise, TypeError, ValueError):
         return None
+    return None if phi.has(sympy.zoo, sympy.nan) else phi
 
 
 def _to_sympy(node: Expr, target: _Target) -> sympy.Expr:

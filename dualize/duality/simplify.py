@@ -225,10 +225,16 @@ def pull_out_of_exp(e: Expr, y: Symbol) -> Expr:
 
 
 def _readable(c: DualConstraint) -> DualConstraint:
-    """E rel 0 as (terms with multipliers) rel (the rest), signs made positive."""
-    if not b.is_zero(c.rhs) or c.relation in ("succeq", "preceq"):
+    """E rel 0 as (terms with multipliers) rel (the rest), signs made positive and a
+    common positive rational factor divided out (both are equivalences)."""
+    if not b.is_zero(c.rhs):
         return c
-    terms = expand(c.lhs)
+    terms = _divided(expand(c.lhs))
+    if c.relation in ("succeq", "preceq"):
+        if terms and all(t.coef < 0 for t in terms):
+            terms = [Term(-t.coef, t.scalars, t.chain) for t in terms]
+            return replace(c, lhs=rebuild(terms, c.lhs.shape), relation=FLIP[c.relation])
+        return replace(c, lhs=rebuild(terms, c.lhs.shape))
     var_terms = [t for t in terms if _has_unknowns(t)]
     const_terms = [t for t in terms if not _has_unknowns(t)]
     if not var_terms:
@@ -239,6 +245,17 @@ def _readable(c: DualConstraint) -> DualConstraint:
     if all(t.coef < 0 for t in var_terms):
         lhs, rhs, relation = tidy(b.neg(lhs)), tidy(b.neg(rhs)), FLIP[relation]
     return replace(c, lhs=lhs, rhs=rhs, relation=relation)  # type: ignore[arg-type]
+
+
+def _divided(terms: list[Term]) -> list[Term]:
+    """The terms divided by the positive gcd of their rational coefficients."""
+    coefs = [t.coef for t in terms]
+    if not coefs or not all(isinstance(k, sympy.Rational) for k in coefs):
+        return terms
+    g = sympy.gcd_list([abs(k) for k in coefs]) if len(coefs) > 1 else abs(coefs[0])
+    if g in (0, 1):
+        return terms
+    return [Term(t.coef / g, t.scalars, t.chain) for t in terms]
 
 
 def _has_unknowns(t: Term) -> bool:
