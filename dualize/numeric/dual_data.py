@@ -33,6 +33,7 @@ from dualize.duality.result import Derivation, DualConstraint, DualVariable
 from dualize.model import expr as ir
 from dualize.numeric.evaluate import evaluate_2d, shape_of
 from dualize.numeric.instance import Instance, set_violation
+from dualize.numeric.random_data import signed_terms
 
 SCALES = (1.0, 0.3, 0.1, 0.01)
 
@@ -90,42 +91,27 @@ def _primal_names(derivation: Derivation) -> set[str]:
     return names
 
 
-def _signed_terms(con: DualConstraint) -> list[tuple[float, ir.Expr]]:
-    """``lhs - rhs`` as signed additive terms."""
-    out: list[tuple[float, ir.Expr]] = []
-    for sign, side in ((1.0, con.lhs), (-1.0, con.rhs)):
-        terms = side.terms if isinstance(side, ir.Add) else (side,)
-        out.extend((sign, t) for t in terms)
-    return out
-
-
-def _lone(term: ir.Expr) -> tuple[str, float] | None:
-    if isinstance(term, ir.Symbol) and term.role == "data":
-        return term.name, 1.0
-    if isinstance(term, ir.Scale) and isinstance(term.factor, ir.Number) \
-            and isinstance(term.arg, ir.Symbol) and term.arg.role == "data" \
-            and not term.factor.value.free_symbols and term.factor.value != 0:
-        return term.arg.name, float(term.factor.value)
-    return None
+def _terms(con: DualConstraint) -> list[tuple[sympy.Rational, ir.Expr]]:
+    """``lhs - rhs`` as rational multiples of terms."""
+    minus = ir.Scale(ir.Number(sympy.Integer(-1)), con.rhs)
+    return signed_terms(ir.Add((con.lhs, minus)))
 
 
 def _target_of(con: DualConstraint, others: list[DualConstraint],
                allowed: set[str]) -> DualTarget | None:
     if con.relation not in ("=", "<=", ">=", "succeq", "preceq"):
         return None
-    terms = _signed_terms(con)
-    for index, (sign, term) in enumerate(terms):
-        lone = _lone(term)
-        if lone is None or lone[0] not in allowed:
+    terms = _terms(con)
+    for index, (k, term) in enumerate(terms):
+        if not (isinstance(term, ir.Symbol) and term.role == "data") or k == 0 \
+                or term.name not in allowed:
             continue
-        name = lone[0]
-        rest_terms = [t if s > 0 else ir.Scale(ir.Number(sympy.Integer(-1)), t)
-                      for i, (s, t) in enumerate(terms) if i != index]
+        name = term.name
+        rest_terms = [ir.Scale(ir.Number(c), t) for i, (c, t) in enumerate(terms) if i != index]
         if any(ir.depends_on(t, {name}) for t in rest_terms) or any(
                 ir.depends_on(c.lhs, {name}) or ir.depends_on(c.rhs, {name}) for c in others):
             continue
-        rest = _sum(rest_terms, term.shape)
-        return DualTarget(name, sign * lone[1], rest, con.relation)
+        return DualTarget(name, float(k), _sum(rest_terms, term.shape), con.relation)
     return None
 
 
