@@ -120,9 +120,19 @@ def test_soft_margin_is_feasible_with_large_slacks() -> None:
 
 
 def test_slack_with_a_positive_coefficient_is_not_a_slack() -> None:
-    # s <= u bounds s above: making s large breaks it, so no slack point is claimed
-    from dualize.analysis.slack_point import slacks_of
+    # s <= u bounds s above, so s is no slack; x is one (x >= 1 - s holds for x large),
+    # but s = 0 needs u >= 0, which the data's set does not say: no point is claimed
+    from dualize.analysis.slack_point import slack_candidate, slacks_of
 
     p = load_problem("data u in R^n\nminimize sum(x)\nover x in R^n, s in R^n\n"
                      "subject to\n  lo: x >= 1 - s\n  hi: s <= u\n")
-    assert slacks_of(p) == ()
+    assert [v.name for v in slacks_of(p)] == ["x"]
+    a = analyze(p)
+    assert slack_candidate(p, _convexity(p)) is None
+    assert "whenever the problem is feasible" in a.strong_duality_reason
+
+
+def _convexity(p: object) -> object:
+    from dualize.analysis.convexity import analyse_convexity
+
+    return analyse_convexity(p)
