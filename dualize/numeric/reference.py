@@ -6,6 +6,10 @@ Statuses are reported as the solver found them, never improved upon:
 solved faithfully), ``local`` (a nonconvex primal: the best of several local
 solves, only an upper bound on p* for a minimization) and ``failed``.
 
+Domains: R_++ and S^n_++ are solved over their closures (R_+, S^n_+), which
+leaves the infimum of a continuous objective unchanged; boxes become bound
+constraints that carry no multiplier.
+
 Multipliers follow the sign conventions of the language: each constraint is
 posed to cvxpy in its normalized form ``f <= 0`` / ``h == 0`` / ``F preceq 0``
 and the reported dual value is the multiplier of ``L = f0 + sum y_i f_i`` for a
@@ -162,13 +166,20 @@ def _build_primal(problem: Problem, instance: Instance,
 
 
 def run_solver(prob: Any) -> str:
-    """Clarabel first, SCS if Clarabel fails; the status in our vocabulary."""
+    """Clarabel first, SCS if Clarabel fails; the status in our vocabulary.
+
+    cvxpy's own warnings (an inaccurate solution) are silenced: the status says it.
+    """
+    import warnings
+
     import cvxpy as cp
 
     for solver in (cp.CLARABEL, cp.SCS):
         try:
-            prob.solve(solver=solver)
-        except cp.error.SolverError:
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore")
+                prob.solve(solver=solver)
+        except (cp.error.SolverError, ValueError, ArithmeticError):
             continue
         status = _STATUS.get(prob.status, "failed")
         if status != "failed":
