@@ -20,27 +20,13 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
+from dualize.render.latex_chars import math_symbol, text_character
 from dualize.render.latex_printer import IRLatexPrinter, latex_expr, latex_relation
-from dualize.render.names import LATEX_OF_LETTER, PROSE_RELATIONS, latex_name, prose_pieces
+from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
 from dualize.render.templating import fill
 
 __all__ = ["LatexFormatter", "latex_expr", "render_latex", "repr_latex"]
 
-_ESCAPES: dict[str, str] = {
-    "\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#",
-    "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}",
-    "<": r"\textless{}", ">": r"\textgreater{}", "|": r"\textbar{}",
-}
-_MATH_CHARACTERS: dict[str, str] = {
-    "≤": r"\leq", "≥": r"\geq", "≠": r"\neq", "⪰": r"\succeq", "⪯": r"\preceq",
-    "∈": r"\in", "ℝ": r"\mathbb{R}", "𝕊": r"\mathbb{S}", "ℤ": r"\mathbb{Z}",
-    "×": r"\times", "·": r"\cdot", "∞": r"\infty", "‖": r"\Vert", "ᵀ": r"^\top",
-    "⊙": r"\odot", "⊘": r"\oslash", "𝟏": r"\mathbf{1}", "→": r"\to", "⁻¹": "^{-1}",
-    "∘": r"\circ", "†": r"^\dagger", "⁺": "^{+}", "−": "-", "√": r"\surd",
-    **{chr(0x2080 + d): f"_{{{d}}}" for d in range(10)},
-    **{chr(0x2070 + d): f"^{{{d}}}" for d in (0, 4, 5, 6, 7, 8, 9)},
-    "¹": "^{1}", "²": "^{2}", "³": "^{3}",
-}
 _SET_BASE: dict[str, tuple[str, str]] = {
     "free": (r"\mathbb{R}", ""), "nonneg": (r"\mathbb{R}", "_{+}"),
     "pos": (r"\mathbb{R}", "_{++}"), "integer": (r"\mathbb{Z}", ""),
@@ -67,14 +53,14 @@ def _escape_text(text: str) -> str:
     out: list[str] = []
     math: list[str] = []
     for char in text:
-        symbol = LATEX_OF_LETTER.get(char) or _MATH_CHARACTERS.get(char)
+        symbol = math_symbol(char)
         if symbol is not None:
             math.append(symbol if symbol[0] in "^_" or not math else " " + symbol)
             continue
         if math:
             out.append("$" + "".join(math) + "$")
             math = []
-        out.append(_ESCAPES.get(char, char))
+        out.append(text_character(char))
     if math:
         out.append("$" + "".join(math) + "$")
     return "".join(out)

@@ -56,11 +56,22 @@ def _latex_word(word: str) -> str:
     if word in GREEK:
         return LATEX_OF_LETTER[GREEK[word]]
     if len(word) == 1:
-        return LATEX_OF_LETTER.get(word, word)
+        return _latex_letter(word)
     if word.isdigit():
         return word
-    shown = "".join(LATEX_OF_LETTER.get(c, c) for c in word).replace("_", "\\_")
+    shown = "".join(_latex_letter(c) for c in word).replace("_", "\\_")
     return "\\mathrm{" + shown + "}"
+
+
+def _latex_letter(char: str) -> str:
+    """One character of a name in math mode; letters pdflatex lacks show their code point."""
+    if char in LATEX_OF_LETTER:
+        return LATEX_OF_LETTER[char]
+    if char.isascii():
+        return char
+    if "\u00c0" <= char <= "\u00ff":
+        return "\\text{" + char + "}"
+    return f"\\text{{[U+{ord(char):04X}]}}"
 
 
 def latex_name(name: str) -> str:

@@ -9,16 +9,31 @@ from __future__ import annotations
 
 import shutil
 import subprocess
+from dataclasses import replace
 from pathlib import Path
 
 import pytest
 from render_builders import FakeAnalysis, lp_derivation, svm_analysis, svm_derivation
 
+from dualize.model import expr as ir
 from dualize.render.latex import render_latex
 
 pytestmark = pytest.mark.skipif(shutil.which("pdflatex") is None, reason="pdflatex missing")
 
+UNUSUAL = "Café ∂f/∂x ≈ ∑ł — “quoted” … xₖ ⟨a, b⟩ ⊆ ℕ, 50% of $5 & #3 ~ ^ \\ {}"
+
+
+def unusual_characters() -> str:
+    """Sentences and names with characters outside ASCII and outside our tables."""
+    derivation = svm_derivation()
+    problem = replace(derivation.problem, title=UNUSUAL,
+                      objective=ir.Symbol("é", "variable", ir.SCALAR))
+    return render_latex(replace(derivation, problem=problem, notes=(UNUSUAL,)),
+                        FakeAnalysis(None, (UNUSUAL,)), standalone=True)
+
+
 DOCUMENTS = {
+    "unusual_characters": unusual_characters,
     "svm": lambda: render_latex(svm_derivation(), svm_analysis(), standalone=True),
     "lp_inner": lambda: render_latex(lp_derivation(inner=True, domain="nonneg"),
                                      FakeAnalysis(None, ("x ⪰ 0 & 50% _odd_ #chars",)),
