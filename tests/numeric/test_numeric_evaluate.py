@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 import sympy
-from handbuilt import m, n, num, shape
+from numeric_handbuilt import m, n, num, shape
 
 from dualize.model import expr as ir
 from dualize.numeric.evaluate import evaluate, size_of

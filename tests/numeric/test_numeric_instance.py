@@ -12,7 +12,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from handbuilt import data, least_norm, m, n, problem, small_sdp, standard_lp, var
+from numeric_handbuilt import data, least_norm, m, n, problem, small_sdp, standard_lp, var
 
 from dualize.errors import DualizeError
 from dualize.model import expr as ir

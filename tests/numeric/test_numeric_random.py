@@ -12,7 +12,7 @@ from dataclasses import replace
 import cvxpy as cp
 import numpy as np
 import pytest
-from handbuilt import (
+from numeric_handbuilt import (
     con,
     data,
     inequality_lp,

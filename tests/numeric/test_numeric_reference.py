@@ -8,7 +8,7 @@ from dataclasses import replace
 import numpy as np
 import pytest
 import sympy
-from handbuilt import (
+from numeric_handbuilt import (
     con,
     data,
     inequality_lp,

@@ -11,8 +11,8 @@ import cvxpy as cp
 import numpy as np
 import pytest
 import sympy
-from handbuilt import n, num, shape
-from test_evaluate import CASES, DIMS, VALUES
+from numeric_handbuilt import n, num, shape
+from test_numeric_evaluate import CASES, DIMS, VALUES
 
 from dualize.model import expr as ir
 from dualize.numeric.evaluate import evaluate

@@ -10,8 +10,8 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
-from handbuilt import con as con_
-from handbuilt import (
+from numeric_handbuilt import con as con_
+from numeric_handbuilt import (
     inequality_lp,
     least_norm,
     m,
@@ -22,7 +22,7 @@ from handbuilt import (
     standard_lp,
     var,
 )
-from test_reference import bounded_lp_instance
+from test_numeric_reference import bounded_lp_instance
 
 from dualize.duality.result import Derivation, DualConstraint, DualProblem, DualVariable
 from dualize.model import expr as ir
@@ -151,7 +151,7 @@ def test_random_lp_made_dual_feasible_is_bounded() -> None:
 def test_verify_fails_when_nothing_is_comparable() -> None:
     # An infeasible primal (x <= -1 and x >= 1) has no finite value to compare; its dual
     # (L = x + a (x + 1) + b (1 - x): 1 + a - b = 0, g = a + b) is unbounded above.
-    from handbuilt import con
+    from numeric_handbuilt import con
 
     x = var("x")
     cons = [con("a", x.symbol, "<=", num(-1)), con("b", x.symbol, ">=", num(1))]
@@ -278,7 +278,7 @@ def sdp_dual(p: Problem) -> DualProblem:
 
 
 def test_sdp_random_instances_made_bounded_and_zero_gap() -> None:
-    from handbuilt import small_sdp
+    from numeric_handbuilt import small_sdp
 
     from dualize.numeric.dual_data import dual_targets, make_dual_feasible
     from dualize.numeric.instance import set_violation
