@@ -35,6 +35,7 @@ _SET_BASE: dict[str, tuple[str, str]] = {
     "binary": ("{0,1}", ""), "symmetric": ("𝕊", ""), "psd": ("𝕊", "_+"), "pd": ("𝕊", "_++"),
 }
 INDENT = "  "
+WIDTH = 96
 
 
 def paint(text: str, style: str, color: bool) -> str:
@@ -131,15 +132,35 @@ def equation_rows(lines: tuple[Line, ...]) -> list[str]:
             for line in lines]
 
 
-def _verdict_rows(view: DocumentView, color: bool) -> list[str]:
+def wrap(text: str, first: str = "", rest: str | None = None, width: int = WIDTH) -> list[str]:
+    """Prose broken into lines of at most ``width`` columns (formulas are never broken)."""
+    import textwrap
+
+    rest = " " * len(first) if rest is None else rest
+    return textwrap.wrap(text, width=width, initial_indent=first, subsequent_indent=rest,
+                         break_long_words=False, break_on_hyphens=False) or [first.rstrip()]
+
+
+def _labelled(label: str, text: str, style: str | None, color: bool) -> list[str]:
+    """``label`` in a 16-column margin, ``text`` wrapped beside it and painted line by line."""
+    lines = wrap(text, width=WIDTH - 16 - len(INDENT))
+    margin = [label.ljust(16)] + [" " * 16] * (len(lines) - 1)
+    return [m + (paint(line, style, color) if style else line) for m, line in zip(
+        margin, lines, strict=True)]
+
+
+_CONVEXITY_STYLE = {True: "guaranteed", False: "not-guaranteed", None: "unknown"}
+
+
+def _verdict_rows(view: DocumentView, convex: bool | None, color: bool) -> list[str]:
     if view.verdict is None:
         return []
     verdict = view.verdict
-    rows = [f"convexity       {verdict.convexity}",
-            f"strong duality  {paint(verdict.strong_duality, verdict.status, color)}"]
+    rows = _labelled("convexity", verdict.convexity, _CONVEXITY_STYLE[convex], color)
+    rows += _labelled("strong duality", verdict.strong_duality, verdict.status, color)
     if verdict.witness:
         points = ", ".join(f"{w.lhs} = {w.rhs}" for w in verdict.witness)
-        rows.append(f"                witness: {points}")
+        rows += _labelled("", f"witness: {points}", None, color)
     return rows
 
 
@@ -147,39 +168,44 @@ def _diagnostic_rows(view: DocumentView, color: bool) -> list[str]:
     rows = []
     for d in view.diagnostics:
         severity = paint(d.severity, d.severity, color)
-        rows.append(f"{d.location}: {severity} [{d.rule}] {d.message}")
+        rows.append(f"{d.location}: {severity} [{d.rule}]")
+        rows += wrap(d.message, INDENT, width=WIDTH - len(INDENT))
         if d.hint:
-            rows.append(f"{INDENT}hint: {d.hint}")
+            rows += wrap(f"hint: {d.hint}", INDENT, width=WIDTH - len(INDENT))
     return rows
 
 
-def _context(view: DocumentView, color: bool) -> dict[str, Any]:
+def _context(view: DocumentView, convex: bool | None, color: bool) -> dict[str, Any]:
     return {
         "title": paint(view.title, "heading", color),
         "file": view.file,
         "heading": lambda text: paint(text, "heading", color),
-        "verdicts": _verdict_rows(view, color),
+        "verdicts": _verdict_rows(view, convex, color),
         "diagnostics": _diagnostic_rows(view, color),
         "primal": problem_rows(view.primal),
         "lagrangian": equation_rows((view.lagrangian,)) if view.lagrangian else [],
-        "steps": [{"text": s.text, "rows": equation_rows(s.lines)} for s in view.steps],
+        "steps": [{"text": wrap(s.text, f"{i}. ", width=WIDTH - len(INDENT)),
+                   "rows": equation_rows(s.lines)} for i, s in enumerate(view.steps, 1)],
         "dual": [] if view.dual.unbounded else problem_rows(view.dual),
         "unbounded": unbounded_sentence(view.dual, "-∞", "+∞"),
         "kkt": [{"group": k.group, "rows": equation_rows(k.lines)} for k in view.kkt],
-        "recovery": [_recovery_row(r.variable, r.formula, r.note) for r in view.recovery],
-        "notes": view.notes,
+        "recovery": [line for r in view.recovery
+                     for line in _recovery_rows(r.variable, r.formula, r.note)],
+        "notes": [line for note in view.notes for line in wrap(note, width=WIDTH - 2)],
     }
 
 
-def _recovery_row(variable: str, formula: str | None, note: str) -> str:
+def _recovery_rows(variable: str, formula: str | None, note: str) -> list[str]:
     if formula is None:
-        return f"{variable}: {note}" if note else f"{variable}: not determined"
-    return f"{variable} = {formula}" + (f"   ({note})" if note else "")
+        return wrap(note or "not determined", f"{variable}: ", width=WIDTH - len(INDENT))
+    rows = [f"{variable} = {formula}"]
+    return rows + (wrap(note, INDENT, width=WIDTH - len(INDENT)) if note else [])
 
 
 def render_text(derivation: Derivation, analysis: Analysis | None = None,
                 color: bool = False) -> str:
     """The whole derivation as Unicode text; ANSI colour only when ``color`` is True."""
     view = build_view(derivation, analysis, TextFormatter())
-    return fill("derivation.txt.j2", indent=INDENT, **_context(view, color))
+    convex = None if analysis is None else analysis.convex
+    return fill("derivation.txt.j2", indent=INDENT, **_context(view, convex, color))
 
