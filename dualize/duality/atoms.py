@@ -70,15 +70,23 @@ def recognise(term: Term, variables: frozenset[str]) -> Atom | None:
         return None
     coef_parts = [s for s in term.scalars if s is not dependent[0]]
     coef = rebuild([Term(term.coef, tuple(coef_parts), ())], dependent[0].shape)
-    if _sign(coef) != "pos":
-        return _separable(coef, dependent[0], variables)
-    return _shaped(coef, dependent[0]) or _separable(coef, dependent[0], variables)
+    sign = _sign(coef)
+    shaped = _shaped(coef, dependent[0]) if sign is not None else None
+    if shaped is not None and (sign == "pos" or shaped.kind in _INDICATOR_KINDS):
+        return shaped
+    return _separable(coef, dependent[0], variables)
+
+
+# Building blocks whose conjugate is an indicator: c phi with c >= 0 (c = 0 included).
+_INDICATOR_KINDS = ("norm", "abs", "hinge")
 
 
 def _sign(coef: Expr) -> str | None:
     value = to_sympy(coef, Scope())
     if value.is_positive:
         return "pos"
+    if value.is_nonnegative:
+        return "nonneg"
     return None
 
 

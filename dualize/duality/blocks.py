@@ -172,6 +172,9 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
         return Outcome(r, constraints, Recovery(x.name, None, f"{x.name} lies in the null space "
                        "of the Hessian at the optimal multipliers"), [Step(
                            "minimize-quadratic-semidefinite", text, block=x.name)])
+    h = _identity_multiple(H)
+    if h is not None and not H.shape.is_scalar:
+        return _scaled_identity(x, h, g, r, psd_known)
     if H.shape.is_scalar:
         value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)),
                                       Divide(b.power(g, sympy.Integer(2)), H))))
@@ -185,6 +188,31 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
         return Outcome(value, constraints, Recovery(x.name, xstar), [Step(
             "minimize-quadratic-scalar", text, (Equation(x, "=", xstar),), block=x.name)])
     return _schur(x, H, g, r)
+
+
+def _identity_multiple(H: Expr) -> Expr | None:
+    """h when H = h I for a scalar h."""
+    from dualize.duality.normal import Term, expand, rebuild
+    from dualize.model.expr import Identity
+
+    terms = expand(H)
+    if not terms or any(t.chain != (Identity(H.shape.rows),) for t in terms):
+        return None
+    return rebuild([Term(t.coef, t.scalars, ()) for t in terms], b.SCALAR)
+
+
+def _scaled_identity(x: Symbol, h: Expr, g: Expr, r: Expr, psd_known: bool) -> Outcome:
+    """H = h I with h depending on the multipliers: for h > 0 the minimizer is -g/h
+    and the infimum r - g'g/(2h); the dual keeps the closure h >= 0."""
+    value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)), Divide(b.inner(g, g), h))))
+    constraints = [] if psd_known else [zero_constraint(b.neg(h), "<=",
+                                                        "the quadratic must be convex")]
+    xstar = tidy(b.neg(b.scale(b.power(h, sympy.Integer(-1)), g)))
+    text = (f"The Lagrangian is a quadratic in {x.name} with Hessian a multiple h of the "
+            "identity that depends on the multipliers; where h > 0 the minimizer is -g/h and "
+            "the infimum r - g'g/(2h) (the dual keeps the closure h >= 0).")
+    return Outcome(value, constraints, Recovery(x.name, xstar), [Step(
+        "minimize-quadratic-scaled-identity", text, (Equation(x, "=", xstar),), block=x.name)])
 
 
 def _kind_text(kind: str) -> str:

@@ -209,9 +209,7 @@ def transpose(e: Expr) -> Expr:
     if isinstance(e, Inverse):
         inner = transpose(e.arg)
         return e if inner == e.arg else Inverse(inner)
-    if isinstance(e, Hadamard):
-        return Hadamard(transpose(e.left), transpose(e.right))
-    if isinstance(e, Apply | Power) and is_symmetric(e):
+    if isinstance(e, Apply | Power | Hadamard) and is_symmetric(e):
         return e
     return Transpose(e)
 
@@ -230,6 +228,8 @@ def is_symmetric(e: Expr) -> bool:
         return is_symmetric(e.arg)
     if isinstance(e, Apply | Power):
         return is_symmetric(e.arg if isinstance(e, Apply) else e.base)
+    if isinstance(e, Hadamard):
+        return is_symmetric(e.left) and is_symmetric(e.right)
     if isinstance(e, Broadcast):
         return e.shape.is_square
     if isinstance(e, MatMul):

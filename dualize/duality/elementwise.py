@@ -140,11 +140,16 @@ def _divide(node: Divide, target: _Target) -> sympy.Expr:
     right = node.right
     scalar_right = right.shape.is_scalar and not node.left.shape.is_scalar
     denominator = _constant(right, target) if scalar_right else _to_sympy(right, target)
+    if denominator == 0:
+        raise _NotElementwise("division by zero")
     return _to_sympy(node.left, target) / denominator
 
 
 def _power(node: Power, target: _Target) -> sympy.Expr:
-    return _to_sympy(node.base, target) ** sympy.Rational(node.exponent)
+    base, exponent = _to_sympy(node.base, target), sympy.Rational(node.exponent)
+    if base == 0 and exponent < 0:
+        raise _NotElementwise("a negative power of zero")
+    return base**exponent
 
 
 _FUNCTIONS: dict[str, Callable[[sympy.Expr], sympy.Expr]] = {

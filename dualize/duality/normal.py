@@ -112,8 +112,15 @@ def _is_compact_form(e: MatMul) -> bool:
     if not any(isinstance(x, Add) for x in f):
         return False
     n = len(f)
-    return all(b.transpose(f[i]) == f[n - 1 - i] for i in range(n // 2)) and (
+    return all(_same_sum(b.transpose(f[i]), f[n - 1 - i]) for i in range(n // 2)) and (
         n % 2 == 0 or b.is_symmetric(f[n // 2]))
+
+
+def _same_sum(a: Expr, c: Expr) -> bool:
+    """Equal as sums, whatever the order of the terms."""
+    if isinstance(a, Add) and isinstance(c, Add):
+        return sorted(map(node_key, a.terms)) == sorted(map(node_key, c.terms))
+    return a == c
 
 
 def _expand(e: Expr) -> list[Term]:

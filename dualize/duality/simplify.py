@@ -110,26 +110,40 @@ def _without(dual: DualProblem, name: str, index: int, new: DualConstraint | Non
 
 
 def _substitute_auxiliary(dual: DualProblem):  # type: ignore[no-untyped-def]
+    """y = value from an equation +-y + rest = 0: an auxiliary multiplier always, any
+    other free or nonnegative multiplier when the value involves no multiplier."""
     for i, c in enumerate(dual.constraints):
         if c.relation != "=" or not b.is_zero(c.rhs):
             continue
         terms = expand(c.lhs)
         for v in dual.variables:
-            if v.set != "free" or not v.origin.startswith("auxiliary"):
-                continue
-            if v.symbol.shape != c.lhs.shape:
+            if v.symbol.shape != c.lhs.shape or v.set not in ("free", "nonneg"):
                 continue
             hit = _lone_term(terms, v.symbol)
             if hit is None:
                 continue
             k, coef = hit
             rest = rebuild(terms[:k] + terms[k + 1 :], c.lhs.shape)
+            auxiliary = v.set == "free" and v.origin.startswith("auxiliary")
+            if not auxiliary and any(w.name != v.name and depends_on(rest, {w.name})
+                                     for w in dual.variables):
+                continue
             value = tidy(b.scale(b.num(-coef), rest))
-            dual = _without(dual, v.name, i, None)
+            keep = None
+            if v.set == "nonneg" and not _positive_number(value):
+                keep = DualConstraint(value, ">=", b.zeros(value.shape),  # type: ignore[arg-type]
+                                      f"the multiplier {v.name} is nonnegative", c.label)
+            dual = _without(dual, v.name, i, keep)
             dual = _substitute(dual, v.symbol, value)
             text = f"The equation determines {v.name}; substituting it leaves the others."
             return dual, Step("substitute-multiplier", text, (Equation(v.symbol, "=", value),))
     return None
+
+
+def _positive_number(e: Expr) -> bool:
+    from dualize.model.expr import Number
+
+    return isinstance(e, Number) and e.value > 0
 
 
 def _substitute(dual: DualProblem, y: Symbol, value: Expr) -> DualProblem:
