@@ -241,7 +241,7 @@ def independent_sup(phi, s: float, bracket: tuple[float, float]) -> float:  # no
 
 
 NUMPY_PHI = {
-    "negative entropy": (lambda t: t * math.log(t), (1e-12, 60.0)),
+    "negative entropy": (lambda t: t * math.log(t), (1e-12, 1e3)),
     "negative log": (lambda t: -math.log(t), (1e-9, 1e4)),
     "exponential": (math.exp, (-60.0, 30.0)),
     "half square": (lambda t: t * t / 2, (-1e3, 1e3)),
