@@ -6,6 +6,7 @@ Inside ``$$`` only what MathJax and KaTeX both read is used (``aligned``, not
 
 from __future__ import annotations
 
+import re
 from typing import Any
 
 from dualize.duality.result import Derivation
@@ -47,8 +48,16 @@ class MarkdownFormatter(LatexFormatter):
 
 
 def display(body: str) -> str:
-    """One display formula as its own ``$$`` block."""
-    return f"$$\n{body}\n$$"
+    """One display formula as its own ``$$`` block, safe from Markdown's block syntax."""
+    return "$$\n" + "\n".join(_guard(line) for line in body.splitlines()) + "\n$$"
+
+
+_BLOCK_MARKER = re.compile(r"^(?:[-+*#>=]|\d+[.)])")
+
+
+def _guard(line: str) -> str:
+    """A math line that Markdown would read as a list item or heading gets an empty group."""
+    return "{}" + line if _BLOCK_MARKER.match(line) else line
 
 
 def aligned(lines: tuple[Line, ...]) -> str:
