@@ -40,11 +40,13 @@ def hessian_curvature(node: E.Expr, signs: Mapping[str, Sign]) -> Curvature:
     spec = {v.name: (v.shape, signs.get(v.name)) for v in E.symbols_of(node, "variable")}
     try:
         unknowns = unknowns_for(spec)
+        if len(unknowns.flat()) > MAX_UNKNOWNS:
+            return "unknown"
         entries = list(to_sympy(node, unknowns))
     except (NotScalarizable, ValueError, TypeError, ZeroDivisionError):
         return "unknown"
     xs = unknowns.flat()
-    if len(xs) > MAX_UNKNOWNS or any(e.has(sympy.Abs, sympy.Max, sympy.Min) for e in entries):
+    if any(e.has(sympy.Abs, sympy.Max, sympy.Min) for e in entries):
         return "unknown"
     return _join([_entry_curvature(e, xs) for e in entries])
 

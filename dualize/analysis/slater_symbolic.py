@@ -40,13 +40,13 @@ def scalar_search(problem: Problem, conv: Convexity) -> Verdict | None:
     try:
         u = unknowns_for({v.name: (v.symbol.shape, signs.get(v.name))
                           for v in problem.variables})
+        if len(u.flat()) > MAX_SEARCH_UNKNOWNS:
+            return None
         rows = [(c, list(to_sympy(c.function, u))) for c in problem.constraints]
         bounds = _box_rows(problem, u, to_sympy)
     except (NotScalarizable, ValueError, TypeError, ZeroDivisionError):
         return None
     xs = u.flat()
-    if len(xs) > MAX_SEARCH_UNKNOWNS:
-        return None
     strict = _strict(conv)
     empty = _proved_empty(rows, strict)
     if empty is not None:
