@@ -120,3 +120,22 @@ def test_notebook_representations() -> None:
     markdown = repr_markdown(svm_derivation())
     assert markdown.startswith("# Soft-margin separating hyperplane")
     assert "Verdicts" not in markdown
+
+
+def test_markdown_guards_math_lines_from_block_syntax() -> None:
+    # CommonMark 0.30, sections 5.2 and 4.2 (from memory): a line opening with "- " or
+    # "1. " starts a list item, one opening with "#" a heading.
+    from dualize.render.markdown import display
+
+    shown = display("\\begin{aligned}\n-x &= 0 \\\\\n# &= 1\n\\end{aligned}")
+    assert shown.splitlines()[2:4] == ["{}-x &= 0 \\\\", "{}# &= 1"]
+
+
+def test_text_prose_is_wrapped_to_the_terminal_width() -> None:
+    from dualize.render.text import WIDTH
+
+    long_reason = " ".join(["every constraint is affine"] * 12)
+    analysis = FakeAnalysis(True, (long_reason,), "guaranteed", long_reason)
+    out = render_text(svm_derivation(), analysis)
+    verdicts = out.split("Problem")[0].splitlines()
+    assert len(verdicts) > 6 and max(len(line) for line in verdicts) <= WIDTH
