@@ -81,7 +81,8 @@ def load_claim(primal: Problem, text: str, path: str = "<claim>") -> Claim:
     if loaded.problem is None:
         errors = tuple(d for d in loaded.diagnostics if d.severity == "error")
         note = " (with the primal's data lines inserted)" if borrowed else ""
-        raise ClaimError(f"{path}: the claim has errors{note}", errors, source)
+        first = f": {errors[0].message}" if errors else ""
+        raise ClaimError(f"{path}: the claim has errors{note}{first}", errors, source)
     claim = loaded.problem
     check_fits(primal, claim, path)
     return Claim(claim, source, borrowed)
