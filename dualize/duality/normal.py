@@ -215,6 +215,9 @@ def _diag(e: Diag) -> list[Term]:
 
 
 def _hadamard(e: Hadamard) -> list[Term]:
+    entropy = _entropy_form(e)
+    if entropy is not None:
+        return [Term(sympy.Integer(1), (), (entropy,))]
     if e.shape.cols != 1:
         return [_atom(_sorted_pair(Hadamard, tidy(e.left), tidy(e.right)))]
     out: list[Term] = []
@@ -222,6 +225,14 @@ def _hadamard(e: Hadamard) -> list[Term]:
         for tr in _expand(e.right):
             out.extend(_hadamard_terms(tl, tr, e))
     return out
+
+
+def _entropy_form(e: Hadamard) -> Expr | None:
+    """a .* f(a) stays whole (it is one building block, e.g. the entropy a .* log(a))."""
+    for a, f in ((e.left, e.right), (e.right, e.left)):
+        if isinstance(f, Apply) and tidy(a) == tidy(f.arg):
+            return Hadamard(tidy(a), Apply(f.func, tidy(f.arg)))
+    return None
 
 
 def _hadamard_terms(tl: Term, tr: Term, e: Hadamard) -> list[Term]:
