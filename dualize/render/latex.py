@@ -194,7 +194,9 @@ def render_latex(derivation: Derivation, analysis: Analysis | None = None,
                  standalone: bool = False) -> str:
     """The whole derivation in LaTeX; ``standalone`` wraps it in a compilable article."""
     view = build_view(derivation, analysis, LatexFormatter())
-    return fill("derivation.tex.j2", standalone=standalone, **_context(view))
+    comment = f"Lagrange dual of {derivation.problem.path}; needs amsmath and amssymb."
+    return fill("derivation.tex.j2", standalone=standalone, comment=comment,
+                **_context(view))
 
 
 def repr_latex(derivation: Derivation) -> str:
