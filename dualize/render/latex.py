@@ -125,7 +125,9 @@ class LatexFormatter:
 def problem_block(view: ProblemView) -> str:
     """``\\begin{aligned} \\underset{x}{\\text{minimize}} \\quad & f \\\\ ... \\end{aligned}``."""
     over = r",\, ".join(view.over)
-    rows = [rf"\underset{{{over}}}{{\text{{{view.sense}}}}} \quad & {_objective(view)}"]
+    sense = rf"\text{{{view.sense}}}"
+    lead = rf"\underset{{{over}}}{{{sense}}}" if over else sense
+    rows = [rf"{lead} \quad & {_objective(view)}"]
     for index, line in enumerate(view.lines):
         lead = r"\text{subject to} \quad " if index == 0 else ""
         rows.append(f"{lead}& {_relation_row(line)}{_tag(line)}")

@@ -110,14 +110,14 @@ def problem_rows(view: ProblemView) -> list[str]:
     objective = view.objective
     if view.inner:
         objective = f"{view.inner_op} over {', '.join(view.inner)} of ({objective})"
-    rows = [("minimize" if view.sense == "minimize" else "maximize", objective, ""),
-            ("over", ", ".join(view.over), "")]
+    rows = [("minimize" if view.sense == "minimize" else "maximize", objective, "")]
+    rows.append(("over", ", ".join(view.over), "") if view.over else ("", "", ""))
     for index, line in enumerate(view.lines):
         tag = f"({line.tag})" if line.tag else (f"({line.note})" if line.note else "")
         rows.append(("subject to" if index == 0 else "", relation_text(line), tag))
     width = max(len(r[1]) for r in rows[2:]) if len(rows) > 2 else 0
     return [f"{label:<12}{body.ljust(width) if tag else body}{'   ' + tag if tag else ''}"
-            for label, body, tag in rows]
+            for label, body, tag in rows if label or body]
 
 
 def relation_text(line: Line) -> str:
