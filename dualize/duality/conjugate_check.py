@@ -89,11 +89,21 @@ def interior_points(lo: float, hi: float) -> list[float]:
     return [-3.0, -1.2, -0.3, 0.4, 1.1, 2.7]
 
 
+def sample_points(lo: float, hi: float) -> list[float]:
+    """Interior points plus -1, 0 and 1 where they lie inside (lo, hi).
+
+    A formula such as (sqrt(s^2 + 1) - 1) / s is 0/0 at s = 0 although the
+    conjugate is finite there; the landmarks catch such removable singularities.
+    """
+    landmarks = [p for p in (-1.0, 0.0, 1.0) if lo < p < hi]
+    return sorted(set(interior_points(lo, hi) + landmarks))
+
+
 def set_points(domain: sympy.Set) -> list[float]:
     """Sample points of a domain of s: a single point or the interior of an interval."""
     if isinstance(domain, sympy.FiniteSet):
         return [constant(p) for p in sorted(domain.args, key=str)]
-    return interior_points(constant(domain.inf), constant(domain.sup))
+    return sample_points(constant(domain.inf), constant(domain.sup))
 
 
 def close(a: float, b: float) -> bool:

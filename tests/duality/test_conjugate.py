@@ -45,6 +45,7 @@ CASES: dict[str, tuple[sympy.Expr, sympy.Interval]] = {
     "negative square root": (-sympy.sqrt(T), NONNEG),
     "quartic": (T**4 / 4, REALS),
     "half square on a box": (T**2 / 2, sympy.Interval(0, C)),
+    "barrier of (-1, 1)": (-sympy.log(1 - T**2), sympy.Interval.open(-1, 1)),
 }
 
 
@@ -172,6 +173,20 @@ def test_half_square_on_a_box() -> None:
         assert float(conj.value.subs({C: sympy.Rational(3, 2), S: s})) == pytest.approx(expected)
 
 
+# Common practice (derived by hand): sup over -1 < t < 1 of s t + log(1 - t^2) is 0 at
+# s = 0 (t = 0).  The Legendre formula sympy first finds is 0/0 there; the returned
+# one must be defined at s = 0 and agree with the numeric supremum on both sides.
+def test_barrier_conjugate_is_defined_at_zero() -> None:
+    _, _, conj = derived("barrier of (-1, 1)")
+    assert conj.domain == REALS
+    assert conj.value.subs(S, 0) == 0
+    assert conj.maximizer.subs(S, 0) == 0
+    phi = NUMPY_PHI["barrier of (-1, 1)"][0]
+    for s in (-5.0, -0.1, 0.1, 2.0):
+        expected = independent_sup(phi, s, (-1 + 1e-12, 1 - 1e-12))
+        assert float(conj.value.subs(S, s)) == pytest.approx(expected, rel=1e-6)
+
+
 def test_scaled_conjugate_needs_positive_scale() -> None:
     with pytest.raises(ValueError):
         scaled_conjugate(derived("exponential")[2], sympy.Symbol("a", real=True))
@@ -251,6 +266,7 @@ NUMPY_PHI = {
     "reciprocal": (lambda t: 1 / t, (1e-6, 1e6)),
     "negative square root": (lambda t: -math.sqrt(t), (0.0, 1e6)),
     "quartic": (lambda t: t**4 / 4, (-1e2, 1e2)),
+    "barrier of (-1, 1)": (lambda t: -math.log1p(-t * t), (-1 + 1e-12, 1 - 1e-12)),
 }
 
 
