@@ -1,0 +1,355 @@
+"""Generate a standalone Python module that solves a derived dual on user data.
+
+``render_solver(derivation)`` prints every numeric function of the module from
+the symbolic results (objective, gradient, constraint Jacobians, recovery
+formulas, the primal objective and constraints) with our numpy printer, and a
+jinja2 template arranges those strings around a fixed runtime (input
+checking, the solver calls, the report).  The module needs only numpy and
+scipy, reads data by string key and pastes no user text except validated
+identifiers.
+"""
+
+from __future__ import annotations
+
+import json
+from dataclasses import dataclass
+
+from dualize.duality.result import Derivation
+from dualize.errors import DualizeError
+from dualize.model import expr as ir
+from dualize.render.calculus import NotDifferentiable, jacobian
+from dualize.render.ir_rewrite import length, normalize
+from dualize.render.python_code import Constants, NumpyPrinter, bare, python_names
+from dualize.render.solver_plan import Plan, is_conic, make_plan
+from dualize.render.solver_text import docstring
+
+
+@dataclass(frozen=True)
+class Scope:
+    """Where each identifier of a generated function comes from."""
+
+    names: dict[str, str]
+    data: frozenset[str]
+    dual: tuple[str, ...]
+    primal: tuple[str, ...]
+
+
+def render_solver(derivation: Derivation) -> str:
+    """The source of a solver module for ``derivation``'s dual (see the module doc)."""
+    dual = derivation.dual
+    if dual.unbounded:
+        raise DualizeError("cannot generate a solver: the dual function is unbounded", 2)
+    if not dual.closed_form:
+        inner = ", ".join(v.name for v in dual.inner)
+        raise DualizeError(
+            "cannot generate a solver: the dual has no closed form (the Lagrangian is "
+            f"still minimized over {inner})", 2
+        )
+    scope = _scope(derivation)
+    if is_conic(dual):
+        return _render_conic(derivation, scope)
+    plan = make_plan(dual)
+    return _render(derivation, plan, scope)
+
+
+def _scope(derivation: Derivation) -> Scope:
+    problem = derivation.problem
+    data = [d.name for d in problem.data] + [str(s) for s in problem.dims]
+    dual = [v.name for v in derivation.dual.variables]
+    primal = [v.name for v in problem.variables]
+    names = python_names(data + dual + primal)
+    return Scope(names, frozenset(data), tuple(dual), tuple(primal))
+
+
+class _Emitter:
+    """Prints function bodies and the lines that bind the identifiers they read."""
+
+    def __init__(self, scope: Scope) -> None:
+        self.scope = scope
+        self.constants = Constants()
+
+    def code(self, expr: ir.Expr) -> tuple[str, set[str]]:
+        printer = NumpyPrinter({"names": self.scope.names, "constants": self.constants})
+        return bare(printer.code(normalize(expr))), printer.used
+
+    def size(self, value: object) -> tuple[str, set[str]]:
+        printer = NumpyPrinter({"names": self.scope.names, "constants": self.constants})
+        return printer.size(value), printer.used  # type: ignore[arg-type]
+
+    def bindings(self, used: set[str]) -> list[str]:
+        """``X = d["X"]`` lines for data, dimensions and constants; dual and primal parts."""
+        lines = []
+        by_ident = {ident: name for name, ident in self.scope.names.items()}
+        for ident in sorted(used):
+            name = by_ident.get(ident, ident)
+            if ident.startswith("_k") or name in self.scope.data:
+                lines.append(f"{ident} = d[{json.dumps(name)}]")
+            elif name in self.scope.dual:
+                lines.append(f"{ident} = _parts[{self.scope.dual.index(name)}]")
+            elif name in self.scope.primal:
+                lines.append(f"{ident} = x[{json.dumps(name)}]")
+        if any(by_ident.get(i) in self.scope.dual for i in used):
+            lines.insert(0, "_parts = _split(z, d)")
+        return lines
+
+
+def _function(emitter: _Emitter, head: str, body: list[str], used: set[str]) -> str:
+    lines = [head, *(f"    {line}" for line in emitter.bindings(used) + body)]
+    return "\n".join(lines)
+
+
+def _sizes(emitter: _Emitter, symbols: list[ir.Symbol], head: str) -> str:
+    parts, used = [], set()
+    for symbol in symbols:
+        code, reads = emitter.size(length(symbol.shape))
+        parts.append(code)
+        used |= reads
+    return _function(emitter, head, [f"return [{', '.join(parts)}]"], used)
+
+
+def _objective(emitter: _Emitter, plan: Plan) -> str:
+    code, used = emitter.code(plan.objective)
+    return _function(emitter, "def _objective(z, d):", [f"return float({code})"], used)
+
+
+def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    pieces, used = [], set()
+    for grad, symbol in zip(plan.gradients, symbols, strict=True):
+        code, reads = emitter.code(grad)
+        size, sreads = emitter.size(length(symbol.shape))
+        pieces.append(f"_flat({code}, {size})")
+        used |= reads | sreads
+    body = [f"return np.concatenate([{', '.join(pieces)}])"]
+    return _function(emitter, "def _gradient(z, d):", body, used)
+
+
+def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    body, used = ["sizes = _dual_sizes(d)", "lo = [np.full(s, -np.inf) for s in sizes]",
+                  "hi = [np.full(s, np.inf) for s in sizes]"], set()
+    index = {s.name: i for i, s in enumerate(symbols)}
+    for bound in plan.bounds:
+        code, reads = emitter.code(bound.value)
+        used |= reads
+        i = index[bound.variable]
+        pick = "np.maximum" if bound.side == "lo" else "np.minimum"
+        body.append(f"{bound.side}[{i}] = {pick}({bound.side}[{i}], {code})")
+    body.append("return np.concatenate(lo), np.concatenate(hi)")
+    return _function(emitter, "def _bounds(d):", body, used)
+
+
+def _constraints(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    """``_constraints(z, d)``: a list of (relation, values, Jacobian) for the general ones."""
+    body, used = ["out = []"], set()
+    for general in plan.constraints:
+        value, reads = emitter.code(general.function)
+        rows, rreads = emitter.size(length(general.function.shape))
+        used |= reads | rreads
+        blocks = []
+        for jac, symbol in zip(general.jacobians, symbols, strict=True):
+            code, jreads = emitter.code(jac)
+            cols, creads = emitter.size(length(symbol.shape))
+            used |= jreads | creads
+            blocks.append(f"_block({code}, {rows}, {cols})")
+        body.append(
+            f"out.append(({general.relation!r}, _flat({value}, {rows}), "
+            f"np.hstack([{', '.join(blocks)}])))"
+        )
+    body.append("return out")
+    return _function(emitter, "def _constraints(z, d):", body, used)
+
+
+def _recovery(emitter: _Emitter, derivation: Derivation) -> tuple[str, dict[str, str]]:
+    """``_recover(z, d)`` for the variables with a formula; the notes of the others."""
+    body, used, missing = ["x = {}"], set(), {}
+    for rec in derivation.recovery:
+        if rec.formula is None:
+            missing[rec.variable] = rec.note or "the Lagrangian does not determine it"
+            continue
+        code, reads = emitter.code(rec.formula)
+        used |= reads
+        body.append(f"x[{json.dumps(rec.variable)}] = {code}")
+    for var in derivation.problem.variables:
+        if var.name not in {r.variable for r in derivation.recovery}:
+            missing[var.name] = "the derivation gives no recovery for it"
+    body.append("return x")
+    return _function(emitter, "def _recover(z, d):", body, used), missing
+
+
+def _primal_parts(emitter: _Emitter, derivation: Derivation) -> str:
+    """``_primal(x, d)``: the primal objective and each constraint function, flattened."""
+    problem = derivation.problem
+    code, used = emitter.code(problem.objective)
+    body = [f"value = float({code})", "parts = []"]
+    for constraint in problem.constraints:
+        fcode, reads = emitter.code(constraint.function)
+        used |= reads
+        body.append(f"parts.append(({constraint.kind!r}, np.asarray({fcode}, dtype=float)))")
+    body.append("return value, parts")
+    return _function(emitter, "def _primal(x, d):", body, used)
+
+
+def _restricted(emitter: _Emitter, derivation: Derivation, missing: dict[str, str]) -> str:
+    """``_restricted(x, d)``: the primal as an LP in the unrecovered variables, if it is one.
+
+    The recovered variables are held at their values; the objective and every
+    constraint must be affine in the unrecovered ones (their Jacobians free of
+    them), else the function returns the reason and they are reported as null.
+    """
+    problem = derivation.problem
+    unknown = [v for v in problem.variables if v.name in missing]
+    reason = _not_linear(derivation, [v.symbol for v in unknown])
+    if not unknown or reason:
+        text = reason or "nothing to recover"
+        return f"def _restricted(x, d):\n    return {json.dumps(text)}"
+    body, used = [], set()
+    objective = _jac_row(emitter, problem.objective, unknown, used)
+    body.append(f"c = {objective}")
+    body.append("rows = []")
+    for constraint in problem.constraints:
+        rows, rreads = emitter.size(length(constraint.function.shape))
+        used |= rreads
+        blocks = []
+        for var in unknown:
+            code, reads = emitter.code(jacobian(constraint.function, var.symbol))
+            cols, creads = emitter.size(length(var.symbol.shape))
+            used |= reads | creads
+            blocks.append(f"_block({code}, {rows}, {cols})")
+        body.append(f"rows.append(np.hstack([{', '.join(blocks)}]))")
+    body.append(f"return c, rows, {_domain_bounds(emitter, unknown, used)}")
+    return _function(emitter, "def _restricted(x, d):", body, used)
+
+
+def _jac_row(emitter: _Emitter, expr: ir.Expr, unknown: list, used: set[str]) -> str:
+    blocks = []
+    for var in unknown:
+        code, reads = emitter.code(jacobian(expr, var.symbol))
+        cols, creads = emitter.size(length(var.symbol.shape))
+        used |= reads | creads
+        blocks.append(f"_block({code}, 1, {cols})")
+    return f"np.hstack([{', '.join(blocks)}])[0]"
+
+
+def _domain_bounds(emitter: _Emitter, unknown: list, used: set[str]) -> str:
+    items = []
+    for var in unknown:
+        size, reads = emitter.size(length(var.symbol.shape))
+        used |= reads
+        lo, hi = "-np.inf", "np.inf"
+        if var.domain.kind in ("nonneg", "pos"):
+            lo = "0.0"
+        elif var.domain.kind == "box":
+            lo, lreads = emitter.code(var.domain.lo)
+            hi, hreads = emitter.code(var.domain.hi)
+            used |= lreads | hreads
+        items.append(f"({json.dumps(var.name)}, {size}, {lo}, {hi})")
+    return "[" + ", ".join(items) + "]"
+
+
+def _not_linear(derivation: Derivation, unknown: list[ir.Symbol]) -> str:
+    """Why the primal is not an LP in ``unknown`` (empty when it is)."""
+    problem = derivation.problem
+    names = {s.name for s in unknown}
+    for var in problem.variables:
+        if var.name in names and var.domain.kind not in ("free", "nonneg", "pos", "box"):
+            return f"{var.name} ranges over a {var.domain.kind} set, beyond a linear program"
+    if any(c.kind == "psd" for c in problem.constraints):
+        return "a semidefinite primal constraint is beyond a linear program"
+    exprs = [problem.objective, *(c.function for c in problem.constraints)]
+    for expr in exprs:
+        for symbol in unknown:
+            try:
+                jac = jacobian(expr, symbol)
+            except NotDifferentiable as err:
+                return f"the primal is not linear in {symbol.name} ({err})"
+            if ir.depends_on(jac, names):
+                return f"the primal is not linear in {symbol.name}"
+    return ""
+
+
+def _prepare(emitter: _Emitter) -> str:
+    """Constants are emitted last-registered last, so each sees the ones it reads."""
+    body, reads = [], set()
+    for name, code, used in emitter.constants.entries:
+        reads |= {u for u in used if not u.startswith("_k")}
+        body.append(f"{name} = {code}")
+    names = [n for n, _, _ in emitter.constants.entries]
+    body.append("return {" + ", ".join(f"{json.dumps(n)}: {n}" for n in names) + "}")
+    return _function(emitter, "def _prepare(d):", body, reads)
+
+
+def _declarations(derivation: Derivation, scope: Scope) -> str:
+    """DATA: (name, rows, cols, facts) with sizes as ints or dimension names."""
+    rows = []
+    for decl in derivation.problem.data:
+        shape = decl.symbol.shape
+        facts = sorted(decl.symbol.facts)
+        rows.append(f"    ({json.dumps(decl.name)}, {_size_spec(shape.rows)}, "
+                    f"{_size_spec(shape.cols)}, {json.dumps(facts)}),")
+    return "DATA = [\n" + "\n".join(rows) + "\n]" if rows else "DATA = []"
+
+
+def _size_spec(size: object) -> str:
+    text = str(size)
+    if text.isdigit():
+        return text
+    if text.isidentifier():
+        return json.dumps(text)
+    raise DualizeError(f"cannot generate a solver: a data size {text} is not a plain name", 2)
+
+
+def _tables(derivation: Derivation, scope: Scope) -> dict[str, str]:
+    problem = derivation.problem
+    dual = derivation.dual
+    return {
+        "declarations": _declarations(derivation, scope),
+        "dims": json.dumps(sorted(str(s) for s in problem.dims)),
+        "dual_names": json.dumps([v.name for v in dual.variables]),
+        "dual_scalar": repr([v.symbol.shape.is_scalar for v in dual.variables]),
+        "primal_names": json.dumps([v.name for v in problem.variables]),
+        "primal_scalar": repr([v.symbol.shape.is_scalar for v in problem.variables]),
+        "dual_sense": json.dumps(dual.sense),
+        "primal_sense": json.dumps(problem.sense),
+    }
+
+
+def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
+    from dualize.render.templating import fill
+
+    emitter = _Emitter(scope)
+    symbols = [v.symbol for v in derivation.dual.variables]
+    recover, missing = _recovery(emitter, derivation)
+    functions = [
+        _sizes(emitter, symbols, "def _dual_sizes(d):"),
+        _objective(emitter, plan),
+        _gradient(emitter, plan, symbols),
+        _bounds(emitter, plan, symbols),
+        _constraints(emitter, plan, symbols),
+        recover,
+        _primal_parts(emitter, derivation),
+        _restricted(emitter, derivation, missing),
+    ]
+    functions.insert(0, _prepare(emitter))
+    return fill(
+        "solver.py.j2",
+        docstring=docstring(derivation, plan.method, plan.reason, missing),
+        method=json.dumps(plan.method),
+        conic=False,
+        missing=json.dumps(dict(sorted(missing.items()))),
+        functions="\n\n\n".join(functions),
+        **_tables(derivation, scope),
+    )
+
+
+def _render_conic(derivation: Derivation, scope: Scope) -> str:
+    from dualize.render.templating import fill
+
+    reason = "the dual has a semidefinite constraint; it needs a conic solver"
+    return fill(
+        "solver.py.j2",
+        docstring=docstring(derivation, "conic", reason, {}),
+        method=json.dumps("conic"),
+        conic=True,
+        missing="{}",
+        functions="",
+        **_tables(derivation, scope),
+    )

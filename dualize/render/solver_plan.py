@@ -1,0 +1,200 @@
+"""How a dual problem will be solved: bounds, remaining constraints, the method.
+
+The method follows the dual's structure, the reason a dual is worth solving:
+a linear dual goes to an LP solver; a dual whose only constraints are bounds
+(nonnegative multipliers, boxes left by eliminated slacks) to L-BFGS-B with
+the analytic gradient; bounds plus linear equalities to a bound-constrained
+augmented Lagrangian (J. Nocedal and S. Wright, Numerical Optimization, 2nd
+ed., 2006, section 17.4) whose inner problems are again L-BFGS-B; anything
+else smooth to SLSQP with analytic Jacobians.  A semidefinite dual needs a
+conic solver, which the generated module says instead of guessing.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+import sympy
+
+from dualize.duality.result import DualConstraint, DualProblem
+from dualize.errors import DualizeError
+from dualize.model import expr as ir
+from dualize.render.calculus import NotDifferentiable, gradient, jacobian
+from dualize.render.ir_rewrite import normalize
+
+Method = Literal["linprog", "lbfgsb", "augmented", "slsqp", "conic"]
+
+
+@dataclass(frozen=True)
+class Bound:
+    """``variable >= value`` (side ``lo``) or ``variable <= value`` (side ``hi``)."""
+
+    variable: str
+    side: Literal["lo", "hi"]
+    value: ir.Expr
+
+
+@dataclass(frozen=True)
+class General:
+    """A constraint ``function <= 0`` or ``function = 0`` with its Jacobian blocks."""
+
+    function: ir.Expr
+    relation: Literal["<=", "="]
+    jacobians: tuple[ir.Expr, ...]
+    affine: bool
+
+
+@dataclass(frozen=True)
+class Plan:
+    method: Method
+    reason: str
+    objective: ir.Expr
+    gradients: tuple[ir.Expr, ...]
+    bounds: tuple[Bound, ...]
+    constraints: tuple[General, ...]
+
+
+def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
+    return tuple(v.symbol for v in dual.variables)
+
+
+def _moving(expr: ir.Expr, dual: DualProblem) -> bool:
+    return ir.depends_on(expr, {v.name for v in dual.variables})
+
+
+def is_conic(dual: DualProblem) -> bool:
+    """A semidefinite constraint or a matrix multiplier: beyond smooth solvers."""
+    if any(v.set in ("psd", "symmetric") for v in dual.variables):
+        return True
+    if any(not (v.symbol.shape.cols == 1) for v in dual.variables):
+        return True
+    return any(c.relation in ("succeq", "preceq") for c in dual.constraints)
+
+
+def make_plan(dual: DualProblem) -> Plan:
+    """The plan for a closed-form, non-conic dual; raises DualizeError when none fits."""
+    sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
+    objective = normalize(ir.Scale(sign, dual.objective))
+    variables = _multipliers(dual)
+    gradients = tuple(_differentiate(objective, v, "the dual objective") for v in variables)
+    bounds = [Bound(v.name, "lo", _zero()) for v in dual.variables if v.set == "nonneg"]
+    bounds += [Bound(v.name, "hi", _zero()) for v in dual.variables if v.set == "nonpos"]
+    general: list[General] = []
+    for constraint in dual.constraints:
+        for part in _expand(constraint):
+            bound = _as_bound(part, dual)
+            if bound:
+                bounds.extend(bound)
+            else:
+                general.append(_general(part, variables))
+    linear = not any(_moving(g, dual) for g in gradients)
+    return _choose(objective, gradients, tuple(bounds), tuple(general), linear)
+
+
+def _zero() -> ir.Expr:
+    return ir.Number(sympy.Integer(0))
+
+
+def _differentiate(expr: ir.Expr, var: ir.Symbol, what: str) -> ir.Expr:
+    try:
+        return gradient(expr, var)
+    except NotDifferentiable as err:
+        raise DualizeError(
+            f"cannot generate a solver: {what} is not smooth in {var.name} ({err}); "
+            "the generator handles smooth duals and linear programs", 2
+        ) from err
+
+
+def _expand(constraint: DualConstraint) -> list[tuple[ir.Expr, str, ir.Expr]]:
+    """Rewrite norm balls into smooth or linear pieces: ||u||_inf <= t is -t <= u <= t."""
+    lhs, rel, rhs = constraint.lhs, constraint.relation, constraint.rhs
+    if rel == "in":
+        raise DualizeError("cannot generate a solver: a set-membership constraint of the dual", 2)
+    if rel == ">=" and isinstance(rhs, ir.Norm):
+        lhs, rel, rhs = rhs, "<=", lhs
+    if rel == "<=" and isinstance(lhs, ir.Norm):
+        return _norm_ball(lhs, rhs)
+    return [(lhs, rel, rhs)]
+
+
+def _norm_ball(norm: ir.Norm, radius: ir.Expr) -> list[tuple[ir.Expr, str, ir.Expr]]:
+    arg = norm.arg
+    if norm.p == "inf":
+        wide = ir.Broadcast(radius, arg.shape)
+        return [(arg, "<=", wide), (ir.Scale(ir.Number(sympy.Integer(-1)), arg), "<=", wide)]
+    if norm.p == "2" and _known_nonneg(radius):
+        square = ir.MatMul((ir.Transpose(arg), arg))
+        return [(square, "<=", ir.Power(radius, sympy.Integer(2)))]
+    if norm.p == "2":
+        return [(norm, "<=", radius)]
+    raise DualizeError(
+        "cannot generate a solver: the dual has a 1-norm constraint, which is not smooth", 2
+    )
+
+
+def _known_nonneg(expr: ir.Expr) -> bool:
+    if isinstance(expr, ir.Number):
+        return bool(sympy.sympify(expr.value).is_nonnegative)
+    return isinstance(expr, ir.Symbol) and bool(expr.facts & {"nonneg", "pos"})
+
+
+def _as_bound(part: tuple[ir.Expr, str, ir.Expr], dual: DualProblem) -> list[Bound] | None:
+    lhs, rel, rhs = part
+    names = {v.name for v in dual.variables}
+    for var, other, side in ((lhs, rhs, rel), (rhs, lhs, _flip(rel))):
+        if isinstance(var, ir.Symbol) and var.name in names and not _moving(other, dual):
+            if not (other.shape.is_scalar or other.shape == var.shape):
+                continue
+            value = other.arg if isinstance(other, ir.Broadcast) else other
+            sides = {"<=": ["hi"], ">=": ["lo"], "=": ["lo", "hi"]}[side]
+            return [Bound(var.name, s, value) for s in sides]  # type: ignore[arg-type]
+    return None
+
+
+def _flip(rel: str) -> str:
+    return {"<=": ">=", ">=": "<=", "=": "="}[rel]
+
+
+def _general(part: tuple[ir.Expr, str, ir.Expr], variables: tuple[ir.Symbol, ...]) -> General:
+    lhs, rel, rhs = part
+    minus = ir.Number(sympy.Integer(-1))
+    if rel == ">=":
+        function = ir.Add((rhs, ir.Scale(minus, lhs)))
+    else:
+        function = ir.Add((lhs, ir.Scale(minus, rhs)))
+    function = normalize(function)
+    try:
+        jacs = tuple(jacobian(function, v) for v in variables)
+    except NotDifferentiable as err:
+        raise DualizeError(
+            f"cannot generate a solver: a dual constraint is not smooth ({err})", 2
+        ) from err
+    names = {v.name for v in variables}
+    affine = not any(ir.depends_on(j, names) for j in jacs)
+    return General(function, "=" if rel == "=" else "<=", jacs, affine)
+
+
+def _choose(
+    objective: ir.Expr,
+    gradients: tuple[ir.Expr, ...],
+    bounds: tuple[Bound, ...],
+    general: tuple[General, ...],
+    linear: bool,
+) -> Plan:
+    affine = all(g.affine for g in general)
+    if linear and affine:
+        method: Method = "linprog"
+        reason = "the dual objective and constraints are linear: a linear program (HiGHS)"
+    elif not general:
+        method = "lbfgsb"
+        reason = "the only constraints are bounds on the multipliers: L-BFGS-B with the " \
+            "analytic gradient"
+    elif affine and all(g.relation == "=" for g in general):
+        method = "augmented"
+        reason = "bounds and linear equalities: a bound-constrained augmented Lagrangian " \
+            "with L-BFGS-B inner solves"
+    else:
+        method = "slsqp"
+        reason = "general smooth constraints: SLSQP with analytic Jacobians"
+    return Plan(method, reason, objective, gradients, bounds, general)
