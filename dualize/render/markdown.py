@@ -88,7 +88,7 @@ def _verdict_rows(view: DocumentView) -> list[str]:
 def _diagnostic_rows(view: DocumentView) -> list[str]:
     rows = []
     for d in view.diagnostics:
-        hint = f" Hint: {d.hint}" if d.hint else ""
+        hint = f" (hint: {d.hint})" if d.hint else ""
         rows.append(f"- `{d.location}` **{d.severity}** `{d.rule}`: {d.message}{hint}")
     return rows
 
