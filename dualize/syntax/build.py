@@ -15,6 +15,7 @@ from lark import Token, Transformer, Tree
 from dualize.diagnostics import RuleKind
 from dualize.syntax import ast
 from dualize.syntax import rules as R
+from dualize.syntax.positions import token_span, tree_span
 from dualize.syntax.span import Span
 
 RELATIONS = {"=": "==", "==": "==", "<=": "<=", ">=": ">=", "≤": "<=", "≥": ">=",
@@ -36,18 +37,6 @@ class BuildError(Exception):
         self.kind = kind
         self.span = span
         self.values = values
-
-
-def token_span(token: Token) -> Span:
-    return Span(token.line, token.column, token.end_line, token.end_column,
-                token.start_pos, token.end_pos)
-
-
-def tree_span(tree: Tree) -> Span:
-    m = tree.meta
-    if m.empty:
-        return Span(1, 1, 1, 1, 0, 0)
-    return Span(m.line, m.column, m.end_line, m.end_column, m.start_pos, m.end_pos)
 
 
 def deepest(tree: Tree, limit: int = MAX_DEPTH) -> Tree | None:

@@ -14,6 +14,7 @@ from lark import Token, UnexpectedCharacters, UnexpectedInput
 
 from dualize.diagnostics import Diagnostic, make
 from dualize.syntax import rules as R
+from dualize.syntax.positions import span_of, token_span
 from dualize.syntax.span import Span
 
 OPERATOR_END = re.compile(r"(\.\*|\./|[-+*/^,−]|<=|>=|==|=|≤|≥|⪰|⪯)$")
@@ -46,7 +47,7 @@ def explain(err: UnexpectedInput, text: str, path: str) -> Diagnostic:
             return found
     if token is None or token.type == "$END":
         return make(R.UNEXPECTED_END, path, _point(text, pos), what=_statement_kind(text, pos))
-    return make(R.SYNTAX_ERROR, path, _token_span(token), found=_describe(token),
+    return make(R.SYNTAX_ERROR, path, token_span(token), found=_describe(token),
                 expected=_expected_text(expected))
 
 
@@ -82,7 +83,7 @@ def _dangling(text: str, pos: int, token: Token | None, path: str) -> Diagnostic
     match = OPERATOR_END.search(before)
     if match is None:
         return None
-    return make(R.DANGLING_OPERATOR, path, _span_of(text, match.start(), match.end()),
+    return make(R.DANGLING_OPERATOR, path, span_of(text, match.start(), match.end()),
                 op=match.group(0), hint="finish the expression, or remove the operator")
 
 
@@ -96,7 +97,7 @@ def _unclosed_bracket(text: str, pos: int, token: Token | None, path: str) -> Di
     if not stack or "\n" not in text[stack[-1]:pos]:
         return None
     i = stack[-1]
-    return make(R.UNCLOSED_BRACKET, path, _span_of(text, i, i + 1), bracket=text[i],
+    return make(R.UNCLOSED_BRACKET, path, span_of(text, i, i + 1), bracket=text[i],
                 hint=f"add the missing `{CLOSING[text[i]]}`")
 
 
@@ -109,7 +110,7 @@ def _unbalanced_bar(text: str, pos: int, token: Token | None, path: str) -> Diag
     for bar, places in (("||", norms), ("|", singles)):
         if len(places) % 2 == 1:
             at = line_start + places[-1]
-            return make(R.UNBALANCED_NORM, path, _span_of(text, at, at + len(bar)), bar=bar,
+            return make(R.UNBALANCED_NORM, path, span_of(text, at, at + len(bar)), bar=bar,
                         hint="write `| |e| |` with spaces for an absolute value inside another")
     return None
 
@@ -121,7 +122,7 @@ def _objective_relation(text: str, pos: int, token: Token | None,
     line_start = text.rfind("\n", 0, pos) + 1
     if not re.match(r"\s*(minimi[sz]e|maximi[sz]e)\b", text[line_start:pos]):
         return None
-    return make(R.OBJECTIVE_RELATION, path, _token_span(token), relation=str(token),
+    return make(R.OBJECTIVE_RELATION, path, token_span(token), relation=str(token),
                 hint="move the condition under `subject to`")
 
 
@@ -149,22 +150,8 @@ def _line_end(text: str, pos: int) -> int:
     return len(text) if end < 0 else end
 
 
-def _span_of(text: str, start: int, end: int) -> Span:
-    line = text.count("\n", 0, start) + 1
-    column = start - (text.rfind("\n", 0, start) + 1) + 1
-    return Span(line, column, line, column + (end - start), start, end)
-
-
 def _point(text: str, pos: int) -> Span:
-    return _span_of(text, pos, pos)
-
-
-def _token_span(token: Token) -> Span:
-    if token.line is None:
-        return Span(1, 1, 1, 1, 0, 0)
-    end_col = token.end_column or token.column + max(len(str(token)), 1)
-    return Span(token.line, token.column, token.end_line or token.line, end_col,
-                token.start_pos or 0, token.end_pos or 0)
+    return span_of(text, pos, pos)
 
 
 def _describe(token: Token) -> str:

@@ -12,11 +12,11 @@ from dataclasses import dataclass, field
 from dualize.diagnostics import Diagnostic, make
 from dualize.syntax import ast
 from dualize.syntax import rules as R
+from dualize.syntax.positions import START
 from dualize.syntax.span import Span
 
 ORDER = {ast.Title: 0, ast.Data: 1, ast.Objective: 2, ast.Over: 3, ast.SubjectTo: 4,
          ast.Constraint: 5}
-FIRST = Span(1, 1, 1, 1, 0, 0)
 
 
 @dataclass
@@ -122,6 +122,6 @@ def _check_chain(c: _Collect, s: ast.Constraint) -> None:
 
 def _finish(c: _Collect, start: ast.Start) -> None:
     if c.objective is None:
-        c.report(R.MISSING_OBJECTIVE, start.statements[0].span if start.statements else FIRST)
+        c.report(R.MISSING_OBJECTIVE, start.statements[0].span if start.statements else START)
     elif not c.variables:
         c.report(R.MISSING_OVER, c.objective.span, sense=c.objective.sense)

@@ -15,11 +15,12 @@ from lark import Lark, UnexpectedInput
 from dualize.diagnostics import Diagnostic, make
 from dualize.syntax import ast
 from dualize.syntax import rules as R
-from dualize.syntax.build import MAX_DEPTH, Builder, BuildError, deepest, tree_span
+from dualize.syntax.build import MAX_DEPTH, Builder, BuildError, deepest
 from dualize.syntax.explain import explain
 from dualize.syntax.grammar_file import grammar_text
 from dualize.syntax.newlines import NewlineFilter
-from dualize.syntax.outline import FIRST, outline
+from dualize.syntax.outline import outline
+from dualize.syntax.positions import START, span_of, tree_span
 from dualize.syntax.span import Span
 
 MAX_CHARS = 1_000_000
@@ -44,7 +45,7 @@ def lark_parser() -> Lark:
 def parse(text: str, path: str = "<string>") -> ParseResult:
     """Parse one problem file's text."""
     if len(text) > MAX_CHARS:
-        return _failed(make(R.FILE_TOO_LARGE, path, FIRST, size=len(text), limit=MAX_CHARS))
+        return _failed(make(R.FILE_TOO_LARGE, path, START, size=len(text), limit=MAX_CHARS))
     nested = too_many_brackets(text, MAX_DEPTH)
     if nested is not None:
         return _failed(make(R.TOO_DEEP, path, nested, limit=MAX_DEPTH))
@@ -66,10 +67,10 @@ def parse(text: str, path: str = "<string>") -> ParseResult:
 
 def too_many_brackets(text: str, limit: int) -> Span | None:
     """The first bracket that opens level ``limit + 1``, outside comments and titles."""
-    depth, line, line_start, skipping = 0, 1, 0, ""
+    depth, skipping = 0, ""
     for i, ch in enumerate(text):
         if ch == "\n":
-            line, line_start, skipping = line + 1, i + 1, ""
+            skipping = ""
         elif skipping:
             skipping = "" if skipping == '"' and ch == '"' else skipping
         elif ch in "#\"":
@@ -77,8 +78,7 @@ def too_many_brackets(text: str, limit: int) -> Span | None:
         elif ch in "([{":
             depth += 1
             if depth > limit:
-                column = i - line_start + 1
-                return Span(line, column, line, column + 1, i, i + 1)
+                return span_of(text, i, i + 1)
         elif ch in ")]}":
             depth = max(depth - 1, 0)
     return None
