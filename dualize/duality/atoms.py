@@ -291,3 +291,22 @@ def _norm_of(s: Expr, p: str) -> Expr:
         inner = Norm(s.arg, p)  # type: ignore[arg-type]
         return inner if factor == 1 else b.scale(Number(factor), inner)
     return Norm(s, p)  # type: ignore[arg-type]
+
+
+def atom_expression(atom: Atom) -> Expr:
+    """The atom as an IR expression again (for an infimum that is kept)."""
+    u = atom.arg
+    if atom.kind == "norm":
+        body: Expr = Norm(u, atom.p)  # type: ignore[arg-type]
+    elif atom.kind == "square":
+        body = b.power(Norm(u, "2"), sympy.Integer(2))
+    elif atom.kind == "hinge":
+        body = b.sum_all(Extremum("max", u, b.zeros(u.shape)))
+    elif atom.kind == "abs":
+        body = b.sum_all(Apply("abs", u))
+    elif atom.kind == "logsumexp":
+        body = Apply("log", b.sum_all(Apply("exp", u)))
+    else:
+        assert atom.body is not None
+        body = b.sum_all(atom.body)
+    return b.scale(atom.coef, body)

@@ -16,7 +16,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from dualize.duality import build as b
-from dualize.duality.atoms import Atom, infimum, recognise, with_argument
+from dualize.duality.atoms import Atom, atom_expression, infimum, recognise, with_argument
 from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
 from dualize.duality.definite import definiteness
 from dualize.duality.kkt import conditions
@@ -156,7 +156,7 @@ def _minimize_blocks(work: Work) -> dict[str, Outcome]:
     for v in work.problem.variables:
         if v.name in coupled:
             continue
-        outcomes[v.name] = _block(work, v)
+        outcomes[v.name] = _guarded_block(work, v)
     for u, atom, z in work.aux_blocks:
         outcomes[u.name] = _aux_block(u, atom, z)
     for v in work.problem.variables:
@@ -166,6 +166,19 @@ def _minimize_blocks(work: Work) -> dict[str, Outcome]:
     if work.coupled:
         outcomes["(coupled)"] = Outcome(rebuild(work.coupled, SCALAR), inner=True)
     return outcomes
+
+
+def _guarded_block(work: Work, v: Variable) -> Outcome:
+    """A block's rule, or the kept infimum when a rule fails on a form it did not
+    anticipate: a missing closed form is reported, never a guessed one."""
+    marks = (len(work.aux_blocks), len(work.extra), len(work.steps), set(work.names))
+    try:
+        return _block(work, v)
+    except (ValueError, TypeError, KeyError, AttributeError, AssertionError,
+            NotImplementedError, ZeroDivisionError, RecursionError):
+        del work.aux_blocks[marks[0]:], work.extra[marks[1]:], work.steps[marks[2]:]
+        work.names = marks[3]
+        return _kept(v, work.by_var.get(v.name, []), "no rule applies to its terms")
 
 
 def _kept(v: Variable, terms: list[Term], why: str) -> Outcome:
@@ -314,9 +327,10 @@ def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
     else:
         inf = infimum(atom, s, x) if domain.kind == "free" else None
     if inf is None:
-        return Outcome(b.add(rebuild([], SCALAR), r), inner=True, steps=[Step(
+        kept = b.add(atom_expression(atom), b.neg(b.inner(s, x)), r)
+        return Outcome(tidy(kept), inner=True, steps=[Step(
             "no-closed-form", f"No closed form for the infimum over {x.name} of this "
-            f"{_kind_name(atom)} term.", block=x.name)])
+            f"{_kind_name(atom)} term: the infimum is kept.", block=x.name)])
     constraints = [DualConstraint(lhs, rel, rhs, inf.statement)  # type: ignore[arg-type]
                    for lhs, rel, rhs in inf.constraints]
     value = tidy(b.add(r, inf.value))

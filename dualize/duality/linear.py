@@ -372,6 +372,10 @@ def trace_linear(e: Expr, X: Symbol) -> Affine | None:
                                                  _scale_opt(e.factor, inner.const))
     if isinstance(e, Trace):
         return _trace_of(e.arg, X)
+    if isinstance(e, MatMul) and e.shape.is_scalar:
+        return _trace_of(e, X)  # a scalar chain is its own trace
+    if isinstance(e, SumAll) and not isinstance(e.arg, Hadamard):
+        return trace_linear(b.sum_all(e.arg), X)
     if isinstance(e, SumAll) and isinstance(e.arg, Hadamard):
         h = e.arg
         other = h.right if h.left == X else h.left if h.right == X else None

@@ -20,7 +20,7 @@ from dataclasses import replace
 import sympy
 
 from dualize.duality import build as b
-from dualize.duality.normal import Term, expand, rebuild, tidy
+from dualize.duality.normal import Term, expand, node_key, rebuild, tidy
 from dualize.duality.result import DualConstraint, DualProblem, DualVariable, Equation, Step
 from dualize.duality.scalar import Scope, from_sympy, to_sympy
 from dualize.model.expr import Apply, Expr, Ones, Symbol, depends_on, substitute
@@ -49,7 +49,7 @@ def simplify(dual: DualProblem, problem: Problem) -> tuple[DualProblem, list[Ste
     if result is not None:
         dual, more = result
         steps.extend(more)
-    dual = replace(dual, constraints=tuple(_readable(c) for c in dual.constraints))
+    dual = replace(dual, constraints=_distinct(tuple(_readable(c) for c in dual.constraints)))
     return dual, steps
 
 
@@ -259,6 +259,18 @@ def _readable(c: DualConstraint) -> DualConstraint:
     if all(t.coef < 0 for t in var_terms):
         lhs, rhs, relation = tidy(b.neg(lhs)), tidy(b.neg(rhs)), FLIP[relation]
     return replace(c, lhs=lhs, rhs=rhs, relation=relation)  # type: ignore[arg-type]
+
+
+def _distinct(constraints: tuple[DualConstraint, ...]) -> tuple[DualConstraint, ...]:
+    """Each constraint once (two blocks may impose the same condition)."""
+    seen: set[tuple[str, str, str]] = set()
+    out = []
+    for c in constraints:
+        key = (node_key(c.lhs), c.relation, node_key(c.rhs))
+        if key not in seen:
+            seen.add(key)
+            out.append(c)
+    return tuple(out)
 
 
 def _divided(terms: list[Term]) -> list[Term]:
