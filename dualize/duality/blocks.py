@@ -59,9 +59,9 @@ def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> O
     """
     r = r if r is not None else b.num(0)
     if g is None:
+        text = f"The Lagrangian does not depend on {x.name}."
         return Outcome(r, recovery=Recovery(x.name, None, _undetermined(x)),
-                       steps=[Step("minimize-affine", f"The Lagrangian does not depend on {x.name}.",
-                                   block=x.name)])
+                       steps=[Step("minimize-affine", text, block=x.name)])
     g = tidy(g)
     kind = domain.kind
     if kind in ("free", "integer"):

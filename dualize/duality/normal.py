@@ -244,10 +244,11 @@ def _hadamard_terms(tl: Term, tr: Term, e: Hadamard) -> list[Term]:
         return [Term(coef, scalars, tr.chain)]
     if isinstance(right, Ones):
         return [Term(coef, scalars, tl.chain)]
+    one = sympy.Integer(1)
     if len(tl.chain) == 1 and isinstance(left, Symbol):
-        return _product([Term(coef, scalars, (Diag(left),))], [Term(sympy.Integer(1), (), tr.chain)])
+        return _product([Term(coef, scalars, (Diag(left),))], [Term(one, (), tr.chain)])
     if len(tr.chain) == 1 and isinstance(right, Symbol):
-        return _product([Term(coef, scalars, (Diag(right),))], [Term(sympy.Integer(1), (), tl.chain)])
+        return _product([Term(coef, scalars, (Diag(right),))], [Term(one, (), tl.chain)])
     return [Term(coef, scalars, (_sorted_pair(Hadamard, left, right),))]
 
 
