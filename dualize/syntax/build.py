@@ -22,8 +22,6 @@ RELATIONS = {"=": "==", "==": "==", "<=": "<=", ">=": ">=", "≤": "<=", "≥": 
              "⪰": "succeq", "⪯": "preceq", "succeq": "succeq", "preceq": "preceq"}
 MAX_DEPTH = 200
 SUBSCRIPTS = {"₁": "1", "₂": "2", "_∞": "inf"}
-
-
 MAX_DECIMAL_EXPONENT = 400
 MAX_DIGITS = 1000
 EXPONENT = re.compile(r"[eE]([+-]?\d+)$")

@@ -53,7 +53,7 @@ def explain(err: UnexpectedInput, text: str, path: str) -> Diagnostic:
 
 def _bad_character(err: UnexpectedCharacters, text: str, path: str) -> Diagnostic:
     pos = err.pos_in_stream
-    char = text[pos] if pos < len(text) else ""
+    char = text[pos] if pos < len(text) else "\n"
     span = Span(err.line, err.column, err.line, err.column + 1, pos, pos + 1)
     if char == '"':
         return make(R.UNTERMINATED_STRING, path, span, hint='close the title with `"`')
