@@ -67,9 +67,17 @@ def _decide(rows: _Rows, lay: Layout) -> Verdict:
         return _shown(lay, z, "strictly feasible")
     if not rows.hard_ok(z) or s_star < -NEAR_ZERO:
         return Verdict("unknown", "the phase-one solve did not converge on this instance")
-    how = "" if converged else " (the solver stopped at its iteration limit there)"
-    detail = (f"the phase-one optimum is s* = {s_star:.3g}, zero within tolerance{how}, and "
-              "no point with s < 0 satisfies the constraints on this instance")
+    if not converged and s_star > NEAR_ZERO:
+        return Verdict("unknown", f"no strictly feasible point was found: the phase-one "
+                       f"solve stopped at s = {s_star:.3g} without converging, which proves "
+                       "nothing")
+    if s_star > NEAR_ZERO:
+        detail = (f"the phase-one optimum is s* = {s_star:.3g} > 0: the instance is "
+                  "infeasible")
+    else:
+        how = "" if converged else " (the solver stopped at its iteration limit there)"
+        detail = (f"the phase-one optimum is s* = {s_star:.3g}, zero within tolerance{how}, "
+                  "and no point with s < 0 satisfies the constraints on this instance")
     return Verdict("not-guaranteed", f"no strictly feasible point: {detail}; Slater's "
                    "condition fails and a duality gap is possible",
                    finding="slater-fails", detail=detail)

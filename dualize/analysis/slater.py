@@ -51,7 +51,7 @@ def strict_labels(problem: Problem, conv: Convexity) -> tuple[str, ...]:
 
 def domain_caveats(problem: Problem) -> tuple[str, ...]:
     """Closed, non-polyhedral domains whose relative interior a point must reach."""
-    out = [f"{v.name} in S_+ (a point must be positive definite)"
+    out = [f"{v.name} positive definite"
            for v in problem.variables if v.domain.kind == "psd"]
     exprs = [problem.objective] + [c.function for c in problem.constraints]
     for node in (n for e in exprs for n in E.walk(e)):
@@ -84,8 +84,10 @@ def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
         return slack
     if not strict and not caveats:
         return Verdict("guaranteed", AFFINE_REASON)
-    what = ", ".join(strict) if strict else "; ".join(caveats)
-    detail = f"a point must satisfy {what} strictly"
+    if strict:
+        detail = f"a point must satisfy {', '.join(strict)} strictly"
+    else:
+        detail = f"a feasible point must lie inside the domain: {'; '.join(caveats)}"
     return Verdict("unknown", f"Slater's condition cannot be decided on symbolic data "
                    f"({detail}); give an instance with --data",
                    finding="slater-undecided", detail=detail,

@@ -108,3 +108,15 @@ def test_exercise_5_1_values_agree() -> None:
                           bounds=(0, 100), method="bounded")
     assert -res.fun == pytest.approx(5.0, rel=1e-6)  # p* = 5 at x = 2 (exercise 5.1)
     assert res.x == pytest.approx(2.0, rel=1e-4)  # lambda* = 2
+
+
+def test_infeasible_curved_constraint_on_an_instance() -> None:
+    # x^2 + 1 <= 0 has no point at all: phase one ends at s* = 1 > 0 (section 11.4.1)
+    a = analyze(load_problem("minimize x\nover x in R\nsubject to\n  c: x^2 + 1 <= 0\n"), {})
+    assert a.strong_duality_status == "not-guaranteed"
+    assert "infeasible" in a.strong_duality_reason
+
+
+def test_negative_radius_is_never_called_guaranteed() -> None:
+    a = analyze(load_problem(BALL), {"r": -1.0, "c": np.ones(3)})
+    assert a.strong_duality_status in ("unknown", "not-guaranteed")
