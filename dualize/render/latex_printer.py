@@ -51,7 +51,7 @@ class IRLatexPrinter(LatexPrinter):
     def wrap(self, node: ir.Expr, bound: int) -> str:
         """The node, parenthesized when it binds no tighter than ``bound``."""
         text = self._print(node)
-        return paren(text) if st.precedence(node) <= bound else text
+        return paren(text) if _precedence(node) <= bound else text
 
     def _print_ir_Symbol(self, node: ir.Symbol) -> str:
         return latex_name(node.name)
@@ -198,6 +198,13 @@ class IRLatexPrinter(LatexPrinter):
     def _print_ir_Block(self, node: ir.Block) -> str:
         rows = [" & ".join(self._print(b) for b in row) for row in node.rows]
         return r"\begin{bmatrix} " + r" \\ ".join(rows) + r" \end{bmatrix}"
+
+
+def _precedence(node: ir.Expr) -> int:
+    """As in ``structure``, except that a ``\\frac`` binds like a postfix operand."""
+    if _is_fraction(node) and not st.split_sign(node)[0]:
+        return st.POSTFIX
+    return st.precedence(node)
 
 
 def paren(text: str) -> str:

@@ -134,6 +134,12 @@ def test_multi_letter_names_are_set_apart_by_a_thin_space() -> None:
     assert latex_expr(ir.Broadcast(budget, vec(n))) == r"\mathrm{budget} \, \mathbf{1}"
 
 
+def test_a_fraction_needs_no_parentheses_as_a_factor() -> None:
+    inverse_t = ir.Divide(num(1), t)
+    assert latex_expr(ir.Scale(inverse_t, x)) == r"\frac{1}{t} x"
+    assert latex_expr(ir.Power(inverse_t, sympy.Integer(2))) == r"\left(\frac{1}{t}\right)^{2}"
+
+
 def test_numbers_that_would_touch_get_a_cdot() -> None:
     assert latex_expr(ir.Scale(num(2), ir.Number(sympy.Integer(3)))) == r"2 \cdot 3"
 
