@@ -6,6 +6,7 @@ method raises, so a new construct cannot be skipped silently.
 
 from __future__ import annotations
 
+import difflib
 from collections.abc import Callable
 
 import sympy
@@ -102,8 +103,9 @@ class ExprResolver:
 
     def _Call(self, node: ast.Call) -> Expr:
         if node.func not in FUNCTIONS:
-            close = [f for f in FUNCTIONS if f.startswith(node.func[:2])]
-            hint = f"did you mean `{close[0]}`?" if close else None
+            close = difflib.get_close_matches(node.func, FUNCTIONS, n=1, cutoff=0.5)
+            hint = f"did you mean `{close[0]}`?" if close else "the functions are " + \
+                ", ".join(FUNCTIONS)
             raise self.scope.fail(M.UNKNOWN_FUNCTION, node.func_span, name=node.func, hint=hint)
         return getattr(self, f"_call_{node.func}")(node)
 

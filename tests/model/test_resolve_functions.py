@@ -60,3 +60,11 @@ def test_ones_and_identity_with_dimension_symbols_and_numbers() -> None:
     assert e.terms[0] == MatMul((Transpose(Ones(n)), s["x"]))
     assert e.terms[1] == Trace(MatMul((Identity(n), s["Q"])))
     assert e.terms[2] == SumAll(Ones(sympy.Integer(3)))
+
+
+def test_misspelt_function_gets_a_suggestion() -> None:
+    from dualize.model import load
+
+    diagnostics = load("minimize sum(sqr(x)) + tr(X) over x in R^n, X in S^n").diagnostics
+    assert [d.rule for d in diagnostics] == ["unknown-function"]
+    assert diagnostics[0].hint == "did you mean `sqrt`?"
