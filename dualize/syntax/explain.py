@@ -20,6 +20,7 @@ from dualize.syntax.span import Span
 OPERATOR_END = re.compile(r"(\.\*|\./|[-+*/^,−]|<=|>=|==|=|≤|≥|⪰|⪯)$")
 STATEMENT_START = re.compile(
     r"[ \t]*(title|data|minimi[sz]e|maximi[sz]e|over|subject|s\.t\.)(?!\w)")
+KEYWORD_AT = re.compile(r"(over|subject|s\.t\.|data|title|minimi[sz]e|maximi[sz]e)(?!\w)")
 PRETTY = {
     "NAME": "a name", "NUMBER": "a number", "RELATION": "a relation (<=, >=, ==)",
     "PLUS": "`+`", "MINUS": "`-`", "PRODUCT_OP": "`*`", "CARET": "`^`",
@@ -94,7 +95,9 @@ def _unclosed_bracket(text: str, pos: int, token: Token | None, path: str) -> Di
             stack.append(i)
         elif ch in ")]}" and stack:
             stack.pop()
-    if not stack or "\n" not in text[stack[-1]:pos]:
+    if not stack:
+        return None
+    if "\n" not in text[stack[-1]:pos] and not KEYWORD_AT.match(text, pos):
         return None
     i = stack[-1]
     return make(R.UNCLOSED_BRACKET, path, span_of(text, i, i + 1), bracket=text[i],

@@ -114,7 +114,7 @@ def _check_chain(c: _Collect, s: ast.Constraint) -> None:
     ops = [r.op for r in s.relations]
     if len(ops) > 2 or (len(ops) == 2 and ops[0] != ops[1]):
         found = " and ".join(f"`{r.text}`" for r in s.relations)
-        c.report(R.BAD_CHAIN, s.relations[1].span, found=found)
+        c.report(R.BAD_CHAIN, s.relations[min(len(ops), 3) - 1].span, found=found)
     elif s.labels and len(s.labels) != len(ops):
         span = s.labels[0].span.merge(s.labels[-1].span)
         c.report(R.LABEL_COUNT, span, labels=len(s.labels), count=len(ops))
