@@ -109,6 +109,9 @@ class IRLatexPrinter(LatexPrinter):
         return self.wrap(arg, st.NEG)
 
     def _print_ir_MatMul(self, node: ir.MatMul) -> str:
+        negative, magnitude = st.split_sign(node)
+        if negative:
+            return "-" + self.wrap(magnitude, st.NEG)
         entries = st.as_sum_of_entries(node)
         if entries is not None:
             return self._print(entries)
@@ -139,6 +142,9 @@ class IRLatexPrinter(LatexPrinter):
         return self.wrap(node.arg, st.POSTFIX) + self._settings["transpose"]
 
     def _print_ir_Hadamard(self, node: ir.Hadamard) -> str:
+        negative, magnitude = st.split_sign(node)
+        if negative:
+            return "-" + self.wrap(magnitude, st.NEG)
         left, right = self._elementwise_operand(node.left), self._elementwise_operand(node.right)
         return rf"{left} \odot {right}"
 

@@ -53,7 +53,7 @@ class IRTextPrinter(StrPrinter):
     def wrap(self, node: ir.Expr, bound: int) -> str:
         """The node, parenthesized when it binds no tighter than ``bound``."""
         text = self._print(node)
-        return f"({text})" if st.precedence(node) <= bound else text
+        return f"({text})" if _precedence(node, text) <= bound else text
 
     def _print_ir_Symbol(self, node: ir.Symbol) -> str:
         return text_name(node.name)
@@ -111,6 +111,9 @@ class IRTextPrinter(StrPrinter):
         return self.wrap(arg, st.MUL if loose else st.NEG)
 
     def _print_ir_MatMul(self, node: ir.MatMul) -> str:
+        negative, magnitude = st.split_sign(node)
+        if negative:
+            return "-" + self.wrap(magnitude, st.NEG)
         entries = st.as_sum_of_entries(node)
         if entries is not None:
             return self._print(entries)
@@ -141,6 +144,9 @@ class IRTextPrinter(StrPrinter):
         return self.wrap(node.arg, st.POSTFIX) + self._settings["transpose"]
 
     def _print_ir_Hadamard(self, node: ir.Hadamard) -> str:
+        negative, magnitude = st.split_sign(node)
+        if negative:
+            return "-" + self.wrap(magnitude, st.NEG)
         return f"{self._operand(node.left)} ⊙ {self._operand(node.right)}"
 
     def _operand(self, node: ir.Expr) -> str:
@@ -196,6 +202,13 @@ class IRTextPrinter(StrPrinter):
     def _print_ir_Block(self, node: ir.Block) -> str:
         rows = ["[" + ", ".join(self._print(b) for b in row) + "]" for row in node.rows]
         return "[" + ", ".join(rows) + "]"
+
+
+def _precedence(node: ir.Expr, text: str) -> int:
+    """As in ``structure``, except that a one-glyph fraction (``½``) binds like an atom."""
+    if isinstance(node, ir.Number) and len(text) == 1:
+        return st.ATOM
+    return st.precedence(node)
 
 
 def _juxtapose(pieces: list[str]) -> str:
