@@ -7,7 +7,7 @@ from dataclasses import dataclass
 
 from dualize.checking.claims import Claim, ClaimError, load_claim
 from dualize.checking.matching import Matching, match_variables
-from dualize.checking.numeric import Values, claim_as_dual, solve_three
+from dualize.checking.numeric import Values, claim_as_dual, solve_three, usable
 from dualize.checking.symbolic import SymbolicResult, compare_symbolically
 from dualize.checking.verdict import (
     EQUIVALENT,
@@ -133,8 +133,7 @@ def _messages(verdict: str, symbolic: SymbolicResult, readings: list[Reading],
                    f"optimum {v.primal_value:.10g} by {-r.gap:.6g}: weak duality forbids it")
     elif verdict == INFEASIBLE:
         v = next(v for r, v in pairs if r.broken)
-        out.append(f"on {_where(v)} the claim is {v.claim_status}, while the derived dual has "
-                   f"the value {v.dual_value:.10g} ({v.dual_status})")
+        out.append(f"on {_where(v)} the claim is {v.claim_status}, while " + _finite_side(v))
     elif verdict == NOT_TIGHT:
         r, v = max(((r, v) for r, v in pairs if r.below), key=lambda rv: rv[0].gap)
         out.append(f"the claim is on the correct side of the primal optimum everywhere, but "
@@ -148,6 +147,12 @@ def _messages(verdict: str, symbolic: SymbolicResult, readings: list[Reading],
                    + ", ".join(statuses) + ")" if values else "no instance was checked")
     out += _cautions(symbolic, readings, values, verdict)
     return tuple(out)
+
+
+def _finite_side(v: Values) -> str:
+    if usable(v.dual_value, v.dual_status):
+        return f"the derived dual has the value {v.dual_value:.10g} ({v.dual_status})"
+    return f"the primal has the value {v.primal_value:.10g} ({v.primal_status})"
 
 
 def _where(v: Values) -> str:

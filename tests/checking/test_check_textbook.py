@@ -60,6 +60,38 @@ def test_textbook_dual_is_equivalent(primal: str, claim: str) -> None:
         assert math.isclose(v.claim_value, v.primal_value, rel_tol=1e-5, abs_tol=1e-6)
 
 
+NUMERIC_ONLY = [
+    # Boyd and Vandenberghe, 2004, section 5.7.1 (from memory): norm approximation
+    # minimize ||Ax - b|| has the dual maximize b'nu s.t. ||nu||_* <= 1, A'nu = 0; the
+    # derivation prices the residual with the opposite sign, which only numbers equate.
+    ("kiln_minimax", "minimax_dual", None),
+    # Common practice (an LP over a box kept as a domain; the infimum of a linear function
+    # over [0, 1]^n is the sum of its negative coefficients): maximize -b'l +
+    # sum min(c + A'l, 0) s.t. l >= 0.
+    ("charging_box", "box_lp_dual", None),
+    # Boyd and Vandenberghe, 2004, section 5.7.1 (from memory), analytic centering:
+    # maximize sum log nu + m - b'nu s.t. A'nu = 0, on the bundled bounded polyhedron.
+    ("robot_analytic_center", "analytic_center_dual", "robot_analytic_center.json"),
+]
+
+
+@pytest.mark.parametrize(("primal", "claim", "data"), NUMERIC_ONLY)
+def test_textbook_dual_in_another_form_is_equivalent_by_numbers(primal: str, claim: str,
+                                                                 data: str | None) -> None:
+    from dualize.numeric.instance import read_instance
+    from tests.checking.paths import EXAMPLES
+
+    problem = example(primal)
+    given = [read_instance(str(EXAMPLES / data), problem)] if data else []
+    report = check_claim(problem, claim_text(claim), instances=given,
+                         seeds=() if data else SEEDS)
+    assert report.verdict == "equivalent", report.messages
+    assert report.method == "numeric"
+    for row in report.instances:
+        v = row.values
+        assert math.isclose(v.claim_value, v.primal_value, rel_tol=1e-5, abs_tol=1e-6)
+
+
 def test_renamed_variable_is_matched_by_shape() -> None:
     # The derivation names the least-norm multiplier nu1 (an unlabelled constraint);
     # the claim calls it nu.
