@@ -88,6 +88,9 @@ def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
         detail = f"a point must satisfy {', '.join(strict)} strictly"
     else:
         detail = f"a feasible point must lie inside the domain: {'; '.join(caveats)}"
+    if not problem.data:
+        detail += ("; no simple candidate point works and the problem has no data: an empty "
+                   "instance ({}) lets --data search numerically")
     return Verdict("unknown", f"Slater's condition cannot be decided on symbolic data "
                    f"({detail}); give an instance with --data",
                    finding="slater-undecided", detail=detail,

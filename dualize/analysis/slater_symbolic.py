@@ -99,7 +99,9 @@ def _in_domain(xs: list, point: tuple) -> bool:
 def _holds(rows: list, strict: set[str], subs: dict, sympy: object) -> bool:
     for con, entries in rows:
         for f in entries:
-            value = sympy.simplify(f.subs(subs))  # type: ignore[attr-defined]
+            value = f.subs(subs)
+            if not value.is_Number:
+                value = sympy.simplify(value)  # type: ignore[attr-defined]
             if not _satisfied(value, con, strict):
                 return False
     return True
