@@ -19,10 +19,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import sympy
+from sympy.core.function import PoleError
 
 from dualize.duality import conjugate_check as check
 
 S = sympy.Symbol("s", real=True)
+# What sympy raises when a limit, a solve or a comparison is beyond it; any of them
+# means there is no closed form we can trust, never that a wrong one may pass.
+SYMPY_TROUBLE = (TypeError, ValueError, NotImplementedError, ZeroDivisionError, PoleError)
 
 
 class NoClosedForm(Exception):  # noqa: N818 - the name states the outcome, not a fault
@@ -58,14 +62,23 @@ def conjugate(
     if not isinstance(domain, sympy.Interval):
         raise NoClosedForm(f"the domain of {t} must be an interval, not {domain}")
     params = _parameters(phi, t, domain)
-    dom = _closure(phi, t, domain)
-    dphi = sympy.diff(phi, t)
-    derived = _affine(phi, t, dom, dphi) if t not in dphi.free_symbols else _legendre(phi, t, dom)
-    for values in _parameter_samples(params):
-        failure = check.first_failure(_claim(phi, t, dom, derived, values))
-        if failure is not None:
-            raise NoClosedForm(failure)
+    try:
+        dom = _closure(phi, t, domain)
+        derived = _derive(phi, t, dom)
+        failures = (
+            check.first_failure(_claim(phi, t, dom, derived, v)) for v in _parameter_samples(params)
+        )
+        failure = next((f for f in failures if f is not None), None)
+    except SYMPY_TROUBLE as exc:
+        raise NoClosedForm(f"sympy could not carry the derivation through: {exc}") from exc
+    if failure is not None:
+        raise NoClosedForm(failure)
     return Conjugate(derived.value, S, derived.domain, derived.maximizer, True, derived.boundary)
+
+
+def _derive(phi: sympy.Expr, t: sympy.Symbol, dom: sympy.Interval) -> _Derived:
+    dphi = sympy.diff(phi, t)
+    return _affine(phi, t, dom, dphi) if t not in dphi.free_symbols else _legendre(phi, t, dom)
 
 
 def scaled_conjugate(conj: Conjugate, a: sympy.Expr) -> Conjugate:

@@ -42,7 +42,9 @@ def numeric(expr: sympy.Expr, var: sympy.Symbol) -> Scalar:
     """A real-valued function of one float, None where the value is not a finite real."""
     import mpmath
 
-    compiled = sympy.lambdify(var, expr, modules="mpmath")
+    if expr.free_symbols - {var}:
+        return lambda x: None
+    compiled = sympy.lambdify(var, expr, modules="mpmath", dummify=True)
 
     def call(x: float) -> float | None:
         with mpmath.workdps(30):
