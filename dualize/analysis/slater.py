@@ -67,23 +67,25 @@ def _varies(node: E.Expr) -> bool:
 
 
 def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
-    """Refined Slater on symbolic data: a scalar sympy search, then a structural point."""
+    """Refined Slater on symbolic data: a scalar sympy search, then structural points
+    (the origin, large slacks); without one, affine problems hold when feasible."""
+    from dualize.analysis.slack_point import slack_candidate
     from dualize.analysis.slater_symbolic import scalar_search, zero_candidate
 
+    searches = (lambda: scalar_search(problem, conv),
+                lambda: zero_candidate(problem, conv, variable_signs(problem)),
+                lambda: slack_candidate(problem, conv))
+    for search in searches:
+        found = search()
+        if found is not None:
+            return found
     strict, caveats = strict_labels(problem, conv), domain_caveats(problem)
-    found = scalar_search(problem, conv)
-    if found is not None:
-        return found
-    zero = zero_candidate(problem, conv, variable_signs(problem))
-    if zero is not None:
-        return zero
-    from dualize.analysis.slack_point import slack_candidate
-
-    slack = slack_candidate(problem, conv)
-    if slack is not None:
-        return slack
     if not strict and not caveats:
         return Verdict("guaranteed", AFFINE_REASON)
+    return _undecided(problem, strict, caveats)
+
+
+def _undecided(problem: Problem, strict: tuple[str, ...], caveats: tuple[str, ...]) -> Verdict:
     if strict:
         detail = f"a point must satisfy {', '.join(strict)} strictly"
     else:
