@@ -115,3 +115,16 @@ def test_sarif_output_is_stable(folder: Path) -> None:
     log = json.loads(first)
     assert [r["ruleId"] for r in log["runs"][0]["results"]] == [
         "slater-undecided", "curvature-unknown", "nonconvex-equality"]
+
+
+def test_nearest_pyproject_without_our_table_is_passed_over(folder: Path) -> None:
+    from dualize.lint_config import load_config
+
+    (folder / "pyproject.toml").write_text('[tool.dualize]\nignore = ["curvature"]\n',
+                                           encoding="utf-8")
+    inner = folder / "pkg"
+    inner.mkdir()
+    (inner / "pyproject.toml").write_text('[project]\nname = "other"\n', encoding="utf-8")
+    config = load_config(inner)
+    assert config.ignore == ("curvature",) and config.source.endswith("pyproject.toml")
+    assert not config.keeps("curvature-unknown") and config.keeps("slater-undecided")
