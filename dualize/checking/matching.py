@@ -57,11 +57,16 @@ def match_variables(claim: Problem, dual: DualProblem) -> Matching:
     return Matching(tuple(pairs), tuple(s.name for s in left), tuple(derived))
 
 
-def renamed(e: Expr, claim: Problem, matching: Matching) -> Expr:
-    """A claim expression with every matched variable under its derived name."""
+def renamed(e: Expr, claim: Problem, matching: Matching,
+            flipped: frozenset[str] = frozenset()) -> Expr:
+    """A claim expression with every matched variable under its derived name, and the
+    ``flipped`` ones (claim names) replaced by their negatives."""
+    from dualize.duality.build import neg
+
     by_name = {v.name: v.symbol for v in claim.variables}
     mapping: dict[Expr, Expr] = {}
     for m in matching.pairs:
         sym = by_name[m.claim]
-        mapping[sym] = Symbol(m.derived, "multiplier", sym.sym_shape, sym.facts)
+        new = Symbol(m.derived, "multiplier", sym.sym_shape, sym.facts)
+        mapping[sym] = neg(new) if m.claim in flipped else new
     return substitute(e, mapping) if mapping else e

@@ -8,12 +8,19 @@ multiplier matches.  A proof needs every variable paired, the objectives equal
 by the rules of linear algebra (``same_expression``) and each constraint of one
 side matched by one of the other up to a positive factor (``same_constraint``).
 No proof is not a disproof: the numeric half then decides.
+
+Sign conventions differ between books (Boyd and Vandenberghe price ``b - Ax``
+where the language prices ``Ax - b``), so a free claim variable may also be
+matched with its sign turned round: ``nu -> -nu`` maps the claim's feasible
+set onto itself one to one and keeps every objective value, so the optimal
+values agree.  Up to ``MAX_FLIPPED`` free variables are tried that way.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
+from dualize.checking.canonical import canonical
 from dualize.checking.matching import Matching, renamed
 from dualize.duality import build as b
 from dualize.duality.result import DualProblem
@@ -22,6 +29,7 @@ from dualize.model.problem import Problem
 
 Triple = tuple[Expr, str, Expr]
 _COMPARABLE = ("<=", ">=", "=", "succeq", "preceq")
+MAX_FLIPPED = 3
 
 
 @dataclass(frozen=True)
@@ -30,6 +38,7 @@ class SymbolicResult:
 
     proved: bool
     reasons: tuple[str, ...]
+    flipped: tuple[str, ...] = ()
 
 
 def derived_constraints(dual: DualProblem) -> list[Triple]:
@@ -78,17 +87,42 @@ def compare_symbolically(claim: Problem, dual: DualProblem, matching: Matching
     reasons = _preconditions(claim, dual, matching)
     if reasons:
         return SymbolicResult(False, tuple(reasons))
+    first = _attempt(claim, dual, matching, frozenset())
+    if not first:
+        return SymbolicResult(True, ())
+    for flips in _flip_sets(claim, matching):
+        if not _attempt(claim, dual, matching, flips):
+            return SymbolicResult(True, (), tuple(sorted(flips)))
+    return SymbolicResult(False, tuple(first))
+
+
+def _flip_sets(claim: Problem, matching: Matching) -> list[frozenset[str]]:
+    """Nonempty sets of free matched claim variables, smallest first, in declared order."""
+    from itertools import combinations
+
+    matched = {m.claim for m in matching.pairs}
+    free = [v.name for v in claim.variables if v.domain.kind == "free" and v.name in matched]
+    if len(free) > MAX_FLIPPED:
+        return []
+    return [frozenset(c) for k in range(1, len(free) + 1) for c in combinations(free, k)]
+
+
+def _attempt(claim: Problem, dual: DualProblem, matching: Matching,
+             flips: frozenset[str]) -> list[str]:
+    """What keeps the claim, with ``flips`` negated, from being the derived dual."""
     from dualize.duality.compare import same_expression
 
-    if not same_expression(dual.objective, renamed(claim.objective, claim, matching)):
+    reasons = []
+    objective = canonical(renamed(claim.objective, claim, matching, flips))
+    if not same_expression(canonical(dual.objective), objective):
         reasons.append("the objectives were not proved equal")
-    mine = [_rename(t, claim, matching) for t in claim_constraints(claim)]
-    theirs = derived_constraints(dual)
+    mine = [_rename(t, claim, matching, flips) for t in claim_constraints(claim)]
+    theirs = [_canonical(t) for t in derived_constraints(dual)]
     reasons += [f"claim constraint {_show(t)} has no counterpart in the derived dual"
                 for t in mine if not _has_match(t, theirs)]
     reasons += [f"derived constraint {_show(t)} has no counterpart in the claim"
                 for t in theirs if not _has_match(t, mine)]
-    return SymbolicResult(not reasons, tuple(reasons))
+    return reasons
 
 
 def _preconditions(claim: Problem, dual: DualProblem, matching: Matching) -> list[str]:
@@ -105,8 +139,13 @@ def _preconditions(claim: Problem, dual: DualProblem, matching: Matching) -> lis
     return reasons
 
 
-def _rename(t: Triple, claim: Problem, matching: Matching) -> Triple:
-    return renamed(t[0], claim, matching), t[1], renamed(t[2], claim, matching)
+def _rename(t: Triple, claim: Problem, matching: Matching, flips: frozenset[str]) -> Triple:
+    return _canonical((renamed(t[0], claim, matching, flips), t[1],
+                       renamed(t[2], claim, matching, flips)))
+
+
+def _canonical(t: Triple) -> Triple:
+    return canonical(t[0]), t[1], canonical(t[2])
 
 
 def _has_match(t: Triple, pool: list[Triple]) -> bool:
