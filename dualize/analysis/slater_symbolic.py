@@ -21,6 +21,7 @@ from dualize.model.problem import Constraint, Problem
 SLATER = "Slater's condition holds (Boyd and Vandenberghe, 2004, section 5.2.3)"
 CANDIDATES = (0, 1, -1, 2, -2, "1/2", 3, 10)
 MAX_SEARCH_UNKNOWNS = 3
+MATRIX_DOMAINS = frozenset({"psd", "pd", "symmetric"})
 
 
 def _strict(conv: Convexity) -> set[str]:
@@ -34,8 +35,9 @@ def scalar_search(problem: Problem, conv: Convexity) -> Verdict | None:
 
     from dualize.analysis.scalarize import NotScalarizable, to_sympy, unknowns_for
 
-    if any(p.kind == "linear-matrix-inequality" for p in conv.constraints):
-        return None
+    if any(p.kind == "linear-matrix-inequality" for p in conv.constraints) or any(
+            v.domain.kind in MATRIX_DOMAINS for v in problem.variables):
+        return None  # the grid knows nothing of definiteness or symmetry
     signs = variable_signs(problem)
     try:
         u = unknowns_for({v.name: (v.symbol.shape, signs.get(v.name))

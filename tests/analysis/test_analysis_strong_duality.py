@@ -136,3 +136,11 @@ def _convexity(p: object) -> object:
     from dualize.analysis.convexity import analyse_convexity
 
     return analyse_convexity(p)
+
+
+def test_small_psd_variable_is_not_given_a_grid_point() -> None:
+    # X = 0 is not in the interior of S^2_+: no witness may be shown for it (section 5.2.3
+    # asks for a point in the relative interior of the domain)
+    a = analyze(load_problem("minimize trace(X)\nover X in S^2_+\nsubject to\n"
+                             "  c: trace(X) >= 1\n"))
+    assert a.witness is None or "X" not in a.witness
