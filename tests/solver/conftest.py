@@ -1,0 +1,39 @@
+"""Fixtures: derive an example, render its solver into tmp_path and import it."""
+
+from __future__ import annotations
+
+import importlib.util
+import json
+from pathlib import Path
+
+import pytest
+
+from dualize.duality import derive
+from dualize.model import load
+from dualize.render.solver import render_solver
+
+EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
+
+
+def derivation_of(name: str):
+    text = (EXAMPLES / f"{name}.prob").read_text(encoding="utf-8")
+    return derive(load(text, f"{name}.prob").problem)
+
+
+def instance_of(name: str) -> dict:
+    return json.loads((EXAMPLES / f"{name}.json").read_text(encoding="utf-8"))
+
+
+@pytest.fixture
+def solver_module(tmp_path):
+    """A function: example name -> (path, imported generated module)."""
+
+    def build(name: str):
+        path = tmp_path / f"{name}_solver.py"
+        path.write_text(render_solver(derivation_of(name)), encoding="utf-8")
+        spec = importlib.util.spec_from_file_location(f"{name}_solver", path)
+        module = importlib.util.module_from_spec(spec)
+        spec.loader.exec_module(module)
+        return path, module
+
+    return build
