@@ -277,7 +277,8 @@ def _power(e: Power) -> list[Term]:
         return _number(Number(base.value**e.exponent))
     if e.exponent == 1:
         return _expand(base)
-    if e.exponent == 2 and e.shape.is_scalar and not isinstance(base, Symbol | Norm):
+    if (e.exponent == 2 and e.shape.is_scalar and not isinstance(base, Symbol | Norm)
+            and not _KEEP_FORMS[-1]):
         terms = _expand(base)
         if len(terms) > 1:
             return _product(terms, terms)

@@ -9,6 +9,8 @@ supremum of the dual unchanged.
 
 from __future__ import annotations
 
+import functools
+
 import sympy
 from sympy.calculus.util import continuous_domain
 
@@ -35,6 +37,12 @@ def _interval(domain: Domain) -> sympy.Interval | None:
     return None
 
 
+@functools.lru_cache(maxsize=512)
+def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # type: ignore[no-untyped-def]
+    """Conjugates are derived and checked once per function and domain."""
+    return conjugate(phi, t, region)
+
+
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s."""
     interval = _interval(domain)
@@ -52,7 +60,7 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
     if not isinstance(region, sympy.Interval):
         return None
     try:
-        conj = conjugate(phi, t, region)
+        conj = _conjugate(phi, t, region)
     except NoClosedForm:
         return None
     data = {d.name: d for d in symbols_of(atom.body) + symbols_of(atom.coef) if d.role == "data"}
