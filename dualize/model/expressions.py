@@ -59,8 +59,10 @@ class ExprResolver:
             raise ResolveError(None)
         if node.name in self.scope.dims:
             raise self.scope.fail(M.DIMENSION_AS_VALUE, node.span, name=node.name)
-        raise self.scope.fail(M.UNDECLARED_NAME, node.span, name=node.name,
-                              hint=self.scope.suggest(node.name))
+        error = self.scope.fail(M.UNDECLARED_NAME, node.span, name=node.name,
+                                hint=self.scope.suggest(node.name))
+        self.scope.failed.add(node.name)  # reported at its first use only
+        raise error
 
     def _BinOp(self, node: ast.BinOp) -> Expr:
         a, b, s = self(node.left), self(node.right), self.scope

@@ -40,7 +40,7 @@ def explain(err: UnexpectedInput, text: str, path: str) -> Diagnostic:
     if isinstance(err, UnexpectedCharacters):
         return _bad_character(err, text, path)
     token = getattr(err, "token", None)
-    pos = len(text) if token is None or token.type == "$END" else token.start_pos
+    pos = error_position(err, text)
     expected = sorted(getattr(err, "expected", None) or getattr(err, "accepts", None) or ())
     for check in (_dangling, _unclosed_bracket, _unbalanced_bar, _objective_relation):
         found = check(text, pos, token, path)
@@ -50,6 +50,14 @@ def explain(err: UnexpectedInput, text: str, path: str) -> Diagnostic:
         return make(R.UNEXPECTED_END, path, _point(text, pos), what=_statement_kind(text, pos))
     return make(R.SYNTAX_ERROR, path, token_span(token), found=_describe(token),
                 expected=_expected_text(expected))
+
+
+def error_position(err: UnexpectedInput, text: str) -> int:
+    """Where the parser stopped: the failing character or token (the text's end at EOF)."""
+    if isinstance(err, UnexpectedCharacters):
+        return err.pos_in_stream
+    token = getattr(err, "token", None)
+    return len(text) if token is None or token.type == "$END" else token.start_pos
 
 
 def _bad_character(err: UnexpectedCharacters, text: str, path: str) -> Diagnostic:
@@ -76,9 +84,9 @@ def _dangling(text: str, pos: int, token: Token | None, path: str) -> Diagnostic
     line_start = text.rfind("\n", 0, pos) + 1
     at_end = token is None or token.type == "$END"
     if at_end:
-        before = _code_before(text, pos)
+        before = code_before(text, pos)
     elif STATEMENT_START.match(text, line_start):
-        before = _code_before(text, line_start)
+        before = code_before(text, line_start)
     else:
         return None
     match = OPERATOR_END.search(before)
@@ -90,7 +98,7 @@ def _dangling(text: str, pos: int, token: Token | None, path: str) -> Diagnostic
 
 def _unclosed_bracket(text: str, pos: int, token: Token | None, path: str) -> Diagnostic | None:
     stack: list[int] = []
-    for i, ch in enumerate(_blank_comments(text[:pos])):
+    for i, ch in enumerate(blank_comments(text[:pos])):
         if ch in CLOSING:
             stack.append(i)
         elif ch in ")]}" and stack:
@@ -107,7 +115,7 @@ def _unclosed_bracket(text: str, pos: int, token: Token | None, path: str) -> Di
 def _unbalanced_bar(text: str, pos: int, token: Token | None, path: str) -> Diagnostic | None:
     """An odd number of norm bars (or of single bars) on the failing line."""
     line_start = text.rfind("\n", 0, max(pos - 1, 0)) + 1
-    line = _blank_comments(text[line_start:_line_end(text, pos)])
+    line = blank_comments(text[line_start:_line_end(text, pos)])
     norms = [m.start() for m in re.finditer(r"\|\||‖", line)]
     singles = [m.start() for m in re.finditer(r"(?<!\|)\|(?!\|)", line)]
     for bar, places in (("||", norms), ("|", singles)):
@@ -138,12 +146,12 @@ def _statement_kind(text: str, pos: int) -> str:
     return {"title": "title", "data": "data line", "over": "`over` clause"}.get(first, "statement")
 
 
-def _code_before(text: str, pos: int) -> str:
+def code_before(text: str, pos: int) -> str:
     """The text before ``pos`` without comments and trailing blanks."""
-    return _blank_comments(text[:pos]).rstrip()
+    return blank_comments(text[:pos]).rstrip()
 
 
-def _blank_comments(text: str) -> str:
+def blank_comments(text: str) -> str:
     """Comments replaced by spaces, so that offsets stay valid."""
     return re.sub(r"#[^\n]*", lambda m: " " * len(m.group(0)), text)
 

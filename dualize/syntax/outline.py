@@ -15,6 +15,7 @@ from dualize.syntax import rules as R
 from dualize.syntax.positions import START
 from dualize.syntax.span import Span
 
+MISPLACED = frozenset({R.STATEMENT_ORDER.id, R.DUPLICATE_STATEMENT.id})
 ORDER = {ast.Title: 0, ast.Data: 1, ast.Objective: 2, ast.Over: 3, ast.SubjectTo: 4,
          ast.Constraint: 5}
 
@@ -41,8 +42,10 @@ def outline(start: ast.Start, path: str) -> tuple[ast.Document | None, tuple[Dia
     """The file's document and the diagnostics about statement order and chains."""
     c = _Collect(path)
     for statement in start.statements:
+        before = len(c.diagnostics)
         _place(c, statement)
-        c.phase = max(c.phase, ORDER[type(statement)])
+        if not any(d.rule in MISPLACED for d in c.diagnostics[before:]):
+            c.phase = max(c.phase, ORDER[type(statement)])  # a misplaced one moves nothing
     _finish(c, start)
     if c.diagnostics or c.objective is None:
         return None, tuple(c.diagnostics)
@@ -97,7 +100,8 @@ def _subject_to(c: _Collect, s: ast.SubjectTo) -> None:
     elif c.objective is None:
         c.report(R.STATEMENT_ORDER, s.span, what="`subject to`",
                  where="after the objective and its `over` clause")
-    c.subject_to = c.subject_to or s
+    else:
+        c.subject_to = s
     if s.constraint is not None:
         _constraint(c, s.constraint, checked_order=True)
 

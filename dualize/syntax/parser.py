@@ -16,11 +16,12 @@ from dualize.diagnostics import Diagnostic, make
 from dualize.syntax import ast
 from dualize.syntax import rules as R
 from dualize.syntax.build import MAX_DEPTH, Builder, BuildError, deepest
-from dualize.syntax.explain import explain
+from dualize.syntax.explain import error_position, explain
 from dualize.syntax.grammar_file import grammar_text
 from dualize.syntax.newlines import NewlineFilter
 from dualize.syntax.outline import outline
 from dualize.syntax.positions import START, span_of, tree_span
+from dualize.syntax.recovery import later_errors
 from dualize.syntax.span import Span
 
 MAX_CHARS = 1_000_000
@@ -52,7 +53,9 @@ def parse(text: str, path: str = "<string>") -> ParseResult:
     try:
         tree = lark_parser().parse(text)
     except UnexpectedInput as err:
-        return _failed(explain(err, text, path))
+        first = explain(err, text, path)
+        rest = later_errors(first, error_position(err, text), text, path, lark_parser)
+        return ParseResult(None, None, (first, *rest))
     too_deep = deepest(tree)
     if too_deep is not None:
         return _failed(make(R.TOO_DEEP, path, tree_span(too_deep), limit=MAX_DEPTH,

@@ -119,3 +119,8 @@ def test_unlabelled_chain_gives_two_generated_multipliers() -> None:
     p = problem("minimize sum(a) over a in R^n\ns.t.\n 0 <= a <= 1\n sum(a) == 1")
     assert [c.label for c in p.constraints] == ["lambda1", "lambda2", "nu1"]
     assert [c.relation for c in p.constraints] == ["<=", "<=", "=="]
+
+
+def test_an_undeclared_name_is_reported_at_its_first_use_only() -> None:
+    diagnostics = load("minimize sum(z) over x in R^n\ns.t.\n z >= 0\n x <= z").diagnostics
+    assert [(d.rule, d.span.line) for d in diagnostics] == [("undeclared-name", 1)]

@@ -38,3 +38,20 @@ def test_statement_order(text: str, expected: list[tuple[str, int, int]]) -> Non
 ])
 def test_friendly_messages(text: str, expected: tuple[str, int, int]) -> None:
     assert rules(text) == [expected]
+
+
+def test_a_misplaced_statement_does_not_make_the_rest_out_of_order() -> None:
+    text = "s.t. x >= 0\ntitle \"t\"\ndata a in R\nminimize x over x in R\nsubject to\n x <= a"
+    assert rules(text) == [("statement-order", 1, 1)]
+
+
+def test_independent_syntax_errors_on_later_lines_are_all_reported() -> None:
+    text = ("data a in R $\nminimize x +\n   y\nover x in R, y in R\nsubject to\n"
+            "  x >= 1 1\n  y <= (2 +\n     3) 4\n  x == 2\n  y >= ||x\n")
+    assert rules(text) == [("unknown-character", 1, 13), ("syntax-error", 6, 10),
+                           ("syntax-error", 8, 9), ("unbalanced-norm", 10, 8)]
+
+
+def test_recovery_stops_where_the_rest_cannot_be_read() -> None:
+    assert [r for r, _, _ in rules("minimize (x over x in R\ns.t.\n x >= 1 1\n")] == [
+        "unclosed-bracket"]
