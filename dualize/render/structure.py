@@ -140,10 +140,16 @@ def scalar_factors(node: ir.Scale) -> tuple[tuple[ir.Expr, ...], ir.Expr]:
 
 
 def _factor_rank(factor: ir.Expr) -> int:
-    """Scalar products read numbers first, then single symbols, then compound factors."""
+    """Scalar products read numbers first, then symbols, then other simple factors, then
+    compound ones (a parenthesized group, even under an exponent, comes last)."""
     if isinstance(factor, ir.Number):
         return 0
-    return 1 if precedence(factor) >= POSTFIX else 2
+    if isinstance(factor, ir.Symbol):
+        return 1
+    if isinstance(factor, ir.Power | ir.Inverse | ir.Transpose | ir.PseudoInverse):
+        inner = factor.base if isinstance(factor, ir.Power) else factor.arg
+        return 2 if precedence(inner) > POSTFIX else 3
+    return 2 if precedence(factor) >= POSTFIX else 3
 
 
 def _flatten_factor(factor: ir.Expr) -> list[ir.Expr]:
