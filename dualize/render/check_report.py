@@ -112,7 +112,8 @@ def check_dict(report: ClaimReport) -> dict[str, Any]:
         "unmatched_claim_variables": list(report.matching.unmatched_claim),
         "unmatched_derived_variables": list(report.matching.unmatched_derived),
         "symbolic": {"proved": report.symbolic.proved,
-                     "reasons": list(report.symbolic.reasons)},
+                     "reasons": list(report.symbolic.reasons),
+                     "sign_turned": list(report.symbolic.flipped)},
         "data_taken_from_primal": list(report.borrowed),
         "instances": [_check_instance(i) for i in report.instances],
         "messages": list(report.messages),
@@ -159,9 +160,16 @@ def _signed(i: Any, report: ClaimReport) -> float:
     return i.gap if report.sense == "minimize" else -i.gap
 
 
+def _pair_text(claim: str, derived: str, how: str, turned: bool) -> str:
+    if turned:
+        return f"{claim} = -{derived} (by {how}, sign turned)"
+    return f"{claim} = {derived} (by {how})" if claim != derived else f"{claim} (by {how})"
+
+
 def _matching_line(report: ClaimReport) -> str:
-    pairs = [f"{m.claim} = {m.derived} (by {m.how})" if m.claim != m.derived
-             else f"{m.claim} (by {m.how})" for m in report.matching.pairs]
+    turned = set(report.symbolic.flipped)
+    pairs = [_pair_text(m.claim, m.derived, m.how, m.claim in turned)
+             for m in report.matching.pairs]
     text = "matched variables: " + (", ".join(pairs) if pairs else "none")
     if report.matching.unmatched_claim:
         text += "; claim only: " + ", ".join(report.matching.unmatched_claim)

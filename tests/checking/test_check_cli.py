@@ -109,3 +109,12 @@ def test_command_modules_load_no_heavy_library() -> None:
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                          cwd=root, env={"PYTHONPATH": str(root)}, check=True)
     assert out.stdout.strip() == "[]"
+
+
+def test_sign_turned_match_is_shown() -> None:
+    # Boyd and Vandenberghe, 2004, section 5.7.1 (from memory): the norm-approximation dual
+    # maximize b'nu s.t. ||nu||_1 <= 1, A'nu = 0 prices b - Ax; ours prices Ax - b.
+    result = _run(str(EXAMPLES / "kiln_minimax.prob"), "--claim", claim_path("minimax_dual"),
+                  "--random", "1")
+    assert result.exit_code == 0, result.output
+    assert "nu = -z (by shape, sign turned)" in result.output
