@@ -2,8 +2,9 @@
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
+from typing import Any
 
 from dualize.checking.claims import Claim, ClaimError, load_claim
 from dualize.checking.matching import Matching, match_variables
@@ -23,6 +24,8 @@ from dualize.checking.verdict import (
 from dualize.duality.result import Derivation
 from dualize.model.problem import Problem
 from dualize.numeric.instance import Instance
+
+Progress = Callable[[list[Any]], Iterable[Any]]
 
 
 @dataclass(frozen=True)
@@ -59,13 +62,15 @@ class ClaimReport:
 def check_claim(problem: Problem | Derivation, claim: str | Problem | Claim,
                 instances: Sequence[Instance] = (), seeds: Sequence[int] = (0, 1, 2),
                 dims: dict[str, int] | None = None, claim_path: str = "<claim>",
-                counterexample_path: str | None = None) -> ClaimReport:
+                counterexample_path: str | None = None,
+                progress: Progress | None = None) -> ClaimReport:
     """Check ``claim`` (text, a loaded problem or a ``Claim``) as a dual of ``problem``.
 
     The derived dual is computed unless a derivation is given.  Random instances
     for ``seeds`` are made as ``verify`` makes them (primal and derived dual
     feasible).  When the verdict is invalid (or the claim unbounded) and
     ``counterexample_path`` is given, the witnessing instance is written there.
+    ``progress`` wraps the list of instances as they are solved (a progress bar).
     """
     from dualize.duality.engine import derive
 
@@ -78,7 +83,8 @@ def check_claim(problem: Problem | Derivation, claim: str | Problem | Claim,
     except ValueError as err:
         raise ClaimError(f"{claim_path}: {err}") from None
     pairs = instance_list(derivation, instances, seeds, dims)
-    values = [solve_three(derivation, posed, inst, seed) for inst, seed in pairs]
+    steps = progress(pairs) if progress is not None else pairs
+    values = [solve_three(derivation, posed, inst, seed) for inst, seed in steps]
     return _report(loaded, matching, symbolic, values, [inst for inst, _ in pairs],
                    derivation.problem.sense, counterexample_path)
 
@@ -95,7 +101,9 @@ def _as_claim(primal: Problem, claim: str | Problem | Claim, path: str) -> Claim
 
 
 def instance_list(derivation: Derivation, given: Sequence[Instance], seeds: Sequence[int],
-                    dims: dict[str, int] | None) -> list[tuple[Instance, int | None]]:
+                  dims: dict[str, int] | None) -> list[tuple[Instance, int | None]]:
+    """The given instances, then one random instance per seed, made as ``verify`` makes
+    them, so that a claim is tested where the primal and the true dual are finite."""
     from dualize.numeric.dual_data import make_dual_feasible
     from dualize.numeric.instance import random_instance
 

@@ -12,7 +12,7 @@ from typing import Any
 
 import click
 
-from dualize.commands.common import dims_option, emit, load_problem, user_errors
+from dualize.commands.common import dims_option, emit, load_problem, progress, user_errors
 from dualize.errors import DualizeError
 
 DEFAULT_RANDOM = 3
@@ -61,7 +61,8 @@ def _run(file: str, claim_path: str, data: str | None, count: int, seed: int, di
     if not instances and count == 0:
         raise DualizeError("nothing to check on: give --data or --random N with N >= 1", 2)
     return check_claim(problem, text, instances, [seed + k for k in range(count)], sizes,
-                       claim_path, save_path or default_path(claim_path))
+                       claim_path, save_path or default_path(claim_path),
+                       progress=lambda items: progress(items, "checking"))
 
 
 def _read_claim(path: str) -> str:

@@ -142,3 +142,29 @@ def test_maximization_claim_below_the_optimum_is_invalid() -> None:
     assert report.counterexample is not None
     n = report.counterexample.dims["n"]
     assert math.isclose(row.values.claim_value, row.values.primal_value - n, rel_tol=1e-5)
+
+
+def test_partition_dual_is_equivalent_though_below_the_primal() -> None:
+    # Boyd and Vandenberghe, 2004, section 5.1.5 (from memory): for minimize x'Wx s.t.
+    # x_i^2 = 1, g(nu) = -1'nu on W + diag(nu) succeq 0, and only weak duality holds.  The
+    # bundled instance has a gap: the claim equals d* and stays below p*, found here by
+    # enumerating every sign vector.
+    import itertools
+    import json
+
+    import numpy as np
+
+    from dualize.numeric.instance import read_instance
+    from tests.checking.paths import EXAMPLES
+
+    problem = example("shift_partition")
+    path = EXAMPLES / "shift_partition.json"
+    report = check_claim(problem, claim_text("partition_dual"),
+                         instances=[read_instance(str(path), problem)], seeds=())
+    assert report.verdict == "equivalent" and report.method == "symbolic"
+    W = np.asarray(json.loads(path.read_text())["W"], dtype=float)
+    best = min(float(np.array(x) @ W @ np.array(x))
+               for x in itertools.product((-1.0, 1.0), repeat=W.shape[0]))
+    [row] = report.instances
+    assert row.values.claim_value < best - 1e-3
+    assert any("not certifiably convex" in m for m in report.messages)

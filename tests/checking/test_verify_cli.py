@@ -144,3 +144,32 @@ def test_bad_input_exits_2(tmp_path: Path) -> None:
 def test_output_is_deterministic() -> None:
     args = (str(EXAMPLES / "flour_blend_lp.prob"), "--random", "2", "--format", "json")
     assert _run(*args).output == _run(*args).output
+
+
+class _Terminal:
+    """A stand-in for stderr that says it is a terminal and keeps what is written."""
+
+    def __init__(self, tty: bool) -> None:
+        self.tty = tty
+        self.text = ""
+
+    def isatty(self) -> bool:
+        return self.tty
+
+    def write(self, text: str) -> int:
+        self.text += text
+        return len(text)
+
+    def flush(self) -> None:
+        pass
+
+
+def test_progress_bar_only_on_a_terminal_and_for_several_items(monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    import dualize.commands.common as common
+
+    for tty, items, shown in ((True, [1, 2, 3], True), (False, [1, 2, 3], False),
+                              (True, [1], False)):
+        fake = _Terminal(tty)
+        monkeypatch.setattr(common.sys, "stderr", fake)
+        assert list(common.progress(items, "verifying")) == items
+        assert ("verifying" in fake.text) == shown
