@@ -68,7 +68,7 @@ SLATER_UNDECIDED = _kind(
 )
 DUAL_UNBOUNDED = _kind(
     "dual-unbounded", "warning",
-    "the Lagrangian is unbounded below in '{name}' for every multiplier: the dual "
+    "the Lagrangian is unbounded {direction} in '{name}' for every multiplier: the dual "
     "function is {value} everywhere",
     "A concave quadratic objective under affine constraints makes every dual bound "
     "trivial; the dual carries no information.",

@@ -108,8 +108,10 @@ def _dual_unbounded(problem: Problem, conv: Convexity) -> list[Diagnostic]:
     name = _quadratic_direction(problem.objective, problem)
     if name is None:
         return []
-    value = "minus infinity" if problem.sense == "minimize" else "plus infinity"
-    return [make(R.DUAL_UNBOUNDED, problem.path, problem.objective_span, name=name, value=value)]
+    low = problem.sense == "minimize"
+    return [make(R.DUAL_UNBOUNDED, problem.path, problem.objective_span, name=name,
+                 direction="below" if low else "above",
+                 value="minus infinity" if low else "plus infinity")]
 
 
 def _quadratic_direction(obj: E.Expr, problem: Problem) -> str | None:

@@ -84,3 +84,11 @@ def test_output_is_deterministic() -> None:
     text = TRIGGERS[1][1]
     first = analyze(load_problem(text))
     assert all(analyze(load_problem(text)) == first for _ in range(3))
+
+
+def test_dual_unbounded_for_a_maximized_convex_quadratic() -> None:
+    # maximize x'x under affine constraints: sup of the Lagrangian is +inf everywhere
+    found = [d for d in analyze(load_problem(
+        "data b in R\nmaximize x' * x\nover x in R^n\ns.t.\n  c: sum(x) <= b\n")).diagnostics
+        if d.rule == "dual-unbounded"]
+    assert found and "above" in found[0].message and "plus infinity" in found[0].message
