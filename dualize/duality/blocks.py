@@ -150,7 +150,9 @@ def _definite(x: Symbol, H: Expr, g: Expr | None, r: Expr) -> Outcome:
             "minimize-quadratic", f"The Lagrangian is a positive definite quadratic in {x.name} "
             "with no linear term: minimized at zero.", block=x.name)])
     xstar = tidy(b.neg(b.mul(Hinv, g)))
-    value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)), b.mul(b.transpose(g), Hinv, g))))
+    form = (b.mul_scalars(Hinv, b.power(g, sympy.Integer(2))) if g.shape.is_scalar
+            else b.mul(b.transpose(g), Hinv, g))
+    value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)), form)))
     grad = b.add(b.mul(H, x), g)
     text = (f"The Lagrangian is a strictly convex quadratic in {x.name}; setting its gradient "
             f"to zero gives the minimizer, and substituting it gives the infimum.")

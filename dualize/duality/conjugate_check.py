@@ -268,12 +268,24 @@ def _diverges(claim: Claim, s: float, direction: float) -> str | None:
     lo, hi, _, _ = claim.t_domain
     if not math.isfinite(hi if direction > 0 else lo):
         anchor = lo if direction > 0 and math.isfinite(lo) else hi if math.isfinite(hi) else 0.0
-        values = [_gap(claim, s)(anchor + direction * 10.0**k) for k in range(1, 9)]
+        values = [_gap(claim, s)(anchor + direction * 10.0**k) for k in range(1, 13)]
         if all(v is not None for v in values) and _grows(values):  # type: ignore[arg-type]
             return None
     return f"the sup at s = {s:.6g}, outside the domain, was not seen to diverge"
 
 
 def _grows(values: Sequence[float]) -> bool:
-    tail = values[-4:]
-    return all(b >= a for a, b in zip(tail, tail[1:], strict=False)) and values[-1] - values[0] >= 5
+    """Values at t = 10, 100, ... that run off to +infinity, at least like a logarithm.
+
+    Growth by 5 or more with a rising tail is divergence; so are gains per decade
+    that stay positive and do not shrink (a log grows by the same amount each
+    decade, while a convergent 1/t gains ten times less each decade).
+    """
+    gains = [b - a for a, b in zip(values, values[1:], strict=False)][-6:]
+    if any(g < 0 for g in gains[-3:]):
+        return False
+    if values[-1] - values[0] >= 5:
+        return True
+    return all(g > 0 for g in gains) and all(
+        b >= 0.9 * a for a, b in zip(gains, gains[1:], strict=False)
+    )

@@ -393,7 +393,7 @@ def _collect(terms: list[Term]) -> list[Term]:
             groups[key] = Term(old.coef + t.coef, old.scalars, old.chain)
         else:
             groups[key] = t
-    kept = [t for t in groups.values() if sympy.simplify(t.coef) != 0]
+    kept = [t for t in groups.values() if sympy.expand(t.coef) != 0]
     return sorted(kept, key=_term_order)
 
 
