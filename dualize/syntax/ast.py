@@ -89,7 +89,7 @@ class Size(Node):
 
     @property
     def is_number(self) -> bool:
-        return self.text.isdigit()
+        return self.text.isdecimal()
 
 
 @dataclass(frozen=True)

@@ -101,3 +101,11 @@ def test_huge_literals_are_refused_quickly() -> None:
         diagnostics = load(f"minimize {literal} * x over x in R").diagnostics
         assert [d.rule for d in diagnostics] == ["number-out-of-range"]
         assert (diagnostics[0].span.line, diagnostics[0].span.column) == (1, 10)
+
+
+def test_unicode_digit_like_characters_in_sizes() -> None:
+    # '²' is alphanumeric but not a decimal digit; '٣' is the Arabic-Indic digit three.
+    assert [d.rule for d in load("data v in R^²\nminimize x over x in R").diagnostics] == [
+        "bad-size"]
+    loaded = load("data v in R^٣\nminimize sum(v) + x over x in R")
+    assert loaded.problem is not None and loaded.problem.data[0].symbol.shape.rows == 3
