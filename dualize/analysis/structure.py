@@ -115,15 +115,21 @@ def _dual_unbounded(problem: Problem, conv: Convexity) -> list[Diagnostic]:
 
 
 def _quadratic_direction(obj: E.Expr, problem: Problem) -> str | None:
-    """The free variable of a term -c * e'Me (or -c * ||e||^2) in the objective, if any."""
+    """The free variable of a term c * e'Me (or c * ||e||^2) in the objective whose sign
+    makes the Lagrangian unbounded (c < 0 when minimizing, c > 0 when maximizing)."""
+    from dualize.analysis.sign_rules import sign
+
     terms = obj.terms if isinstance(obj, E.Add) else (obj,)
     terms = tuple(pull_scalars(t) if isinstance(t, E.MatMul) else t for t in terms)
     free = {v.name for v in problem.variables if v.domain.kind == "free"}
+    wanted = "neg" if problem.sense == "minimize" else "pos"
     for t in terms:
-        if isinstance(t, E.Scale) and _is_square(t.arg):
-            names = [s.name for s in E.symbols_of(t.arg, "variable")]
-            if names and all(n in free for n in names) and _direction_of(t.arg):
-                return names[0]
+        factor, square = (t.factor, t.arg) if isinstance(t, E.Scale) else (None, t)
+        if not _is_square(square) or (sign(factor) if factor else "pos") != wanted:
+            continue
+        names = [s.name for s in E.symbols_of(square, "variable")]
+        if names and all(n in free for n in names) and _direction_of(square):
+            return names[0]
     return None
 
 
