@@ -185,6 +185,10 @@ def _cautions(symbolic: SymbolicResult, readings: list[Reading], values: list[Va
         out.append("the primal is not certifiably convex: its values come from local solves "
                    "and only bound the optimum; an exceeding claim is still caught, but "
                    "'tight' means tight against those values")
+    if any(v.claim_status == "local" for v in values):
+        out.append("the claim is not certifiably concave (convex for a maximization): it was "
+                   "solved by local searches, which can show it passes the primal optimum "
+                   "but not that it is a bound")
     if verdict == NOT_TIGHT and any(r.agrees for r in readings):
         out.append("the claim matches the derived dual on some instances but not all")
     return out

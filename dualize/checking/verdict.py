@@ -5,8 +5,10 @@ instance (weak duality), and it is the dual when c = d* (the derived dual's
 optimum).  Every comparison uses the tolerance of ``dualize.numeric.verify``.
 A primal value from local solves (a nonconvex primal) is a feasible value, so
 it is at least p*: a claim above it is above p* too, and the verdict
-"invalid" stays sound; a claim below it proves nothing about tightness, so the
-word "tight" is then only relative to that value.  For a maximization every
+"invalid" stays sound; a claim below it is known to be a bound only when it is
+at most the derived dual's optimum (itself at most p* by weak duality).  A
+claim solved only locally (its objective not certifiably concave) is caught
+when it exceeds p, and otherwise decides nothing.  For a maximization every
 inequality turns round.
 """
 
@@ -24,6 +26,7 @@ NOT_TIGHT = "valid bound, not tight"
 INVALID = "invalid: exceeds the primal optimum"
 INFEASIBLE = "claim infeasible or unbounded where the true dual is not"
 UNDECIDED = "undecided"
+EXACT = ("optimal", "inaccurate")
 VERDICTS = (EQUIVALENT, NOT_TIGHT, INVALID, INFEASIBLE, UNDECIDED)
 
 
@@ -48,7 +51,24 @@ def read(values: Values, sense: str) -> Reading:
     tol = tolerance(p, c)
     exceeds = p_ok and c_ok and gap < -tol
     broken = values.claim_status in ("infeasible", "unbounded") and _dual_finite(values)
-    return Reading(gap, exceeds, p_ok and c_ok and gap > tol, _agrees(values, c_ok), broken)
+    below = p_ok and c_ok and gap > tol and _bound_is_sure(values, s)
+    return Reading(gap, exceeds, below, _agrees(values, c_ok), broken)
+
+
+def _bound_is_sure(values: Values, s: float) -> bool:
+    """Whether a claim value below p is known to be a bound at all.
+
+    It is when the claim was solved to optimality (not locally: a local maximum of a
+    claim that is not concave may hide a larger one) and either p is exact or the
+    claim is at most the derived dual's optimum, itself at most p* by weak duality.
+    """
+    if values.claim_status not in EXACT:
+        return False
+    if values.primal_status in EXACT:
+        return True
+    d = values.dual_value
+    return usable(d, values.dual_status) and s * (d - values.claim_value) >= -tolerance(
+        d, values.claim_value)
 
 
 def _dual_finite(values: Values) -> bool:
@@ -59,11 +79,11 @@ def _dual_finite(values: Values) -> bool:
 def _agrees(values: Values, c_ok: bool) -> bool:
     """c equal to d, or to p when the derived dual could not be solved and p is exact."""
     c = values.claim_value
-    if not c_ok:
+    if not c_ok or values.claim_status not in EXACT:
         return False
     if usable(values.dual_value, values.dual_status):
         return abs(c - values.dual_value) <= tolerance(c, values.dual_value)
-    if values.primal_status in ("optimal", "inaccurate"):
+    if values.primal_status in EXACT:
         return abs(c - values.primal_value) <= tolerance(c, values.primal_value)
     return False
 
