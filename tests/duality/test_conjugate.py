@@ -339,3 +339,44 @@ def test_deterministic_across_hash_seeds() -> None:
         outputs.append(run.stdout)
     assert outputs[0] == outputs[1]
     assert len(outputs[0].splitlines()) == 1
+
+
+FAMILIES = {
+    "shifted quadratic": (
+        lambda a, b: a * (T - b) ** 2 / 2 + b,
+        lambda a, b: lambda t: a * (t - b) ** 2 / 2 + b,
+        REALS,
+        (-1e3, 1e3),
+    ),
+    "scaled exponential": (
+        lambda a, b: a * sympy.exp(b * T),
+        lambda a, b: lambda t: a * math.exp(b * t),
+        REALS,
+        (-200.0, 50.0),
+    ),
+    "scaled log barrier": (
+        lambda a, b: -a * sympy.log(b * T),
+        lambda a, b: lambda t: -a * math.log(b * t),
+        POSITIVE,
+        (1e-9, 1e4),
+    ),
+}
+
+
+# Common practice: the conjugate is the supremum of s t - phi(t) by definition; random
+# positive constants in a few families (a, b drawn as exact fractions) exercise branch
+# selection and simplification, compared with scipy's bounded search.
+@settings(max_examples=12, deadline=None)
+@given(
+    st.sampled_from(sorted(FAMILIES)),
+    st.fractions(sympy.Rational(1, 4), 4, max_denominator=8),
+    st.fractions(sympy.Rational(1, 4), 4, max_denominator=8),
+    st.floats(0.05, 0.95),
+)
+def test_random_family_members(name: str, a, b, fraction: float) -> None:  # noqa: ANN001
+    build, numpy_phi, domain, bracket = FAMILIES[name]
+    a, b = sympy.Rational(a.numerator, a.denominator), sympy.Rational(b.numerator, b.denominator)
+    conj = conjugate(build(a, b), T, domain)
+    s = point_in(conj.domain, fraction)
+    expected = independent_sup(numpy_phi(float(a), float(b)), s, bracket)
+    assert float(conj.value.subs(S, s)) == pytest.approx(expected, rel=1e-6, abs=1e-7)
