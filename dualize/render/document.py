@@ -70,6 +70,8 @@ class Formatter(Protocol):
 
     def gradient(self, variable: str, of: str) -> str: ...
 
+    def terms(self, node: ir.Expr) -> tuple[str, ...]: ...
+
 
 @dataclass(frozen=True)
 class Line:
@@ -80,6 +82,7 @@ class Line:
     rhs: str
     tag: str = ""
     note: str = ""
+    rhs_terms: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -219,7 +222,7 @@ def equation_line(equation: Equation, fmt: Formatter, note: str = "") -> Line:
     lhs = equation.lhs
     left = head_text(lhs, fmt) if isinstance(lhs, Head) else fmt.expr(lhs)
     return Line(left, fmt.relation(equation.relation), fmt.expr(equation.rhs),
-                note=fmt.prose(note) if note else "")
+                note=fmt.prose(note) if note else "", rhs_terms=fmt.terms(equation.rhs))
 
 
 def step_view(step: Step, fmt: Formatter) -> StepView:

@@ -7,6 +7,7 @@
 
 from __future__ import annotations
 
+import re
 from typing import Any
 
 from dualize.duality.result import Derivation, DualVariable
@@ -21,7 +22,7 @@ from dualize.render.document import (
     unbounded_sentence,
 )
 from dualize.render.latex_chars import math_symbol, text_character
-from dualize.render.latex_printer import IRLatexPrinter, latex_expr, latex_relation
+from dualize.render.latex_printer import IRLatexPrinter, latex_expr, latex_relation, latex_terms
 from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
 from dualize.render.templating import fill
 
@@ -118,6 +119,9 @@ class LatexFormatter:
     def prose(self, text: str) -> str:
         return latex_prose(text)
 
+    def terms(self, node: ir.Expr) -> tuple[str, ...]:
+        return latex_terms(node, **self.settings)
+
     def gradient(self, variable: str, of: str) -> str:
         return rf"\nabla_{{{variable}}} {of}"
 
@@ -160,7 +164,35 @@ def align_block(lines: tuple[Line, ...]) -> str:
 def _align_row(line: Line) -> str:
     if not line.relation:
         return rf"& \text{{{line.note}}}"
-    return f"{line.lhs} &{line.relation} {line.rhs}{_note(line)}"
+    return f"{line.lhs} &{line.relation} {broken_rhs(line)}{_note(line)}"
+
+
+LINE_WIDTH = 64
+"""Visible characters of mathematics that fit beside a left-hand side on a page."""
+
+
+def broken_rhs(line: Line) -> str:
+    """A long sum broken after whole terms onto continuation rows ``& \\quad + ...``."""
+    if visible_width(line.rhs) + visible_width(line.lhs) <= LINE_WIDTH or len(
+            line.rhs_terms) < 2:
+        return line.rhs
+    rows: list[list[str]] = [[]]
+    width = visible_width(line.lhs)
+    for term in line.rhs_terms:
+        if rows[-1] and width + visible_width(term) > LINE_WIDTH:
+            rows.append([])
+            width = 4
+        rows[-1].append(term)
+        width += visible_width(term) + 1
+    return " \\\\\n&\\quad ".join(" ".join(row) for row in rows)
+
+
+def visible_width(latex: str) -> int:
+    """A rough count of the characters a formula shows: commands count one, markup none."""
+    shown = re.sub(r"\\(left|right|quad|,|;|!)", "", latex)
+    shown = re.sub(r"\\(mathbf|mathrm|operatorname|text|tfrac|frac)", "", shown)
+    shown = re.sub(r"\\[A-Za-z]+", "x", shown)
+    return len(re.sub(r"[{}^_\s]", "", shown))
 
 
 def _note(line: Line) -> str:

@@ -17,7 +17,7 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
-from dualize.render.latex import LatexFormatter, problem_block
+from dualize.render.latex import LatexFormatter, broken_rhs, problem_block
 from dualize.render.latex_printer import latex_relation
 from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
 from dualize.render.templating import fill
@@ -69,7 +69,7 @@ def aligned(lines: tuple[Line, ...]) -> str:
 def _row(line: Line) -> str:
     if not line.relation:
         return rf"& \text{{{line.note}}}"
-    return f"{line.lhs} &{line.relation} {line.rhs}" + (
+    return f"{line.lhs} &{line.relation} {broken_rhs(line)}" + (
         rf" \quad \text{{({line.note})}}" if line.note else "")
 
 

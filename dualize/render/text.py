@@ -100,6 +100,9 @@ class TextFormatter:
     def prose(self, text: str) -> str:
         return text_prose(text)
 
+    def terms(self, node: ir.Expr) -> tuple[str, ...]:
+        return (text_expr(node),)
+
     def gradient(self, variable: str, of: str) -> str:
         small = unicode_subscript(variable)
         return f"∇{small} {of}" if small else f"∇_{variable} {of}"

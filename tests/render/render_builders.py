@@ -182,3 +182,12 @@ def lp_derivation(inner: bool = False, unbounded: bool = False,
                                          "stationarity in x"),),
         inner=problem.variables if inner else (), unbounded=unbounded)
     return Derivation(problem, lagrangian, dual.variables, (), dual, (), ())
+
+
+def long_lagrangian_derivation() -> Derivation:
+    """The soft-margin derivation with a Lagrangian of twelve inner-product terms."""
+    from dataclasses import replace
+
+    multipliers = [ir.Symbol(f"lambda{i}", "multiplier", x.shape) for i in range(1, 13)]
+    long = add(*(mm(T(lam), x) for lam in multipliers))
+    return replace(svm_derivation(), lagrangian=long, steps=())

@@ -13,7 +13,13 @@ import re
 from pathlib import Path
 
 import pytest
-from render_builders import FakeAnalysis, lp_derivation, svm_analysis, svm_derivation
+from render_builders import (
+    FakeAnalysis,
+    long_lagrangian_derivation,
+    lp_derivation,
+    svm_analysis,
+    svm_derivation,
+)
 
 from dualize.render.json_out import render_json
 from dualize.render.latex import render_latex, repr_latex
@@ -139,3 +145,15 @@ def test_text_prose_is_wrapped_to_the_terminal_width() -> None:
     out = render_text(svm_derivation(), analysis)
     verdicts = out.split("Problem")[0].splitlines()
     assert len(verdicts) > 6 and max(len(line) for line in verdicts) <= WIDTH
+
+
+def test_long_sums_break_after_whole_terms() -> None:
+    from dualize.render.latex import LINE_WIDTH, visible_width
+
+    out = render_latex(long_lagrangian_derivation())
+    block = out.split("\\begin{align*}\n")[1].split("\n\\end{align*}")[0]
+    rows = block.split(" \\\\\n")
+    assert len(rows) >= 2
+    assert all(r.startswith("&\\quad + ") for r in rows[1:])
+    assert all(visible_width(r) <= LINE_WIDTH + 12 for r in rows)
+    assert "".join(rows).count("\\lambda_{") == 12

@@ -13,7 +13,13 @@ from dataclasses import replace
 from pathlib import Path
 
 import pytest
-from render_builders import FakeAnalysis, lp_derivation, svm_analysis, svm_derivation
+from render_builders import (
+    FakeAnalysis,
+    long_lagrangian_derivation,
+    lp_derivation,
+    svm_analysis,
+    svm_derivation,
+)
 
 from dualize.model import expr as ir
 from dualize.render.latex import render_latex
@@ -33,6 +39,7 @@ def unusual_characters() -> str:
 
 
 DOCUMENTS = {
+    "long_lagrangian": lambda: render_latex(long_lagrangian_derivation(), standalone=True),
     "unusual_characters": unusual_characters,
     "svm": lambda: render_latex(svm_derivation(), svm_analysis(), standalone=True),
     "lp_inner": lambda: render_latex(lp_derivation(inner=True, domain="nonneg"),
