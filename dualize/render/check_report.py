@@ -2,8 +2,8 @@
 
 Numbers that are not finite (an infeasible problem's +inf, a failed solve's
 NaN) are written as ``null`` in JSON; the status beside them says why.  The
-text form closes with the verdict and with the caution that numbers hold for
-the model as written and within solver tolerances.
+text form states the caution that numbers hold for the model as written and
+within solver tolerances, and closes with the verdict.
 """
 
 from __future__ import annotations
@@ -74,16 +74,16 @@ def _verify_instance(c: InstanceCheck) -> dict[str, Any]:
 
 
 def verify_text(report: VerifyReport, convex: bool | None, sense: str = "minimize") -> str:
-    """A table of the instances, the messages, a verdict line and the caution."""
+    """A table of the instances, the messages, the caution and a closing verdict line."""
     header = ["instance", "primal", "dual", "gap", "statuses", "multiplier error"]
     rows = [[_label(c.source, c.seed), cell(c.primal_value), cell(c.dual_value), cell(c.gap),
              f"{c.primal_status}/{c.dual_status}", cell(c.multiplier_error)]
             for c in report.checks]
     lines = table(header, rows) + [""]
     lines += [f"note: {m}" for m in report.messages]
+    lines.append(CAUTION)
     lines.append(f"verdict: {report.verdict} (largest |gap| {cell(report.max_abs_gap)})"
                  + _weak_clause(convex, sense))
-    lines.append(CAUTION)
     return "\n".join(lines)
 
 
@@ -134,7 +134,7 @@ def _check_instance(i: Any) -> dict[str, Any]:
 
 
 def check_text(report: ClaimReport) -> str:
-    """Matched variables, a table of the instances, the reasons, the verdict."""
+    """Matched variables, a table of the instances, the reasons, the caution, the verdict."""
     lines = [_matching_line(report)]
     if report.borrowed:
         lines.append("data taken from the primal: " + ", ".join(report.borrowed))
@@ -149,9 +149,9 @@ def check_text(report: ClaimReport) -> str:
     lines += [f"note: {m}" for m in report.messages]
     if report.counterexample_path:
         lines.append(f"counterexample written to {report.counterexample_path}")
+    lines.append(CAUTION)
     lines.append(f"verdict: {report.verdict} (by {report.method} means)"
                  if report.method != "none" else f"verdict: {report.verdict}")
-    lines.append(CAUTION)
     return "\n".join(lines)
 
 

@@ -173,3 +173,10 @@ def test_progress_bar_only_on_a_terminal_and_for_several_items(monkeypatch) -> N
         monkeypatch.setattr(common.sys, "stderr", fake)
         assert list(common.progress(items, "verifying")) == items
         assert ("verifying" in fake.text) == shown
+
+
+def test_text_report_closes_with_the_verdict() -> None:
+    result = _run(str(EXAMPLES / "joinery_lp.prob"))
+    lines = result.output.rstrip("\n").splitlines()
+    assert lines[-1].startswith("verdict: zero-gap")
+    assert "within solver tolerances" in lines[-2]
