@@ -180,3 +180,16 @@ def test_text_report_closes_with_the_verdict() -> None:
     lines = result.output.rstrip("\n").splitlines()
     assert lines[-1].startswith("verdict: zero-gap")
     assert "within solver tolerances" in lines[-2]
+
+
+def test_scalar_textbook_values() -> None:
+    # Boyd and Vandenberghe, 2004, exercise 5.1 (from memory): minimize x^2 + 1 s.t.
+    # (x - 2)(x - 4) <= 0 has p* = d* = 5.  J. Nocedal and S. Wright, Numerical
+    # Optimization, 2nd ed., 2006, chapter 12 (from memory): minimize x1 + x2 s.t.
+    # 2 - x1^2 - x2^2 >= 0 has p* = -2 at (-1, -1).
+    for name, value in (("window_scalar", 5.0), ("disk_scalar", -2.0)):
+        result = _run(str(EXAMPLES / f"{name}.prob"), "--format", "json")
+        assert result.exit_code == 0, result.output
+        [inst] = json.loads(result.output)["instances"]
+        assert abs(inst["primal_value"] - value) < 1e-6
+        assert abs(inst["dual_value"] - value) < 1e-6
