@@ -309,10 +309,15 @@ def test_random_trees_round_trip(expr: Expr, seed: int) -> None:
 
 
 def divides_by_zero(expr: Expr, env: dict[str, np.ndarray | float]) -> bool:
-    """A division by an expression that vanishes identically (complex infinity in sympy)."""
+    """A division by, or negative power of, something that vanishes identically."""
     for node in walk(expr):
         if isinstance(node, Divide):
-            with np.errstate(all="ignore"):
-                if np.all(np.abs(evaluate(node.right, env)) <= 1e-12):
-                    return True
+            denominator = node.right
+        elif isinstance(node, Power) and node.exponent < 0:
+            denominator = node.base
+        else:
+            continue
+        with np.errstate(all="ignore"):
+            if np.all(np.abs(evaluate(denominator, env)) <= 1e-12):
+                return True
     return False
