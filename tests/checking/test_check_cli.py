@@ -118,3 +118,29 @@ def test_sign_turned_match_is_shown() -> None:
                   "--random", "1")
     assert result.exit_code == 0, result.output
     assert "nu = -z (by shape, sign turned)" in result.output
+
+
+def test_commands_keep_their_exit_codes_inside_the_program_group(tmp_path: Path) -> None:
+    # The program's group turns user errors into exit codes; registered there, the
+    # commands must keep theirs (0 equivalent, 1 otherwise, 2 bad input).
+    import click
+
+    from dualize.cli import DualizeGroup
+    from dualize.commands.verify import verify_command
+
+    @click.group(cls=DualizeGroup)
+    def program() -> None:
+        """A stand-in for the dualize program."""
+
+    program.add_command(check_command)
+    program.add_command(verify_command)
+    runner = CliRunner()
+    primal = str(EXAMPLES / "survey_least_norm.prob")
+    ok = runner.invoke(program, ["check", primal, "--claim", claim_path("least_norm_dual"),
+                                 "--random", "1"])
+    assert ok.exit_code == 0, ok.output
+    loose = runner.invoke(program, ["check", primal, "--claim", claim_path("least_norm_half"),
+                                    "--random", "1"])
+    assert loose.exit_code == 1
+    missing = runner.invoke(program, ["verify", str(tmp_path / "none.prob")])
+    assert missing.exit_code == 2
