@@ -133,28 +133,46 @@ def _report(claim: Claim, matching: Matching, symbolic: SymbolicResult, values: 
 def _messages(verdict: str, symbolic: SymbolicResult, readings: list[Reading],
               values: list[Values]) -> tuple[str, ...]:
     """Sentences that say why the verdict is what it is, with the numbers behind it."""
-    out: list[str] = []
     pairs = list(zip(readings, values, strict=True))
-    if verdict == INVALID:
-        r, v = min(((r, v) for r, v in pairs if r.exceeds), key=lambda rv: rv[0].gap)
-        out.append(f"on {_where(v)} the claim's optimum {v.claim_value:.10g} passes the primal "
-                   f"optimum {v.primal_value:.10g} by {-r.gap:.6g}: weak duality forbids it")
-    elif verdict == INFEASIBLE:
-        v = next(v for r, v in pairs if r.broken)
-        out.append(f"on {_where(v)} the claim is {v.claim_status}, while " + _finite_side(v))
-    elif verdict == NOT_TIGHT:
-        r, v = max(((r, v) for r, v in pairs if r.below), key=lambda rv: rv[0].gap)
-        out.append(f"the claim is on the correct side of the primal optimum everywhere, but "
-                   f"falls short by up to {r.gap:.6g} (on {_where(v)})")
-    elif verdict == EQUIVALENT:
-        out.append(_equivalent_sentence(symbolic, len(values)))
+    if verdict == EQUIVALENT:
+        first = _equivalent_sentence(symbolic, len(values))
+    elif verdict in _HEADLINES:
+        first = _HEADLINES[verdict](pairs)
     else:
-        statuses = sorted({f"{v.primal_status}/{v.dual_status}/{v.claim_status}"
-                           for v in values})
-        out.append("no instance decided the question (primal/dual/claim statuses: "
-                   + ", ".join(statuses) + ")" if values else "no instance was checked")
-    out += _cautions(symbolic, readings, values, verdict)
-    return tuple(out)
+        first = _undecided_sentence(values)
+    return (first, *_cautions(symbolic, readings, values, verdict))
+
+
+Pairs = list[tuple[Reading, Values]]
+
+
+def _invalid_sentence(pairs: Pairs) -> str:
+    r, v = min(((r, v) for r, v in pairs if r.exceeds), key=lambda rv: rv[0].gap)
+    return (f"on {_where(v)} the claim's optimum {v.claim_value:.10g} passes the primal "
+            f"optimum {v.primal_value:.10g} by {-r.gap:.6g}: weak duality forbids it")
+
+
+def _broken_sentence(pairs: Pairs) -> str:
+    v = next(v for r, v in pairs if r.broken)
+    return f"on {_where(v)} the claim is {v.claim_status}, while " + _finite_side(v)
+
+
+def _loose_sentence(pairs: Pairs) -> str:
+    r, v = max(((r, v) for r, v in pairs if r.below), key=lambda rv: rv[0].gap)
+    return ("the claim is never on the wrong side of the primal optimum, but falls short "
+            f"of it by up to {r.gap:.6g} (on {_where(v)})")
+
+
+_HEADLINES = {INVALID: _invalid_sentence, INFEASIBLE: _broken_sentence,
+              NOT_TIGHT: _loose_sentence}
+
+
+def _undecided_sentence(values: list[Values]) -> str:
+    if not values:
+        return "no instance was checked"
+    statuses = sorted({f"{v.primal_status}/{v.dual_status}/{v.claim_status}" for v in values})
+    return ("no instance decided the question (primal/dual/claim statuses: "
+            + ", ".join(statuses) + ")")
 
 
 def _finite_side(v: Values) -> str:
