@@ -24,6 +24,12 @@ def size_of(size: sympy.Expr | int, dims: Dims) -> int:
     """A symbolic size (``n``, ``m + 1``) as an integer, from ``dims``."""
     if isinstance(size, int):
         return size
+    if size.is_Integer:
+        return int(size)
+    if size.is_Symbol:
+        if size.name not in dims:
+            raise KeyError(f"no value for dimension {size.name}")
+        return int(dims[size.name])
     free = sorted(size.free_symbols, key=lambda s: s.name)
     missing = [s.name for s in free if s.name not in dims]
     if missing:

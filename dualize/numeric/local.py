@@ -21,12 +21,18 @@ from dualize.numeric.evaluate import evaluate_2d, shape_of
 from dualize.numeric.instance import Instance
 
 STARTS = 12
+LARGE = 20  # above this many unknowns, finite-difference SLSQP runs are costly
+
+
+def starts_for(size: int) -> int:
+    """Twelve starts for small problems, three beyond ``LARGE`` unknowns."""
+    return STARTS if size <= LARGE else 3
 FEAS_TOL = 1e-6
 
 
 def solve_local(problem: Problem, instance: Instance, fixed: dict[str, np.ndarray],
                 why: str) -> Any:
-    """The best of ``STARTS`` SLSQP runs from random points (seeded: deterministic)."""
+    """The best of several SLSQP runs from random points (seeded: deterministic)."""
     from dualize.numeric.reference import Solution
 
     free = [v for v in problem.variables if v.name not in fixed]
@@ -43,7 +49,8 @@ def solve_local(problem: Problem, instance: Instance, fixed: dict[str, np.ndarra
     value = _objective(problem, instance, point)
     x = {k: _stored(v) for k, v in sorted(point.items())}
     return Solution("local", float(value), x, {},
-                    note=f"{why}; best of {STARTS} local solves (a bound, not p*)")
+                    note=f"{why}; best of {starts_for(layout.size)} local solves "
+                         "(a bound, not p*)")
 
 
 def _unsupported(problem: Problem, free: list[Variable]) -> str:
@@ -121,7 +128,7 @@ def _best_start(problem: Problem, instance: Instance, fixed: dict[str, np.ndarra
         return sign * _objective(problem, instance, {**layout.split(flat), **fixed})
 
     best, best_value = None, np.inf
-    for _ in range(STARTS):
+    for _ in range(starts_for(layout.size)):
         start = _inside(rng.normal(size=layout.size), bounds)
         with np.errstate(all="ignore"):
             res = minimize(goal, start, method="SLSQP", bounds=bounds, constraints=cons,

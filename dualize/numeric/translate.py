@@ -131,7 +131,27 @@ def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     if not middle:
         return _as_2d(ctx.cp, k * ctx.cp.sum_squares(u))
     p = evaluate_2d(ir.MatMul(middle) if len(middle) > 1 else middle[0], ctx.values, ctx.dims)
-    return _as_2d(ctx.cp, k * ctx.cp.quad_form(u, (p + p.T) / 2))
+    return _as_2d(ctx.cp, k * _semidefinite_form(ctx.cp, u, (p + p.T) / 2))
+
+
+SEMIDEFINITE_TOL = 1e-9
+
+
+def _semidefinite_form(cp: Any, u: CvxExpr, p: np.ndarray) -> CvxExpr:
+    """u'Pu as +-||L'u||^2 when P is semidefinite up to rounding, else quad_form.
+
+    A Gram matrix such as diag(y) X X' diag(y) is PSD in exact arithmetic but
+    its computed eigenvalues can dip to -1e-16, which cvxpy's own PSD test
+    rejects; factoring P = V diag(w) V' with the rounding clipped keeps the
+    form certifiable.
+    """
+    w, v = np.linalg.eigh(p)
+    scale = max(1.0, float(np.max(np.abs(w)))) if w.size else 1.0
+    if w.size and w[0] >= -SEMIDEFINITE_TOL * scale:
+        return cp.sum_squares((np.sqrt(np.clip(w, 0.0, None))[:, None] * v.T) @ u)
+    if w.size and w[-1] <= SEMIDEFINITE_TOL * scale:
+        return -cp.sum_squares((np.sqrt(np.clip(-w, 0.0, None))[:, None] * v.T) @ u)
+    return cp.quad_form(u, p)
 
 
 def _squared_norm(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:

@@ -85,3 +85,24 @@ def test_pushed_transpose_identifies_both_spellings() -> None:
     column = ir.Add((ir.MatMul((ir.Transpose(G), y)), q))
     assert pushed_transpose(written) == pushed_transpose(ir.Transpose(column))
     assert pushed_transpose(ir.Transpose(column)) != pushed_transpose(column)
+
+
+def test_rank_deficient_gram_form_stays_certified() -> None:
+    # a' diag(y) X X' diag(y) a is a squared norm, concave when negated (the soft-margin
+    # dual; C. Cortes and V. Vapnik, Support-vector networks, 1995; from memory), even
+    # when rounding makes the m x m Gram matrix's smallest eigenvalue slightly negative.
+    from numeric_handbuilt import m
+
+    rng = np.random.default_rng(3)
+    X = ir.Symbol("X", "data", shape(m, n))
+    yv = ir.Symbol("y", "data", shape(m))
+    a = ir.Symbol("a", "multiplier", shape(m))
+    values = {"X": rng.normal(size=(30, 2)), "y": np.sign(rng.normal(size=30))}
+    chain = ir.MatMul((ir.Transpose(a), ir.Diag(yv), X, ir.Transpose(X), ir.Diag(yv), a))
+    expr = ir.Scale(num("-1/2"), chain)
+    av = cp.Variable((30, 1))
+    av.value = rng.normal(size=(30, 1))
+    got = to_cvxpy(expr, {"a": av}, values, {"m": 30, "n": 2})
+    assert got.is_concave()
+    want = evaluate(expr, {**values, "a": av.value}, {"m": 30, "n": 2})
+    assert float(got.value) == pytest.approx(want, rel=1e-9)
