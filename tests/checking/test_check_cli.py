@@ -69,6 +69,12 @@ def test_unbounded_claim_has_its_own_verdict(tmp_path: Path) -> None:
     assert result.exit_code == 1
     assert "verdict: claim infeasible or unbounded where the true dual is not" in result.output
     assert "‖Aᵀ gain‖₂ ≤ 1" in result.output
+    data = json.loads(_run(str(EXAMPLES / "antenna_norm_min.prob"), "--claim",
+                           claim_path("norm_min_no_ball"), "--random", "1", "--format", "json",
+                           "--save-counterexample", str(tmp_path / "ce.json")).output)
+    [inst] = data["instances"]
+    assert inst["claim_value"] is None and inst["claim_status"] == "unbounded"
+    assert data["counterexample"] == str(tmp_path / "ce.json")
 
 
 def test_wrong_sense_and_bad_files_exit_2(tmp_path: Path) -> None:

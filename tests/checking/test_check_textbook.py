@@ -74,6 +74,10 @@ NUMERIC_ONLY = [
     # derivation states nu <= 0 explicitly (with the opposite sign of nu), which the claim
     # leaves to the domain of log, so only numbers equate the two.
     ("robot_analytic_center", "analytic_center_dual", "robot_analytic_center.json"),
+    # Boyd and Vandenberghe, 2004, section 5.1.3 (from memory): before eliminating it, the
+    # standard-form LP dual keeps lambda >= 0 with A'nu - lambda + c = 0; the derivation
+    # eliminated lambda, so the variables do not pair and only numbers equate the two.
+    ("flour_blend_lp", "lp_standard_with_slack", None),
 ]
 
 
