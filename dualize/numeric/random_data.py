@@ -28,8 +28,9 @@ The feasibility rule, in full:
 5. Before step 4, when x0 violates a constraint that no target covers
    (``sum(x) == 1``), x0 is moved to the nearest point (least squares) that
    satisfies those constraints with a margin of 0.05 and keeps the arguments
-   of every log and sqrt above 0.05; this needs a convex solve and is skipped
-   when those constraints are not convex.
+   of every log and sqrt above 0.05 (then 1e-3, then 1e-6 when that is
+   impossible); this needs a convex solve and is skipped when those
+   constraints are not convex.
 
 Constraints without such a data symbol that x0 cannot be moved into are left
 as they are: the primal is then feasible only if some point happens to satisfy
@@ -271,6 +272,7 @@ def _raise_into_set(value: np.ndarray | float, facts: frozenset[str]) -> np.ndar
 
 
 MARGIN = 0.05
+MARGINS = (MARGIN, 1e-3, 1e-6)  # tried in turn: sum(x) == 1 over n = 40 needs x_i < 0.05
 
 
 def repair_point(problem: Problem, targets: tuple[Target | None, ...],
@@ -281,10 +283,14 @@ def repair_point(problem: Problem, targets: tuple[Target | None, ...],
     env = {**values, **point}
     if all(_holds(c, env, dims) for c in loose):
         return point
-    try:
-        return _project(problem, loose, values, point, dims)
-    except (ValueError, TypeError, ArithmeticError):
-        return point
+    for margin in MARGINS:
+        try:
+            moved = _project(problem, loose, values, point, dims, margin)
+        except (ValueError, TypeError, ArithmeticError):
+            return point
+        if moved is not None:
+            return moved
+    return point
 
 
 def _holds(con: Constraint, env: dict[str, np.ndarray | float], dims: dict[str, int]) -> bool:
@@ -298,8 +304,9 @@ def _holds(con: Constraint, env: dict[str, np.ndarray | float], dims: dict[str, 
 
 
 def _project(problem: Problem, loose: list[Constraint], values: dict[str, np.ndarray | float],
-             point: dict[str, np.ndarray | float], dims: dict[str, int]
-             ) -> dict[str, np.ndarray | float]:
+             point: dict[str, np.ndarray | float], dims: dict[str, int], margin: float
+             ) -> dict[str, np.ndarray | float] | None:
+    """The nearest point satisfying ``loose`` with ``margin``; None when there is none."""
     import cvxpy as cp
 
     from dualize.numeric.reference import domain_constraints, make_variable, run_solver
@@ -309,34 +316,38 @@ def _project(problem: Problem, loose: list[Constraint], values: dict[str, np.nda
     variables, cons = {}, []
     for var in problem.variables:
         if var.domain.kind in ("binary", "integer"):
-            return point
+            raise ValueError("integer domains are not projected onto")
         x, _ = make_variable(var, dims)
         variables[var.name] = x
         cons += domain_constraints(var, x, inst)
     for con in loose:
-        cons.append(_with_margin(con.kind, to_cvxpy(con.function, variables, values, dims)))
-    cons += _log_domains(problem, variables, values, dims)
+        f = to_cvxpy(con.function, variables, values, dims)
+        cons.append(_with_margin(con.kind, f, margin))
+    cons += _log_domains(problem, variables, values, dims, margin)
     distance = sum(cp.sum_squares(variables[k] - np.reshape(np.asarray(point[k]),
                                                              variables[k].shape))
                    for k in sorted(variables))
     prob = cp.Problem(cp.Minimize(distance), cons)
-    if not prob.is_dcp() or run_solver(prob) not in ("optimal", "inaccurate"):
-        return point
+    if not prob.is_dcp():
+        raise ValueError("the loose constraints are not certifiably convex")
+    if run_solver(prob) not in ("optimal", "inaccurate"):
+        return None
     return {k: _stored(np.asarray(v.value)) for k, v in variables.items()}
 
 
-def _with_margin(kind: str, f: object) -> object:
+def _with_margin(kind: str, f: object, margin: float) -> object:
     if kind == "eq":
         return f == 0
     if kind == "psd":
         size = f.shape[0]  # type: ignore[attr-defined]
-        return (f + f.T) / 2 << -MARGIN * np.eye(size)  # type: ignore[attr-defined]
-    return f <= -MARGIN
+        return (f + f.T) / 2 << -margin * np.eye(size)  # type: ignore[attr-defined]
+    return f <= -margin
 
 
 def _log_domains(problem: Problem, variables: dict[str, object],
-                 values: dict[str, np.ndarray | float], dims: dict[str, int]) -> list[object]:
-    """arg >= MARGIN for every log or sqrt of a variable expression that cvxpy accepts."""
+                 values: dict[str, np.ndarray | float], dims: dict[str, int],
+                 margin: float) -> list[object]:
+    """arg >= margin for every log or sqrt of a variable expression that cvxpy accepts."""
     from dualize.numeric.translate import to_cvxpy
 
     exprs = [problem.objective] + [c.function for c in problem.constraints]
@@ -345,7 +356,7 @@ def _log_domains(problem: Problem, variables: dict[str, object],
             and ir.depends_on(node.arg, set(variables))]
     out = []
     for arg in args:
-        con = to_cvxpy(arg, variables, values, dims) >= MARGIN
+        con = to_cvxpy(arg, variables, values, dims) >= margin
         if con.is_dcp():
             out.append(con)
     return out

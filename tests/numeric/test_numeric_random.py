@@ -212,3 +212,11 @@ def test_additive_data_terms_are_targets(seed: int) -> None:
     assert [(t.name, t.side) for t in targets] == [("b", "upper"), ("b2", "equal")]
     inst = random_instance(p, {"m": 6, "n": 2}, seed)
     assert strictly_feasible(p, inst)
+
+
+def test_entropy_instance_feasible_when_the_margin_must_shrink() -> None:
+    # n = 40 entries summing to 1 cannot all exceed the first margin 0.05; the rule
+    # retries with smaller margins, and the reference confirms feasibility.
+    p = entropy_problem()
+    inst = random_instance(p, {"m": 10, "n": 40}, seed=0)
+    assert strictly_feasible(p, inst)
