@@ -22,7 +22,7 @@ from dualize.render.document import (
 )
 from dualize.render.names import PROSE_RELATIONS, prose_pieces, text_name, unicode_subscript
 from dualize.render.templating import fill
-from dualize.render.text_printer import text_expr, text_relation
+from dualize.render.text_printer import text_expr, text_relation, text_terms
 
 __all__ = ["TextFormatter", "render_text", "text_expr"]
 
@@ -101,7 +101,7 @@ class TextFormatter:
         return text_prose(text)
 
     def terms(self, node: ir.Expr) -> tuple[str, ...]:
-        return (text_expr(node),)
+        return text_terms(node)
 
     def gradient(self, variable: str, of: str) -> str:
         small = unicode_subscript(variable)
@@ -127,12 +127,31 @@ def relation_text(line: Line) -> str:
     return f"{line.lhs} {line.relation} {line.rhs}"
 
 
-def equation_rows(lines: tuple[Line, ...]) -> list[str]:
-    """Equations with their relation signs in one column."""
+def equation_rows(lines: tuple[Line, ...], room: int = WIDTH - 6) -> list[str]:
+    """Equations with their relation signs in one column; long sums continue below."""
     width = max((len(line.lhs) for line in lines), default=0)
-    return [f"{line.lhs.rjust(width)} {line.relation} {line.rhs}"
-            + (f"   ({line.note})" if line.note else "") if line.relation else line.note
-            for line in lines]
+    rows: list[str] = []
+    for line in lines:
+        if not line.relation:
+            rows.append(line.note)
+            continue
+        head = f"{line.lhs.rjust(width)} {line.relation} "
+        body = _broken(line, room - len(head))
+        body[-1] += f"   ({line.note})" if line.note else ""
+        rows += [head + body[0]] + [" " * len(head) + more for more in body[1:]]
+    return rows
+
+
+def _broken(line: Line, room: int) -> list[str]:
+    """The right-hand side as lines, broken after whole terms when wider than ``room``."""
+    if len(line.rhs) <= room or len(line.rhs_terms) < 2:
+        return [line.rhs]
+    rows: list[str] = [""]
+    for term in line.rhs_terms:
+        if rows[-1] and len(rows[-1]) + 1 + len(term) > room:
+            rows.append("")
+        rows[-1] = f"{rows[-1]} {term}" if rows[-1] else term
+    return rows
 
 
 def wrap(text: str, first: str = "", rest: str | None = None, width: int = WIDTH) -> list[str]:

@@ -79,16 +79,20 @@ class IRTextPrinter(StrPrinter):
         return "0"
 
     def _print_ir_Add(self, node: ir.Add) -> str:
+        return " ".join(self.add_pieces(node))
+
+    def add_pieces(self, node: ir.Add) -> list[str]:
+        """The terms of a sum as printed, each but the first with its sign: ``a``, ``- b``."""
         terms = st.ordered_terms(node) if self._settings["order_terms"] else st.flat_terms(node)
-        out = ""
+        pieces = []
         for index, term in enumerate(terms):
             negative, magnitude = st.split_sign(term)
             shown = self.wrap(magnitude, st.NEG if negative else st.ADD)
             if index == 0:
-                out = ("-" if negative else "") + shown
+                pieces.append(("-" if negative else "") + shown)
             else:
-                out += (" - " if negative else " + ") + shown
-        return out
+                pieces.append(("- " if negative else "+ ") + shown)
+        return pieces
 
     def _print_ir_Scale(self, node: ir.Scale) -> str:
         negative, magnitude = st.split_sign(node)
@@ -218,6 +222,13 @@ def _juxtapose(pieces: list[str]) -> str:
         out += " · " if piece[:1] in _DIGITS else " "
         out += piece
     return out
+
+
+def text_terms(expr: ir.Expr, **settings: Any) -> tuple[str, ...]:
+    """A sum's printed terms with their signs (one piece for anything else), for line breaks."""
+    if isinstance(expr, ir.Add) and len(expr.terms) > 1:
+        return tuple(IRTextPrinter(settings).add_pieces(expr))
+    return (text_expr(expr, **settings),)
 
 
 def text_expr(expr: ir.Expr, **settings: Any) -> str:

@@ -157,3 +157,14 @@ def test_long_sums_break_after_whole_terms() -> None:
     assert all(r.startswith("&\\quad + ") for r in rows[1:])
     assert all(visible_width(r) <= LINE_WIDTH + 12 for r in rows)
     assert "".join(rows).count("\\lambda_{") == 12
+
+
+def test_long_sums_continue_on_aligned_lines_in_text() -> None:
+    from dualize.render.text import WIDTH
+
+    out = render_text(long_lagrangian_derivation())
+    rows = out.split("Lagrangian\n")[1].split("\n\n")[0].splitlines()
+    assert len(rows) >= 2 and all(len(r) <= WIDTH for r in rows)
+    assert rows[1].lstrip().startswith("+ λ")
+    assert rows[1].index("+") == rows[0].index("=")
+    assert "".join(rows).count("ᵀ x") == 12
