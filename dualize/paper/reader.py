@@ -251,8 +251,8 @@ class Build(Transformer):
     def frac_digits(self, t: Tree) -> T.Frac:
         digits = [ch for ch in str(t.children[0]) if ch.isdigit()]
         span = self._span(t)
-        return T.Frac(T.Num(Fraction(digits[-2]), span=span), T.Num(Fraction(digits[-1]), span=span),
-                      span=span)
+        num, den = (T.Num(Fraction(d), span=span) for d in digits[-2:])
+        return T.Frac(num, den, span=span)
 
     def norm(self, t: Tree) -> T.Norm:
         arg, sub = t.children[1], t.children[3]

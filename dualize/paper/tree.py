@@ -126,7 +126,8 @@ class ForAll(Node):
 
 @dataclass(frozen=True)
 class VarDecl(Node):
-    """A variable under ``\\max``: ``\\lambda``, ``\\lambda \\succeq 0``, ``\\lambda \\in \\mathbb{R}^m_+``."""
+    """A variable under ``\\max``: ``\\lambda``, ``\\lambda \\succeq 0``, or
+    ``\\lambda \\in \\mathbb{R}^m_+`` (read as ``\\lambda \\ge 0``)."""
 
     name: Name
     relation: str | None = None

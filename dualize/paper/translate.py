@@ -1,0 +1,317 @@
+"""A claim of a draft -> a claim file in our language, with a map back to the .tex.
+
+The paper's variables (under the max or min) are matched with the derived dual's
+variables and the primal's multipliers: by the name map first, then by name, then
+by shape (the one assignment under which the translation loads).  The claim text
+declares the primal data it uses, so ``dualize.checking`` reads it as it is.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from itertools import permutations
+
+from dualize.diagnostics import Diagnostic, make
+from dualize.model.expr import Shape
+from dualize.model.problem import Problem
+from dualize.paper import rules as R
+from dualize.paper import tree as T
+from dualize.paper.emit import Emitter, Index, Refusal, Symbol, mentions
+from dualize.paper.locate import PaperClaim
+from dualize.paper.piece import Piece, innermost
+from dualize.paper.reader import read_display
+from dualize.syntax.span import Span
+
+MAX_TRIALS = 24
+
+
+@dataclass(frozen=True)
+class NameMatch:
+    """Paper name -> our name, and how: map | name | shape."""
+
+    paper: str
+    ours: str
+    how: str
+
+
+@dataclass(frozen=True)
+class Translation:
+    """The claim text (None when refused), where each line came from, and findings."""
+
+    claim: PaperClaim
+    text: str | None
+    lines: tuple[Span | None, ...]
+    marks: tuple[tuple[int, int, Span], ...]
+    matches: tuple[NameMatch, ...]
+    diagnostics: tuple[Diagnostic, ...]
+
+    @property
+    def ok(self) -> bool:
+        return self.text is not None and not self.diagnostics
+
+    def tex_span(self, line: int, column: int) -> Span | None:
+        """The .tex span that produced the claim text at (line, column), 1-based."""
+        if self.text is None or not 1 <= line <= len(self.lines):
+            return None
+        offset = sum(len(t) + 1 for t in self.text.split("\n")[:line - 1]) + column - 1
+        return innermost(self.marks, offset) or self.lines[line - 1]
+
+
+def translate(claim: PaperClaim, problem: Problem, derivation: object | None = None
+              ) -> Translation:
+    """Read the claim's display and write it in our language (see the module docstring)."""
+    read = read_display(claim.tex, claim.body_start, claim.body_end, claim.path)
+    if read.problem is None:
+        return Translation(claim, None, (), (), (), read.diagnostics)
+    paper = read.problem
+    try:
+        matches = match_names(claim, paper, problem, _candidates(problem, derivation))
+        built = build(claim, paper, problem, matches)
+    except Refusal as err:
+        diag = make(_kind(err.rule), claim.path, err.span, hint=err.hint, what=err.what)
+        return Translation(claim, None, (), (), (), (diag,))
+    text, lines, marks = built
+    return Translation(claim, text, lines, marks, matches, _loaded(claim, text, lines, marks))
+
+
+def _kind(rule: str) -> object:
+    return {"paper-index": R.PAPER_INDEX, "paper-name": R.PAPER_NAME}.get(
+        rule, R.PAPER_UNSUPPORTED)
+
+
+def _candidates(problem: Problem, derivation: object | None) -> dict[str, Shape]:
+    """Names a claim variable may take: the derived dual's variables, then multipliers."""
+    out: dict[str, Shape] = {}
+    if derivation is None:
+        from dualize.duality.engine import derive
+
+        derivation = derive(problem)
+    for v in derivation.dual.variables:  # type: ignore[attr-defined]
+        out[v.symbol.name] = v.symbol.sym_shape
+    for c in problem.constraints:
+        out.setdefault(c.multiplier.name, c.multiplier.sym_shape)
+    return out
+
+
+def match_names(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
+                candidates: dict[str, Shape]) -> tuple[NameMatch, ...]:
+    """Each paper variable with a candidate name: map, then name, then by shape."""
+    given = dict(claim.name_map)
+    found: list[NameMatch] = []
+    left: list[T.VarDecl] = []
+    for decl in paper.variables:
+        name = decl.name.text
+        if name in given:
+            found.append(NameMatch(name, given[name], "map"))
+        elif name in candidates:
+            found.append(NameMatch(name, name, "name"))
+        else:
+            left.append(decl)
+    if left:
+        found += _by_shape(claim, paper, problem, candidates, found, left)
+    _check_known(paper, candidates, found)
+    return tuple(found)
+
+
+def _check_known(paper: T.PaperProblem, candidates: dict[str, Shape],
+                 found: list[NameMatch]) -> None:
+    for m, decl in zip(found, paper.variables, strict=False):
+        if m.ours not in candidates:
+            raise Refusal("paper-name", decl.span, f"`{m.paper}` is mapped to `{m.ours}`, "
+                          "which is neither a dual variable nor a multiplier of the problem",
+                          "choose one of: " + ", ".join(sorted(candidates)))
+
+
+def _by_shape(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
+              candidates: dict[str, Shape], found: list[NameMatch],
+              left: list[T.VarDecl]) -> list[NameMatch]:
+    """The one assignment of the remaining names under which the translation loads."""
+    free = [n for n in candidates if n not in {m.ours for m in found}]
+    viable: list[list[NameMatch]] = []
+    for k, choice in enumerate(permutations(free, len(left))):
+        if k >= MAX_TRIALS:
+            break
+        trial = [NameMatch(d.name.text, ours, "shape") for d, ours in zip(left, choice,
+                                                                            strict=True)]
+        if _loads(claim, paper, problem, _ordered(paper, found + trial)):
+            viable.append(trial)
+    if len(viable) == 1:
+        return viable[0]
+    names = ", ".join(f"`{d.name.text}`" for d in left)
+    if not viable:
+        raise Refusal("paper-name", left[0].span, f"no multiplier of the problem fits {names} "
+                      "by shape", "give a map: % dualize: claim for FILE map alpha=a")
+    raise Refusal("paper-name", left[0].span, f"several multipliers fit {names} by shape",
+                  "give a map: % dualize: claim for FILE map lambda=capacity")
+
+
+def _ordered(paper: T.PaperProblem, matches: list[NameMatch]) -> tuple[NameMatch, ...]:
+    by = {m.paper: m for m in matches}
+    return tuple(by[d.name.text] for d in paper.variables if d.name.text in by)
+
+
+def _loads(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
+           matches: tuple[NameMatch, ...]) -> bool:
+    from dualize.model import load
+
+    try:
+        text, _, _ = build(claim, paper, problem, matches)
+    except Refusal:
+        return False
+    loaded = load(text, claim.path)
+    return loaded.problem is not None and not any(
+        d.severity == "error" for d in loaded.diagnostics)
+
+
+# ---- writing the claim -------------------------------------------------------
+def build(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
+          matches: tuple[NameMatch, ...]) -> tuple[str, tuple[Span | None, ...], tuple]:
+    """The claim text, the .tex span of each of its lines, and finer marks."""
+    names = _names(problem, matches, _shapes(problem, matches))
+    em = Emitter(names)
+    lines: list[tuple[Piece, Span | None]] = [
+        (Piece(f"# Claim of {claim.path}, line {claim.line} ({claim.environment})"), None)]
+    used = _used_data(paper, problem, names)
+    lines += [(Piece(f"data {d.name} in {d.set_text}"), None) for d in used]
+    lines.append((Piece(paper.sense + " ") + em.expression(paper.objective), paper.span))
+    declared = ", ".join(f"{names[m.paper].name} in {set_text(names[m.paper].shape)}"
+                         for m in matches)
+    lines.append((Piece("over " + declared), paper.span))
+    body = _constraints(em, paper, names)
+    if body:
+        lines.append((Piece("subject to"), None))
+        lines += [(Piece("  ") + piece, span) for piece, span in body]
+    return _assemble(lines)
+
+
+def _assemble(lines: list[tuple[Piece, Span | None]]) -> tuple[str, tuple, tuple]:
+    out = Piece("")
+    for k, (piece, _) in enumerate(lines):
+        out = out + ("\n" if k else "") + piece
+    return out.text + "\n", tuple(span for _, span in lines), out.marks
+
+
+def _shapes(problem: Problem, matches: tuple[NameMatch, ...]) -> dict[str, Shape]:
+    shapes = {c.multiplier.name: c.multiplier.sym_shape for c in problem.constraints}
+    return shapes
+
+
+def _names(problem: Problem, matches: tuple[NameMatch, ...], shapes: dict[str, Shape]
+           ) -> dict[str, Symbol]:
+    names = {d.name: Symbol(d.name, d.symbol.sym_shape) for d in problem.data}
+    for paper, ours in _mapped_data(problem, matches):
+        names[paper] = names[ours]
+    for m in matches:
+        shape = shapes.get(m.ours)
+        if shape is None:
+            shape = _derived_shape(problem, m.ours)
+        names[m.paper] = Symbol(m.ours, shape, variable=True)
+    return names
+
+
+def _mapped_data(problem: Problem, matches: tuple[NameMatch, ...]) -> list[tuple[str, str]]:
+    return []
+
+
+def _derived_shape(problem: Problem, name: str) -> Shape:
+    raise Refusal("paper-name", T.NOWHERE, f"`{name}` has no shape known to the reader")
+
+
+def _used_data(paper: T.PaperProblem, problem: Problem, names: dict[str, Symbol]) -> list:
+    used = {s.name for s in names.values() if not s.variable}
+    return [d for d in problem.data if d.name in used]
+
+
+def _constraints(em: Emitter, paper: T.PaperProblem, names: dict[str, Symbol]
+                 ) -> list[tuple[Piece, Span]]:
+    """The head's conditions (``\\lambda \\succeq 0``), then each chain, pair by pair."""
+    out: list[tuple[Piece, Span]] = []
+    for decl in paper.variables:
+        if decl.relation is not None and decl.bound is not None:
+            chain = T.Chain((decl.name, decl.bound), (decl.relation,), span=decl.span)
+            out += _chain(em, chain, None, names)
+    for chain, index in _indexed_chains(paper):
+        out += _chain(em, chain, index, names)
+    return out
+
+
+def _indexed_chains(paper: T.PaperProblem) -> list[tuple[T.Chain, Index | None]]:
+    """Chains with the for-all condition of their row that follows them, if any."""
+    out: list[tuple[T.Chain, Index | None]] = []
+    waiting: list[T.Chain] = []
+    for item in paper.items:
+        if isinstance(item, T.ForAll):
+            out += [(c, Index(item.index, item.upper)) for c in waiting if c.row == item.row]
+            out += [(c, None) for c in waiting if c.row != item.row]
+            waiting = []
+        else:
+            waiting.append(item)
+    out += [(c, None) for c in waiting]
+    order = {id(c): k for k, c in enumerate(i for i in paper.items if isinstance(i, T.Chain))}
+    return sorted(out, key=lambda pair: order[id(pair[0])])
+
+
+def _chain(em: Emitter, chain: T.Chain, index: Index | None, names: dict[str, Symbol]
+           ) -> list[tuple[Piece, Span]]:
+    out = []
+    for k, relation in enumerate(chain.relations):
+        left, right = chain.terms[k], chain.terms[k + 1]
+        _check_index(chain, index)
+        rel = _relation(relation, chain, names)
+        piece = em.expression(left, index) + f" {rel} " + em.expression(right, index)
+        out.append((piece, chain.span))
+    return out
+
+
+def _check_index(chain: T.Chain, index: Index | None) -> None:
+    if index is not None and not any(mentions(t, index.name) for t in chain.terms):
+        raise Refusal("paper-index", chain.span, f"the condition on {index.name} follows a "
+                      f"constraint that does not use {index.name}")
+
+
+def _relation(relation: str, chain: T.Chain, names: dict[str, Symbol]) -> str:
+    """``\\succeq`` between vectors is the entrywise order; between matrices the PSD one."""
+    if relation not in ("succeq", "preceq"):
+        return relation
+    shapes = [names[n].shape for n in _names_in(chain) if n in names and names[n].variable]
+    if shapes and all(s.is_vector or s.is_scalar for s in shapes):
+        return ">=" if relation == "succeq" else "<="
+    return relation
+
+
+def _names_in(node: T.Node) -> list[str]:
+    from dualize.paper.emit import children
+
+    if isinstance(node, T.Name):
+        return [node.text]
+    if isinstance(node, T.Chain):
+        return [n for t in node.terms for n in _names_in(t)]
+    return [n for c in children(node) for n in _names_in(c)]
+
+
+def set_text(shape: Shape) -> str:
+    if shape.is_scalar:
+        return "R"
+    if shape.cols == 1:
+        return f"R^{shape.rows}"
+    if shape.rows == shape.cols:
+        return f"S^{shape.rows}"
+    return f"R^({shape.rows},{shape.cols})"
+
+
+# ---- findings of the loaded claim, back in the .tex ---------------------------
+def _loaded(claim: PaperClaim, text: str, lines: tuple, marks: tuple) -> tuple[Diagnostic, ...]:
+    from dualize.model import load
+
+    loaded = load(text, claim.path + "#claim")
+    holder = Translation(claim, text, lines, marks, (), ())
+    out = []
+    for d in loaded.diagnostics:
+        if d.severity != "error":
+            continue
+        span = holder.tex_span(d.span.line, d.span.column) if d.span else None
+        line = text.split("\n")[d.span.line - 1] if d.span else ""
+        out.append(make(R.PAPER_CLAIM, claim.path, span, hint=d.hint,
+                        notes=(f"[{d.rule}] in the translation: {line.strip()}",),
+                        message=d.message))
+    return tuple(out)
