@@ -171,6 +171,9 @@ class Emitter:
             return Piece(sym.name + "'")
         return Piece(sym.name)
 
+    def _group(self, node: T.Group, index: Index | None) -> tuple[Piece, int]:
+        return self.emit(node.arg, index)
+
     def _neg(self, node: T.Neg, index: Index | None) -> tuple[Piece, int]:
         return "-" + self.wrapped(node.arg, index, PRODUCT_P), UNARY_P
 
@@ -248,6 +251,17 @@ def mentions(node: T.Node, index: str) -> bool:
     if isinstance(node, T.Name):
         return node.text == index
     return any(mentions(child, index) for child in children(node))
+
+
+def free_use(node: T.Node, index: str) -> bool:
+    """Does ``node`` use the index outside every sum that binds it?"""
+    if isinstance(node, T.Sum):
+        return index not in node.indices and free_use(node.body, index)
+    if isinstance(node, T.Entry):
+        return index in node.indices or free_use(node.target, index)
+    if isinstance(node, T.Name):
+        return node.text == index
+    return any(free_use(child, index) for child in children(node))
 
 
 def children(node: T.Node) -> list[T.Node]:

@@ -184,8 +184,11 @@ class Build(Transformer):
     def signed(self, t: Tree) -> T.Node:
         return t.children[-1]
 
-    def juxt(self, t: Tree) -> T.Binary:
-        return T.Binary("*", t.children[0], t.children[-1], span=self._span(t))
+    def juxt(self, t: Tree) -> T.Node:
+        return absorbed(t.children[0], t.children[-1], self._span(t))
+
+    def group(self, t: Tree) -> T.Group:
+        return T.Group(t.children[0], span=self._span(t))
 
     def big_sum(self, t: Tree) -> T.Sum:
         indices, _eq, _lower, upper, body = t.children[1:]
@@ -270,6 +273,22 @@ class Build(Transformer):
         text = str(tok)
         spelled = greek_name(text) if text.startswith("\\") else text
         return T.Name(spelled, span=self._span(t))
+
+
+def absorbed(left: T.Node, right: T.Node, span: Span) -> T.Node:
+    """``\\log a b`` is the log of ``a b``: an operator without parentheses takes the
+    whole product that follows it, as ``\\sum`` does."""
+    if isinstance(left, T.Call) and not isinstance(left.arg, T.Group):
+        inner = absorbed(left.arg, right, left.arg.span.merge(right.span))
+        return T.Call(left.func, inner, span=span)
+    if isinstance(left, T.Binary) and left.op == "*":
+        return T.Binary("*", left.left, absorbed(left.right, right, span), span=span) \
+            if _ends_in_open_call(left.right) else T.Binary("*", left, right, span=span)
+    return T.Binary("*", left, right, span=span)
+
+
+def _ends_in_open_call(node: T.Node) -> bool:
+    return isinstance(node, T.Call) and not isinstance(node.arg, T.Group)
 
 
 def _split_head(children: list) -> tuple[tuple[str, tuple[T.VarDecl, ...]], list]:

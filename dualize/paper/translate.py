@@ -16,7 +16,7 @@ from dualize.model.expr import Shape
 from dualize.model.problem import Problem
 from dualize.paper import rules as R
 from dualize.paper import tree as T
-from dualize.paper.emit import Emitter, Index, Refusal, Symbol, mentions
+from dualize.paper.emit import Emitter, Index, Refusal, Symbol, free_use
 from dualize.paper.locate import PaperClaim
 from dualize.paper.piece import Piece, innermost
 from dualize.paper.reader import read_display
@@ -27,7 +27,7 @@ MAX_TRIALS = 24
 
 @dataclass(frozen=True)
 class NameMatch:
-    """Paper name -> our name, and how: map | name | shape."""
+    """Paper name -> our name, and how: map | name | shape | only (the one pairing left)."""
 
     paper: str
     ours: str
@@ -63,7 +63,7 @@ def translate(claim: PaperClaim, problem: Problem, derivation: object | None = N
     read = read_display(claim.tex, claim.body_start, claim.body_end, claim.path)
     if read.problem is None:
         return Translation(claim, None, (), (), (), read.diagnostics)
-    paper = read.problem
+    paper = with_variables(read.problem, problem)
     try:
         matches = match_names(claim, paper, problem, _candidates(problem, derivation))
         built = build(claim, paper, problem, matches)
@@ -72,6 +72,59 @@ def translate(claim: PaperClaim, problem: Problem, derivation: object | None = N
         return Translation(claim, None, (), (), (), (diag,))
     text, lines, marks = built
     return Translation(claim, text, lines, marks, matches, _loaded(claim, text, lines, marks))
+
+
+def with_variables(paper: T.PaperProblem, problem: Problem) -> T.PaperProblem:
+    """A problem stated without variables under the max (``\\mbox{maximize} -b^T\\lambda``)
+    has as variables the names it uses that are not data, in order of appearance."""
+    if paper.variables:
+        return paper
+    from dataclasses import replace
+
+    data = {d.name for d in problem.data}
+    seen: dict[str, T.Name] = {}
+    for name in _all_names(paper):
+        if name.text not in data and name.text not in seen and name.text != "e":
+            seen[name.text] = name
+    found = tuple(T.VarDecl(n, span=n.span) for n in seen.values() if not _is_index(n, paper))
+    return replace(paper, variables=found)
+
+
+def _all_names(paper: T.PaperProblem) -> list[T.Name]:
+    from dualize.paper.emit import children
+
+    out: list[T.Name] = []
+    stack: list[T.Node] = [paper.objective, *paper.items]
+    while stack:
+        node = stack.pop(0)
+        if isinstance(node, T.Name):
+            out.append(node)
+        elif isinstance(node, T.Chain):
+            stack[:0] = list(node.terms)
+        else:
+            stack[:0] = children(node)
+    return out
+
+
+def _is_index(name: T.Name, paper: T.PaperProblem) -> bool:
+    """Index letters (of sums and for-all conditions) are not variables."""
+    if len(name.text) != 1:
+        return False
+    indices = {i.index for i in paper.items if isinstance(i, T.ForAll)}
+    return name.text in indices or name.text in _sum_indices(paper)
+
+
+def _sum_indices(paper: T.PaperProblem) -> set[str]:
+    from dualize.paper.emit import children
+
+    out: set[str] = set()
+    stack: list[T.Node] = [paper.objective, *paper.items]
+    while stack:
+        node = stack.pop()
+        if isinstance(node, T.Sum):
+            out.update(node.indices)
+        stack += list(node.terms) if isinstance(node, T.Chain) else children(node)
+    return out
 
 
 def _kind(rule: str) -> object:
@@ -128,15 +181,18 @@ def _by_shape(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
     """The one assignment of the remaining names under which the translation loads."""
     free = [n for n in candidates if n not in {m.ours for m in found}]
     viable: list[list[NameMatch]] = []
-    for k, choice in enumerate(permutations(free, len(left))):
-        if k >= MAX_TRIALS:
-            break
+    trials = list(permutations(free, len(left)))[:MAX_TRIALS]
+    for choice in trials:
         trial = [NameMatch(d.name.text, ours, "shape") for d, ours in zip(left, choice,
                                                                             strict=True)]
         if _loads(claim, paper, problem, _ordered(paper, found + trial)):
             viable.append(trial)
     if len(viable) == 1:
         return viable[0]
+    if not viable and len(trials) == 1:
+        # The only possible pairing: its translation's own errors say what is wrong.
+        return [NameMatch(d.name.text, ours, "only") for d, ours in zip(left, trials[0],
+                                                                          strict=True)]
     names = ", ".join(f"`{d.name.text}`" for d in left)
     if not viable:
         raise Refusal("paper-name", left[0].span, f"no multiplier of the problem fits {names} "
@@ -236,19 +292,24 @@ def _constraints(em: Emitter, paper: T.PaperProblem, names: dict[str, Symbol]
 
 
 def _indexed_chains(paper: T.PaperProblem) -> list[tuple[T.Chain, Index | None]]:
-    """Chains with the for-all condition of their row that follows them, if any."""
-    out: list[tuple[T.Chain, Index | None]] = []
+    """Each chain with the for-all condition that follows it in its row, when the chain
+    uses that index outside a sum (``\\sum_i \\alpha_i y_i = 0, 0 \\le \\alpha_i \\le C,
+    i = 1, \\dots, m``: the condition is the second chain's only)."""
+    bound: dict[int, Index] = {}
     waiting: list[T.Chain] = []
     for item in paper.items:
-        if isinstance(item, T.ForAll):
-            out += [(c, Index(item.index, item.upper)) for c in waiting if c.row == item.row]
-            out += [(c, None) for c in waiting if c.row != item.row]
-            waiting = []
-        else:
+        if isinstance(item, T.Chain):
             waiting.append(item)
-    out += [(c, None) for c in waiting]
-    order = {id(c): k for k, c in enumerate(i for i in paper.items if isinstance(i, T.Chain))}
-    return sorted(out, key=lambda pair: order[id(pair[0])])
+            continue
+        users = [c for c in waiting if c.row == item.row
+                 and any(free_use(t, item.index) for t in c.terms)]
+        if not users:
+            raise Refusal("paper-index", item.span, f"the condition on {item.index} follows "
+                          f"no constraint that uses {item.index}")
+        bound.update({k: Index(item.index, item.upper) for k, c in enumerate(paper.items)
+                      if any(c is u for u in users)})
+        waiting = []
+    return [(c, bound.get(k)) for k, c in enumerate(paper.items) if isinstance(c, T.Chain)]
 
 
 def _chain(em: Emitter, chain: T.Chain, index: Index | None, names: dict[str, Symbol]
@@ -256,17 +317,10 @@ def _chain(em: Emitter, chain: T.Chain, index: Index | None, names: dict[str, Sy
     out = []
     for k, relation in enumerate(chain.relations):
         left, right = chain.terms[k], chain.terms[k + 1]
-        _check_index(chain, index)
         rel = _relation(relation, chain, names)
         piece = em.expression(left, index) + f" {rel} " + em.expression(right, index)
         out.append((piece, chain.span))
     return out
-
-
-def _check_index(chain: T.Chain, index: Index | None) -> None:
-    if index is not None and not any(mentions(t, index.name) for t in chain.terms):
-        raise Refusal("paper-index", chain.span, f"the condition on {index.name} follows a "
-                      f"constraint that does not use {index.name}")
 
 
 def _relation(relation: str, chain: T.Chain, names: dict[str, Symbol]) -> str:

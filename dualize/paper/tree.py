@@ -57,6 +57,13 @@ class Binary(Node):
 
 
 @dataclass(frozen=True)
+class Group(Node):
+    """A parenthesized expression (it ends the argument of ``\\log`` or ``\\exp``)."""
+
+    arg: Node
+
+
+@dataclass(frozen=True)
 class Neg(Node):
     arg: Node
 
