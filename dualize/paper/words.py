@@ -28,7 +28,9 @@ TOKEN_WORDS = {
     "TRANSPOSE": "a transpose (^\\top)", "SUP_ARG": "an exponent", "INFTY": "\\infty",
     "COMMA": ",", "IN": "\\in", "REALS": "\\mathbb{R}", "SET_SIGN": "_+",
     "RANGE": "i = 1, \\dots, m", "IN_RANGE": "\\in \\{1, \\dots, m\\}",
-    "FORALL": "\\forall", "FOR": "\\text{for}", "$END": "the end of the display",
+    "FORALL": "\\forall", "ABS_BAR": "|", "NORM_BAR": "\\|", "NEWROW": "\\\\",
+    "QUAD": "\\quad", "SEMI": ";", "PERIOD": ".", "SUBJECT_TO": "\\text{s.t.}",
+    "UNKNOWN_COMMAND": "a command", "FOR": "\\text{for}", "$END": "the end of the display",
 }
 
 GREEK = ("alpha beta gamma delta epsilon varepsilon zeta eta theta vartheta iota kappa "
