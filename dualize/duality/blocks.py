@@ -98,9 +98,9 @@ def _affine_condition(x: Symbol, g: Expr, r: Expr, rel: str, why: str) -> Outcom
     text = (f"The Lagrangian is affine in {x.name}; it is bounded below only where "
             f"{why}, and then its infimum is the constant part.")
     c = zero_constraint(g, rel, f"the Lagrangian is affine in {x.name}: {why}")
-    shown = (Equation(_grad_head(x), "=", tidy(g)) if rel == "="
-             else Equation(tidy(g), rel, b.zeros(g.shape)))  # type: ignore[arg-type]
-    step = Step("minimize-affine", text, (shown,), block=x.name)
+    shown = (Equation(_grad_head(x), "=", tidy(g)),
+             Equation(tidy(g), rel, b.zeros(g.shape)))  # type: ignore[arg-type]
+    step = Step("minimize-affine", text, shown, block=x.name)
     return Outcome(r, [c], Recovery(x.name, None, _undetermined(x)), [step], gradient=g)
 
 
