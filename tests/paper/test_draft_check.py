@@ -1,0 +1,23 @@
+"""A whole draft checked in one call: each marked claim against its own problem file."""
+
+from __future__ import annotations
+
+from dualize.paper.draft import check_draft
+from tests.paper.helpers import HERE, draft
+
+
+def test_four_textbook_duals_checked_in_one_call() -> None:
+    # Cortes and Vapnik, 1995; Boyd and Vandenberghe, 2004, sections 5.2.1, 5.1.3 and 5.1.6
+    # (all from memory): the soft-margin, LP and entropy duals are right; the least-norm
+    # dual has 1/2 where the conjugate of x'x gives 1/4, which makes its value too low
+    # (a valid bound that is not tight) rather than equivalent.
+    path = str(HERE / "drafts" / "four_duals.tex")
+    results = check_draft(draft("four_duals.tex"), path, seeds=(0, 1))
+    assert [r.line for r in results] == [7, 16, 21, 26]
+    verdicts = [r.verdict for r in results]
+    assert verdicts[0] == verdicts[1] == verdicts[3] == "equivalent", [r.error for r in results]
+    assert verdicts[2] != "equivalent"
+    assert [m.how for m in results[1].translation.matches] == ["map"]
+    assert [r.problem_path.rsplit("/", 1)[-1] for r in results] == [
+        "parts_soft_margin.prob", "joinery_lp.prob", "survey_least_norm.prob",
+        "route_entropy.prob"]
