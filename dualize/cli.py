@@ -104,42 +104,15 @@ def _print_lint(report: LintReport, fmt: str) -> None:
     click.echo(f"{len(report.files)} file(s) checked: {errors} error(s), {warnings} warning(s)")
 
 
-@main.command()
-@click.argument("file", type=click.Path())
-@click.option("--format", "fmt", type=click.Choice(["text", "latex", "markdown", "json"]),
-              default="text", show_default=True, help="The output format.")
-@click.option("-o", "--output", type=click.Path(), default=None,
-              help="Write to this file (atomically) instead of standard output.")
-@click.option("--standalone", is_flag=True, help="LaTeX: a complete document for pdflatex.")
-@click.option("--data", type=click.Path(), default=None,
-              help="An instance (JSON or TOML): strong duality is decided on these values.")
-def derive(file: str, fmt: str, output: str | None, standalone: bool, data: str | None) -> None:
-    """Derive the Lagrange dual of a problem file, with its steps, KKT and recovery."""
-    import os
 
-    from dualize.analysis import analyze
-    from dualize.api import derive as derive_dual
-    from dualize.api import render, write_atomically
+def _register() -> None:
+    """The commands that live in their own modules (each imports nothing heavy)."""
+    from dualize.commands.check import check_command
+    from dualize.commands.derive import derive_command
+    from dualize.commands.verify import verify_command
 
-    derivation = derive_dual(_existing(file))
-    values = None
-    if data is not None:
-        from dualize.numeric.instance import read_instance
-
-        values = read_instance(data, derivation.problem).values
-    analysis = analyze(derivation.problem, values)
-    color = output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
-    text = render(derivation, fmt, analysis, standalone=standalone, color=color)
-    if output is None:
-        click.echo(text, nl=not text.endswith("\n"))
-    else:
-        write_atomically(output, text)
+    for command in (derive_command, verify_command, check_command):
+        main.add_command(command)
 
 
-def _existing(file: str) -> str:
-    from pathlib import Path
-
-    path = Path(file)
-    if not path.is_file():
-        raise DualizeError(f"{file}: no such problem file", exit_code=2)
-    return str(path)
+_register()

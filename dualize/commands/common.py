@@ -41,7 +41,7 @@ def _print_diagnostics(diagnostics: Any, sources: dict[str, str]) -> None:
     click.echo(format_text(diagnostics, sources), err=True)
 
 
-def load_problem(path: str) -> Problem:
+def load_problem(path: str, outcome: str = "nothing was checked") -> Problem:
     """The problem in ``path``; its errors are printed and end the command (exit 2)."""
     from dualize.model import load_file
 
@@ -49,7 +49,7 @@ def load_problem(path: str) -> Problem:
     if loaded.problem is None:
         errors = [d for d in loaded.diagnostics if d.severity == "error"]
         _print_diagnostics(errors, {path: _text(path)})
-        raise DualizeError(f"{path}: the problem has errors; nothing was checked", EXIT_BAD_INPUT)
+        raise DualizeError(f"{path}: the problem has errors; {outcome}", EXIT_BAD_INPUT)
     return loaded.problem
 
 
