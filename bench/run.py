@@ -168,7 +168,8 @@ def report(results: dict[str, object]) -> str:
          "<= 2"),
         ("growth exponent, explicit entries", f"{g['explicit_entries']['exponent']:.2f}", "-"),
         ("growth exponent, numeric sizes", f"{g['numeric_size']['exponent']:.2f}", "~0"),
-        ("peak memory, worst example", f"{mem['derive_peak_mb_worst_example']:.0f} MB", "<= 200 MB"),
+        ("peak memory, worst example", f"{mem['derive_peak_mb_worst_example']:.0f} MB",
+         "<= 200 MB"),
     ]
     width = max(len(r[0]) for r in rows)
     lines = [f"{'figure'.ljust(width)}  {'measured':>28}  target"]
