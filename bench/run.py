@@ -135,7 +135,7 @@ def fitted_exponent(times: dict[int, float]) -> float:
 def peak_memory() -> dict[str, float]:
     """Peak resident memory of one `dualize derive` process, and of a bare sympy import."""
     probe = ("import resource, sys, runpy; sys.argv = {argv!r}; "
-             "exec(compile('try:\\n runpy.run_module(\"dualize.cli\", run_name=\"__main__\")\\n"
+             "exec(compile('try:\\n runpy.run_module(\"dualize\", run_name=\"__main__\")\\n"
              "except SystemExit:\\n pass', 'probe', 'exec')); "
              "print(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)")
     out = {}
