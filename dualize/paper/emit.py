@@ -95,6 +95,11 @@ class Emitter:
             raise Refusal("paper-index", node.span, "an entry of a composite expression")
         if index is None or node.indices != (index.name,):
             return self._named_entry(node, target, index)
+        if self._is_row(node, index) and target.text not in self.names:
+            raise Refusal("paper-index", node.span, f"`{target.text}_{index.name}` is row "
+                          f"{index.name} of a matrix; it is translated only in "
+                          f"{target.text}_{index.name}^T u or {target.text}_i^T "
+                          f"{target.text}_j")
         sym = self.symbol(target)
         if not sym.shape.is_vector:
             raise Refusal("paper-index", node.span, f"`{target.text}_{index.name}` where "

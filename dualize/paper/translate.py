@@ -237,7 +237,8 @@ def build(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
     if body:
         lines.append((Piece("subject to"), None))
         lines += [(Piece("  ") + piece, span) for piece, span in body]
-    return _assemble(lines)
+    text, spans, marks = _assemble(lines)
+    return semidefinite_order(text, claim.path), spans, marks
 
 
 def _assemble(lines: list[tuple[Piece, Span | None]]) -> tuple[str, tuple, tuple]:
@@ -285,9 +286,9 @@ def _constraints(em: Emitter, paper: T.PaperProblem, names: dict[str, Symbol]
     for decl in paper.variables:
         if decl.relation is not None and decl.bound is not None:
             chain = T.Chain((decl.name, decl.bound), (decl.relation,), span=decl.span)
-            out += _chain(em, chain, None, names)
+            out += _chain(em, chain, None)
     for chain, index in _indexed_chains(paper):
-        out += _chain(em, chain, index, names)
+        out += _chain(em, chain, index)
     return out
 
 
@@ -312,35 +313,43 @@ def _indexed_chains(paper: T.PaperProblem) -> list[tuple[T.Chain, Index | None]]
     return [(c, bound.get(k)) for k, c in enumerate(paper.items) if isinstance(c, T.Chain)]
 
 
-def _chain(em: Emitter, chain: T.Chain, index: Index | None, names: dict[str, Symbol]
-           ) -> list[tuple[Piece, Span]]:
+def _chain(em: Emitter, chain: T.Chain, index: Index | None) -> list[tuple[Piece, Span]]:
+    """One constraint line per relation of the chain (``0 <= a <= C`` is two)."""
     out = []
     for k, relation in enumerate(chain.relations):
         left, right = chain.terms[k], chain.terms[k + 1]
-        rel = _relation(relation, chain, names)
-        piece = em.expression(left, index) + f" {rel} " + em.expression(right, index)
+        piece = em.expression(left, index) + f" {relation} " + em.expression(right, index)
         out.append((piece, chain.span))
     return out
 
 
-def _relation(relation: str, chain: T.Chain, names: dict[str, Symbol]) -> str:
-    """``\\succeq`` between vectors is the entrywise order; between matrices the PSD one."""
-    if relation not in ("succeq", "preceq"):
-        return relation
-    shapes = [names[n].shape for n in _names_in(chain) if n in names and names[n].variable]
-    if shapes and all(s.is_vector or s.is_scalar for s in shapes):
-        return ">=" if relation == "succeq" else "<="
-    return relation
+def semidefinite_order(text: str, path: str) -> str:
+    """``\\succeq`` between vectors is the entrywise order (``\\lambda \\succeq 0``), between
+    matrices the semidefinite one: the sides' shape decides, read from the constraint
+    loaded alone as an equality (which loads whenever its shapes conform)."""
+    lines = text.split("\n")
+    if "subject to" not in lines:
+        return text
+    head = lines[:lines.index("subject to") + 1]
+    for k, line in enumerate(lines):
+        if _order_of(line) and _is_vector_constraint(head, line, path):
+            lines[k] = line.replace(" succeq ", " >= ").replace(" preceq ", " <= ")
+    return "\n".join(lines)
 
 
-def _names_in(node: T.Node) -> list[str]:
-    from dualize.paper.emit import children
+def _is_vector_constraint(head: list[str], line: str, path: str) -> bool:
+    from dualize.model import load
 
-    if isinstance(node, T.Name):
-        return [node.text]
-    if isinstance(node, T.Chain):
-        return [n for t in node.terms for n in _names_in(t)]
-    return [n for c in children(node) for n in _names_in(c)]
+    probe = "\n".join([*head, line.replace(" succeq ", " == ").replace(" preceq ", " == ")])
+    loaded = load(probe + "\n", path)
+    if loaded.problem is None or not loaded.problem.constraints:
+        return False
+    shape = loaded.problem.constraints[0].lhs.shape
+    return shape.cols == 1
+
+
+def _order_of(line: str) -> bool:
+    return line.startswith("  ") and (" succeq " in line or " preceq " in line)
 
 
 def set_text(shape: Shape) -> str:
