@@ -63,10 +63,11 @@ def translate(claim: PaperClaim, problem: Problem, derivation: object | None = N
     read = read_display(claim.tex, claim.body_start, claim.body_end, claim.path)
     if read.problem is None:
         return Translation(claim, None, (), (), (), read.diagnostics)
-    paper = with_variables(read.problem, problem)
+    paper = with_variables(read.problem, problem, claim.name_map)
     try:
-        matches = match_names(claim, paper, problem, _candidates(problem, derivation))
-        built = build(claim, paper, problem, matches)
+        shapes = _candidates(problem, derivation)
+        matches = match_names(claim, paper, problem, shapes)
+        built = build(claim, paper, problem, matches, shapes)
     except Refusal as err:
         diag = make(_kind(err.rule), claim.path, err.span, hint=err.hint, what=err.what)
         return Translation(claim, None, (), (), (), (diag,))
@@ -74,7 +75,8 @@ def translate(claim: PaperClaim, problem: Problem, derivation: object | None = N
     return Translation(claim, text, lines, marks, matches, _loaded(claim, text, lines, marks))
 
 
-def with_variables(paper: T.PaperProblem, problem: Problem) -> T.PaperProblem:
+def with_variables(paper: T.PaperProblem, problem: Problem,
+                   claim_map: tuple[tuple[str, str], ...] = ()) -> T.PaperProblem:
     """A problem stated without variables under the max (``\\mbox{maximize} -b^T\\lambda``)
     has as variables the names it uses that are not data, in order of appearance."""
     if paper.variables:
@@ -82,6 +84,7 @@ def with_variables(paper: T.PaperProblem, problem: Problem) -> T.PaperProblem:
     from dataclasses import replace
 
     data = {d.name for d in problem.data}
+    data |= {paper for paper, ours in claim_map if ours in data}
     seen: dict[str, T.Name] = {}
     for name in _all_names(paper):
         if name.text not in data and name.text not in seen and name.text != "e":
@@ -160,16 +163,18 @@ def match_names(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
             found.append(NameMatch(name, name, "name"))
         else:
             left.append(decl)
+    _check_known(paper, candidates, found)
     if left:
         found += _by_shape(claim, paper, problem, candidates, found, left)
-    _check_known(paper, candidates, found)
     return tuple(found)
 
 
 def _check_known(paper: T.PaperProblem, candidates: dict[str, Shape],
                  found: list[NameMatch]) -> None:
-    for m, decl in zip(found, paper.variables, strict=False):
+    spans = {d.name.text: d.span for d in paper.variables}
+    for m in found:
         if m.ours not in candidates:
+            decl = T.VarDecl(T.Name(m.paper), span=spans.get(m.paper, paper.span))
             raise Refusal("paper-name", decl.span, f"`{m.paper}` is mapped to `{m.ours}`, "
                           "which is neither a dual variable nor a multiplier of the problem",
                           "choose one of: " + ", ".join(sorted(candidates)))
@@ -185,7 +190,7 @@ def _by_shape(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
     for choice in trials:
         trial = [NameMatch(d.name.text, ours, "shape") for d, ours in zip(left, choice,
                                                                             strict=True)]
-        if _loads(claim, paper, problem, _ordered(paper, found + trial)):
+        if _loads(claim, paper, problem, _ordered(paper, found + trial), candidates):
             viable.append(trial)
     if len(viable) == 1:
         return viable[0]
@@ -207,11 +212,11 @@ def _ordered(paper: T.PaperProblem, matches: list[NameMatch]) -> tuple[NameMatch
 
 
 def _loads(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
-           matches: tuple[NameMatch, ...]) -> bool:
+           matches: tuple[NameMatch, ...], shapes: dict[str, Shape]) -> bool:
     from dualize.model import load
 
     try:
-        text, _, _ = build(claim, paper, problem, matches)
+        text, _, _ = build(claim, paper, problem, matches, shapes)
     except Refusal:
         return False
     loaded = load(text, claim.path)
@@ -221,9 +226,12 @@ def _loads(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
 
 # ---- writing the claim -------------------------------------------------------
 def build(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
-          matches: tuple[NameMatch, ...]) -> tuple[str, tuple[Span | None, ...], tuple]:
-    """The claim text, the .tex span of each of its lines, and finer marks."""
-    names = _names(problem, matches, _shapes(problem, matches))
+          matches: tuple[NameMatch, ...], shapes: dict[str, Shape]
+          ) -> tuple[str, tuple[Span | None, ...], tuple]:
+    """The claim text, the .tex span of each of its lines, and finer marks.
+
+    ``shapes`` holds the shapes of the names claim variables may take."""
+    names = _names(problem, matches, shapes, claim.name_map)
     em = Emitter(names)
     lines: list[tuple[Piece, Span | None]] = [
         (Piece(f"# Claim of {claim.path}, line {claim.line} ({claim.environment})"), None)]
@@ -248,30 +256,18 @@ def _assemble(lines: list[tuple[Piece, Span | None]]) -> tuple[str, tuple, tuple
     return out.text + "\n", tuple(span for _, span in lines), out.marks
 
 
-def _shapes(problem: Problem, matches: tuple[NameMatch, ...]) -> dict[str, Shape]:
-    shapes = {c.multiplier.name: c.multiplier.sym_shape for c in problem.constraints}
-    return shapes
-
-
-def _names(problem: Problem, matches: tuple[NameMatch, ...], shapes: dict[str, Shape]
-           ) -> dict[str, Symbol]:
+def _names(problem: Problem, matches: tuple[NameMatch, ...], shapes: dict[str, Shape],
+           claim_map: tuple[tuple[str, str], ...] = ()) -> dict[str, Symbol]:
+    """Paper names -> symbols: the problem's data (also under mapped paper names), and
+    the claim's variables under the names they were matched with."""
     names = {d.name: Symbol(d.name, d.symbol.sym_shape) for d in problem.data}
-    for paper, ours in _mapped_data(problem, matches):
-        names[paper] = names[ours]
+    data = dict(names)
+    for paper, ours in claim_map:
+        if ours in data:
+            names[paper] = data[ours]
     for m in matches:
-        shape = shapes.get(m.ours)
-        if shape is None:
-            shape = _derived_shape(problem, m.ours)
-        names[m.paper] = Symbol(m.ours, shape, variable=True)
+        names[m.paper] = Symbol(m.ours, shapes[m.ours], variable=True)
     return names
-
-
-def _mapped_data(problem: Problem, matches: tuple[NameMatch, ...]) -> list[tuple[str, str]]:
-    return []
-
-
-def _derived_shape(problem: Problem, name: str) -> Shape:
-    raise Refusal("paper-name", T.NOWHERE, f"`{name}` has no shape known to the reader")
 
 
 def _used_data(paper: T.PaperProblem, problem: Problem, names: dict[str, Symbol]) -> list:
@@ -330,7 +326,7 @@ def semidefinite_order(text: str, path: str) -> str:
     lines = text.split("\n")
     if "subject to" not in lines:
         return text
-    head = lines[:lines.index("subject to") + 1]
+    head = [_neutral(line) for line in lines[:lines.index("subject to") + 1]]
     for k, line in enumerate(lines):
         if _order_of(line) and _is_vector_constraint(head, line, path):
             lines[k] = line.replace(" succeq ", " >= ").replace(" preceq ", " <= ")
@@ -346,6 +342,14 @@ def _is_vector_constraint(head: list[str], line: str, path: str) -> bool:
         return False
     shape = loaded.problem.constraints[0].lhs.shape
     return shape.cols == 1
+
+
+def _neutral(line: str) -> str:
+    """The objective replaced by 0, so that the probe depends on the constraint alone."""
+    for sense in ("maximize ", "minimize "):
+        if line.startswith(sense):
+            return sense + "0"
+    return line
 
 
 def _order_of(line: str) -> bool:
