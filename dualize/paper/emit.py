@@ -230,6 +230,9 @@ class Emitter:
     def _sum(self, node: T.Sum, index: Index | None) -> tuple[Piece, int]:
         from dualize.paper.sums import double_sum, sum_indices
 
+        if node.lower not in (None, "1"):
+            raise Refusal("paper-index", node.span, f"a sum from {node.lower}: only sums over "
+                          "all entries (from 1) have a matrix form")
         if index is not None:
             raise Refusal("paper-index", node.span, "a sum inside an entrywise expression")
         indices, body = sum_indices(node)

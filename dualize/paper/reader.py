@@ -191,8 +191,9 @@ class Build(Transformer):
         return T.Group(t.children[0], span=self._span(t))
 
     def big_sum(self, t: Tree) -> T.Sum:
-        indices, _eq, _lower, upper, body = t.children[1:]
-        return T.Sum(indices, upper, body, span=self._span(t))
+        indices, _eq, lower, upper, body = t.children[1:]
+        start = str(lower) if lower is not None else None
+        return T.Sum(indices, upper, body, start, span=self._span(t))
 
     def big_sum_short(self, t: Tree) -> T.Sum:
         return T.Sum((t.children[1].text,), None, t.children[2], span=self._span(t))

@@ -20,7 +20,7 @@ def sum_indices(node: T.Sum) -> tuple[tuple[Index, ...], T.Node]:
     """``\\sum_i \\sum_j body`` and ``\\sum_{i,j} body`` alike: the indices and the body."""
     indices = tuple(Index(name, node.upper) for name in node.indices)
     body = node.body
-    if len(indices) == 1 and isinstance(body, T.Sum):
+    if len(indices) == 1 and isinstance(body, T.Sum) and body.lower in (None, "1"):
         inner, body = sum_indices(body)
         indices = indices + inner
     return indices, body

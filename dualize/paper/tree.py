@@ -111,6 +111,7 @@ class Sum(Node):
     indices: tuple[str, ...]
     upper: str | None
     body: Node
+    lower: str | None = None
 
 
 @dataclass(frozen=True)
