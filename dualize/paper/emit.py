@@ -127,8 +127,6 @@ class Emitter:
         return self._product(node, index)
 
     def _product(self, node: T.Binary, index: Index | None) -> tuple[Piece, int]:
-        if _is_ones_transpose(node.left):
-            return "sum(" + self.expression(node.right, index) + ")", ATOM_P
         row = self._row_product(node, index)
         if row is not None:
             return row, ATOM_P
@@ -286,11 +284,6 @@ def check_range(sym: Symbol, index: Index, span: Span) -> None:
     if index.upper is not None and str(sym.shape.rows) != index.upper:
         raise Refusal("paper-index", span, f"{index.name} runs to {index.upper}, but "
                       f"{sym.name} has length {sym.shape.rows}")
-
-
-def _is_ones_transpose(node: T.Node) -> bool:
-    return isinstance(node, T.Transpose) and isinstance(node.arg, T.Constant) \
-        and node.arg.digit == 1
 
 
 __all__ = ["Emitter", "Index", "Refusal", "Symbol", "join", "mentions"]

@@ -24,6 +24,8 @@ from dualize.paper.words import expected_text, found_text, greek_name, relation_
 from dualize.syntax.span import Span
 
 GRAMMAR_NAME = "paper_latex.lark"
+STRICT_HINT = ("strict inequalities are not part of the problem language (a dual's "
+               "feasible set is closed); write \\le or \\ge")
 
 
 def grammar_path() -> Path:
@@ -71,8 +73,10 @@ def _syntax_diagnostic(err: UnexpectedInput, body: str, positions: Positions,
                     expected=expected_text(err.expected))
     if isinstance(err, UnexpectedCharacters):
         span = positions.span(err.pos_in_stream, err.pos_in_stream + 1)
-        return make(PAPER_SYNTAX, path, span, found=f"unexpected `{body[err.pos_in_stream]}`",
-                    expected=expected_text(err.allowed or set()))
+        char = body[err.pos_in_stream]
+        hint = STRICT_HINT if char in "<>" else None
+        return make(PAPER_SYNTAX, path, span, hint=hint, found=f"unknown character `{char}`",
+                    expected="a formula (letters, commands, operators, braces)")
     where = len(body.rstrip())
     expected = err.expected if isinstance(err, (UnexpectedEOF, UnexpectedToken)) else set()
     return make(PAPER_SYNTAX, path, positions.span(where, where + 1),
@@ -187,6 +191,9 @@ class Build(Transformer):
     def juxt(self, t: Tree) -> T.Node:
         return absorbed(t.children[0], t.children[-1], self._span(t))
 
+    def divide(self, t: Tree) -> T.Frac:
+        return T.Frac(t.children[0], t.children[-1], span=self._span(t))
+
     def group(self, t: Tree) -> T.Group:
         return T.Group(t.children[0], span=self._span(t))
 
@@ -278,18 +285,25 @@ class Build(Transformer):
 
 def absorbed(left: T.Node, right: T.Node, span: Span) -> T.Node:
     """``\\log a b`` is the log of ``a b``: an operator without parentheses takes the
-    whole product that follows it, as ``\\sum`` does."""
+    whole product that follows it, as ``\\sum`` does; ``\\mathbf{1}^\\top a b`` is the
+    sum of the entries of ``a b`` (the product is associative)."""
+    if _is_ones_row(left):
+        return T.Call("sum", right, span=span)
     if isinstance(left, T.Call) and not isinstance(left.arg, T.Group):
         inner = absorbed(left.arg, right, left.arg.span.merge(right.span))
         return T.Call(left.func, inner, span=span)
-    if isinstance(left, T.Binary) and left.op == "*":
-        return T.Binary("*", left.left, absorbed(left.right, right, span), span=span) \
-            if _ends_in_open_call(left.right) else T.Binary("*", left, right, span=span)
+    if isinstance(left, T.Binary) and left.op == "*" and _is_open(left.right):
+        return T.Binary("*", left.left, absorbed(left.right, right, span), span=span)
     return T.Binary("*", left, right, span=span)
 
 
-def _ends_in_open_call(node: T.Node) -> bool:
-    return isinstance(node, T.Call) and not isinstance(node.arg, T.Group)
+def _is_open(node: T.Node) -> bool:
+    return _is_ones_row(node) or (isinstance(node, T.Call) and not isinstance(node.arg, T.Group))
+
+
+def _is_ones_row(node: T.Node) -> bool:
+    return isinstance(node, T.Transpose) and isinstance(node.arg, T.Constant) \
+        and node.arg.digit == 1
 
 
 def _split_head(children: list) -> tuple[tuple[str, tuple[T.VarDecl, ...]], list]:

@@ -21,7 +21,7 @@ TOKEN_WORDS = {
     "SUM": "\\sum", "FUNC": "a function (\\log, \\exp, \\operatorname{diag}, ...)",
     "SQRT": "\\sqrt", "NORM_OPEN": "a norm \\|", "NORM_CLOSE": "the closing \\|",
     "ABS_OPEN": "|", "ABS_CLOSE": "the closing |", "LPAR": "(", "RPAR": ")",
-    "LSQB": "[", "RSQB": "]", "LBRACE": "{", "RBRACE": "}", "PLUS": "+", "MINUS": "-",
+    "LSQB": "[", "RSQB": "]", "LBRACE": "{", "RBRACE": "}", "PLUS": "+", "MINUS": "-", "SLASH": "/",
     "CDOT": "\\cdot", "EQ": "=", "REL": "a relation (\\le, \\ge, \\succeq, ...)",
     "SEP": "a separator (\\\\, \\quad, a comma, \\text{s.t.})", "SENSE": "\\max or \\min",
     "UNDERSET": "\\underset", "UNDERSCORE": "_", "CIRCUMFLEX": "^",

@@ -36,7 +36,7 @@ REFUSED = [
      "`\\mathop` is not a command"),
     (r"\max_{\nu} -\frac{1}{4} \nu^\top (A A^\top \nu", LN, "paper-syntax", 47, "expected ), +, -"),
     (r"\max_{\nu} -b^\top \nu \quad \text{s.t.} \quad \nu < 0", LN, "paper-syntax", 52,
-     "unexpected `<`"),
+     "unknown character `<`"),
     (r"\max_{\nu} -b^\top \nu \quad \text{s.t.} \quad \|\nu\|_3 \le 1", LN, "paper-unsupported",
      48, "subscript 3"),
     (r"\max_{\nu} -b^\top \nu^{\nu}", LN, "paper-unsupported", 25, "not a number"),
@@ -67,6 +67,8 @@ def test_fragment_is_refused_where_it_goes_wrong(body: str, problem: str, rule: 
     assert d.rule == rule and d.path == "fragment.tex"
     assert d.span is not None and (d.span.line, d.span.column) == (3, column)
     assert says in d.message
+    if "`<`" in says:
+        assert d.hint is not None and "\\le" in d.hint
 
 
 def test_corpus_is_large_enough() -> None:

@@ -23,6 +23,8 @@ LEAST_NORM = [
     r"\max_{\nu} -\frac{1}{4}\sum_{i=1}^{m}\sum_{j=1}^{m} \nu_i a_i^\top a_j \nu_j"
     r" - \sum_i \nu_i b_i",
     r"\max_{\nu} \; \left( -\frac{1}{4} \nu^\top A A^\top \nu - b^\top \nu \right)",
+    r"\max_{\nu} -\nu^\top A A^\top \nu / 4 - \mathbf{1}^\top \operatorname{diag}(b) \nu",
+    r"\max_{\nu} -\frac{(A^\top\nu)^\top A^\top \nu}{4} - \nu^\top b",
 ]
 
 
