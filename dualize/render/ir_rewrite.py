@@ -206,6 +206,7 @@ def _matmul(expr: ir.MatMul) -> ir.Expr:
     if any(_is_zero(f) for f in factors):
         return ir.Zero(expr.shape)
     factors = [f for f in factors if not isinstance(f, ir.Identity)] or factors[:1]
+    factors = _merge_diagonals(factors)
     core = _distribute(factors) if factors else ONE
     core = _diagonal_to_elementwise(core)
     for scalar in reversed(scalars):
@@ -235,6 +236,17 @@ def _distribute(factors: list[ir.Expr]) -> ir.Expr:
     return ir.MatMul(tuple(factors)) if len(factors) > 1 else factors[0]
 
 
+def _merge_diagonals(factors: list[ir.Expr]) -> list[ir.Expr]:
+    """diag(a) diag(b) is diag(a .* b)."""
+    out: list[ir.Expr] = []
+    for factor in factors:
+        if out and isinstance(out[-1], ir.Diag) and isinstance(factor, ir.Diag):
+            out[-1] = ir.Diag(ir.Hadamard(out[-1].arg, factor.arg))
+        else:
+            out.append(factor)
+    return out
+
+
 def _diagonal_to_elementwise(expr: ir.Expr) -> ir.Expr:
     """diag(d) @ (vector tail) is d .* tail; (row head) @ diag(d) is (d .* head')'."""
     if not isinstance(expr, ir.MatMul):
@@ -258,6 +270,8 @@ def _hadamard(expr: ir.Hadamard) -> ir.Expr:
     if _is_zero(left) or _is_zero(right):
         return ir.Zero(expr.shape)
     for one, other in ((left, right), (right, left)):
+        if isinstance(one, ir.Power) and one.exponent == -1 and one.base == other:
+            return ir.Ones(length(expr.shape)) if not is_scalar(expr) else ONE
         if isinstance(one, ir.Ones):
             return other
         if isinstance(one, ir.Broadcast):

@@ -3,10 +3,12 @@
 The method follows the dual's structure, the reason a dual is worth solving:
 a linear dual goes to an LP solver; a dual whose only constraints are bounds
 (nonnegative multipliers, boxes left by eliminated slacks) to L-BFGS-B with
-the analytic gradient; bounds plus linear equalities to a bound-constrained
-augmented Lagrangian (J. Nocedal and S. Wright, Numerical Optimization, 2nd
-ed., 2006, section 17.4) whose inner problems are again L-BFGS-B; anything
-else smooth to SLSQP with analytic Jacobians.  A semidefinite dual needs a
+the analytic gradient; bounds plus linear equalities to an augmented
+Lagrangian (J. Nocedal and S. Wright, Numerical Optimization, 2nd ed., 2006,
+section 17.4) whose inner problems on the bounds go to the spectral projected
+gradient method (E. Birgin, J. Martinez, M. Raydan, SIAM J. Optim., 2000),
+measured much faster than L-BFGS-B on thousands of bounded multipliers;
+anything else smooth to SLSQP with analytic Jacobians.  A semidefinite dual needs a
 conic solver, which the generated module says instead of guessing.
 """
 
@@ -192,8 +194,9 @@ def _choose(
             "analytic gradient"
     elif affine and all(g.relation == "=" for g in general):
         method = "augmented"
-        reason = "bounds and linear equalities: a bound-constrained augmented Lagrangian " \
-            "with L-BFGS-B inner solves"
+        reason = "bounds and linear equalities: an augmented Lagrangian (method of " \
+            "multipliers) whose inner problems on the bounds are solved by the spectral " \
+            "projected gradient method"
     else:
         method = "slsqp"
         reason = "general smooth constraints: SLSQP with analytic Jacobians"
