@@ -24,7 +24,7 @@ class RuleKind:
     severity: Severity
     template: str
     why: str
-    stage: Literal["syntax", "model", "analysis", "instance"]
+    stage: Literal["syntax", "model", "analysis", "instance", "paper"]
 
 
 @dataclass(frozen=True)
