@@ -56,7 +56,11 @@ def translation_for(claim_arg: str, problem: Problem,
     claim cannot be found or translated.
     """
     path, label = split_claim_path(claim_arg)
-    claims = find_claims(_read(path), path, label)
+    tex = _read(path)
+    try:
+        claims = find_claims(tex, path, label)
+    except PaperError as err:
+        raise PaperError(err.message, err.diagnostics, tex) from None
     if len(claims) > 1:
         raise PaperError(f"{path}: {len(claims)} claims are marked; select one with "
                          f"{path}#LABEL")
@@ -64,7 +68,7 @@ def translation_for(claim_arg: str, problem: Problem,
     if not translation.ok:
         first = translation.diagnostics[0].message if translation.diagnostics else ""
         raise PaperError(f"{path}: the claim cannot be translated: {first}",
-                         translation.diagnostics)
+                         translation.diagnostics, tex)
     return translation
 
 

@@ -30,9 +30,11 @@ LABEL = re.compile(r"\\label\s*\{(?P<label>[^{}]*)\}")
 class PaperError(DualizeError):
     """No claim where one was asked for (exit code 2), with located diagnostics."""
 
-    def __init__(self, message: str, diagnostics: tuple[Diagnostic, ...] = ()) -> None:
+    def __init__(self, message: str, diagnostics: tuple[Diagnostic, ...] = (),
+                 source: str = "") -> None:
         super().__init__(message, exit_code=2)
         self.diagnostics = diagnostics
+        self.source = source  # the draft's text, for the excerpt under each diagnostic
 
 
 @dataclass(frozen=True)

@@ -21,3 +21,25 @@ def test_four_textbook_duals_checked_in_one_call() -> None:
     assert [r.problem_path.rsplit("/", 1)[-1] for r in results] == [
         "parts_soft_margin.prob", "joinery_lp.prob", "survey_least_norm.prob",
         "route_entropy.prob"]
+
+
+def test_one_claim_for_a_command(tmp_path) -> None:  # type: ignore[no-untyped-def]
+    import pytest
+
+    from dualize.paper.draft import is_paper_path, translation_for
+    from dualize.paper.locate import PaperError
+    from tests.paper.helpers import agreement, example
+
+    target = tmp_path / "draft.tex"
+    target.write_text(draft("duals.tex"), encoding="utf-8")
+    # Boyd and Vandenberghe, 2004, section 5.2.1 (from memory): the LP dual, by its label.
+    t = translation_for(f"{target}#lp:matrix", example("joinery_lp"), (("lambda", "hours"),))
+    assert [m.how for m in t.matches] == ["map"]
+    objective, constraints, _ = agreement(t, "joinery_lp")
+    assert objective and all(constraints)
+    assert is_paper_path(f"{target}#lp:matrix") and not is_paper_path("dual.prob")
+    with pytest.raises(PaperError) as err:
+        translation_for(f"{target}#svm:index", example("joinery_lp"))
+    assert err.value.diagnostics and err.value.source.startswith("%")
+    with pytest.raises(PaperError, match="no display"):
+        translation_for(f"{target}#missing", example("joinery_lp"))
