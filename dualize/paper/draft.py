@@ -49,8 +49,10 @@ def is_paper_path(text: str) -> bool:
 
 
 def translation_for(claim_arg: str, problem: Problem,
-                    name_map: tuple[tuple[str, str], ...] = ()) -> Translation:
-    """The one claim ``draft.tex#label`` (or the draft's only marked claim), translated.
+                    name_map: tuple[tuple[str, str], ...] = (),
+                    problem_path: str | None = None) -> Translation:
+    """The one claim ``draft.tex#label`` (or the draft's only marked claim for
+    ``problem_path``, when given), translated.
 
     Raises ``PaperError`` (exit code 2) with the located diagnostics when the
     claim cannot be found or translated.
@@ -61,6 +63,8 @@ def translation_for(claim_arg: str, problem: Problem,
         claims = find_claims(tex, path, label)
     except PaperError as err:
         raise PaperError(err.message, err.diagnostics, tex) from None
+    if len(claims) > 1 and problem_path is not None:
+        claims = [c for c in claims if _for_problem(c, path, problem_path)] or claims
     if len(claims) > 1:
         raise PaperError(f"{path}: {len(claims)} claims are marked; select one with "
                          f"{path}#LABEL")
@@ -85,6 +89,12 @@ def check_draft(tex_text: str, path: str, problem: Problem | None = None,
             continue
         out.append(_check_one(claim, *target, seeds))
     return out
+
+
+def _for_problem(claim: PaperClaim, draft: str, problem_path: str) -> bool:
+    if claim.problem_path is None:
+        return True
+    return _resolve(claim.problem_path, draft).resolve() == Path(problem_path).resolve()
 
 
 def _with_map(claim: PaperClaim, name_map: tuple[tuple[str, str], ...]) -> PaperClaim:

@@ -43,3 +43,13 @@ def test_one_claim_for_a_command(tmp_path) -> None:  # type: ignore[no-untyped-d
     assert err.value.diagnostics and err.value.source.startswith("%")
     with pytest.raises(PaperError, match="no display"):
         translation_for(f"{target}#missing", example("joinery_lp"))
+
+
+def test_the_claim_for_the_given_problem_is_picked_from_a_draft() -> None:
+    from dualize.paper.draft import translation_for
+    from tests.paper.helpers import ROOT, example
+
+    path = str(HERE / "drafts" / "four_duals.tex")
+    problem = str(ROOT / "examples" / "route_entropy.prob")
+    t = translation_for(path, example("route_entropy"), problem_path=problem)
+    assert t.ok and t.claim.line == 26
