@@ -109,9 +109,10 @@ def _register() -> None:
     """The commands that live in their own modules (each imports nothing heavy)."""
     from dualize.commands.check import check_command
     from dualize.commands.derive import derive_command
+    from dualize.commands.solver import solver_command
     from dualize.commands.verify import verify_command
 
-    for command in (derive_command, verify_command, check_command):
+    for command in (derive_command, verify_command, check_command, solver_command):
         main.add_command(command)
 
 
