@@ -9,7 +9,11 @@ supremum of the dual unchanged.
 
 from __future__ import annotations
 
+import contextlib
 import functools
+import signal
+import threading
+from collections.abc import Iterator
 
 import sympy
 from sympy.calculus.util import continuous_domain
@@ -37,10 +41,43 @@ def _interval(domain: Domain) -> sympy.Interval | None:
     return None
 
 
+# sympy's solver can take minutes on some transcendental equations; past this budget
+# the infimum is kept (reported as such) rather than the command hanging.
+CONJUGATE_SECONDS = 20.0
+
+
+class _OutOfTime(Exception):  # noqa: N818 - private control flow
+    pass
+
+
+@contextlib.contextmanager
+def _time_limit(seconds: float) -> Iterator[None]:
+    """A wall-clock limit by SIGALRM, where signals can be used (the main thread)."""
+    if threading.current_thread() is not threading.main_thread() or not hasattr(
+            signal, "setitimer"):
+        yield
+        return
+
+    def expire(signum: int, frame: object) -> None:
+        raise _OutOfTime
+
+    previous = signal.signal(signal.SIGALRM, expire)
+    signal.setitimer(signal.ITIMER_REAL, seconds)
+    try:
+        yield
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        signal.signal(signal.SIGALRM, previous)
+
+
 @functools.lru_cache(maxsize=512)
 def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # type: ignore[no-untyped-def]
     """Conjugates are derived and checked once per function and domain."""
-    return conjugate(phi, t, region)
+    try:
+        with _time_limit(CONJUGATE_SECONDS):
+            return conjugate(phi, t, region)
+    except _OutOfTime:
+        raise NoClosedForm(f"no conjugate found within {CONJUGATE_SECONDS:.0f} s") from None
 
 
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
