@@ -51,8 +51,9 @@ class Index:
 class Emitter:
     """Translation of one paper problem's expressions; ``names`` maps paper names."""
 
-    def __init__(self, names: dict[str, Symbol]) -> None:
+    def __init__(self, names: dict[str, Symbol], dims: frozenset[str] = frozenset()) -> None:
         self.names = names
+        self.dims = dims  # sizes of the problem: a paper's n as a value is sum(ones(n))
 
     # ---- entry points -------------------------------------------------------
     def expression(self, node: T.Node, index: Index | None = None) -> Piece:
@@ -81,7 +82,17 @@ class Emitter:
     def _name(self, node: T.Name, index: Index | None) -> tuple[Piece, int]:
         if index is not None and node.text == index.name:
             raise Refusal("paper-index", node.span, f"the index `{node.text}` used as a value")
+        if node.text in self.dims and node.text not in self.names:
+            return self._size(node)
         return Piece(self.symbol(node).name), ATOM_P
+
+    def _size(self, node: T.Name) -> tuple[Piece, int]:
+        """A size used as a number: ``sum(ones(n))``, when a set of the claim declares n."""
+        sizes = {str(d) for s in self.names.values() for d in (s.shape.rows, s.shape.cols)}
+        if node.text not in sizes:
+            raise Refusal("paper-unsupported", node.span, f"the size {node.text} as a value "
+                          "in a claim whose data and variables do not have that size")
+        return Piece(f"sum(ones({node.text}))"), ATOM_P
 
     def _num(self, node: T.Num, index: Index | None) -> tuple[Piece, int]:
         return number(node.value)

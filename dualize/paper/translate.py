@@ -83,7 +83,7 @@ def with_variables(paper: T.PaperProblem, problem: Problem,
         return paper
     from dataclasses import replace
 
-    data = {d.name for d in problem.data}
+    data = {d.name for d in problem.data} | {d.name for d in problem.dims}
     data |= {paper for paper, ours in claim_map if ours in data}
     seen: dict[str, T.Name] = {}
     for name in _all_names(paper):
@@ -232,7 +232,7 @@ def build(claim: PaperClaim, paper: T.PaperProblem, problem: Problem,
 
     ``shapes`` holds the shapes of the names claim variables may take."""
     names = _names(problem, matches, shapes, claim.name_map)
-    em = Emitter(names)
+    em = Emitter(names, frozenset(d.name for d in problem.dims))
     lines: list[tuple[Piece, Span | None]] = [
         (Piece(f"# Claim of {claim.path}, line {claim.line} ({claim.environment})"), None)]
     used = _used_data(paper, problem, names)
