@@ -56,8 +56,7 @@ REFUSED = [
     (r"\max_{\lambda} \sum_{i=1}^m \sum_{j=1}^m \lambda_i \lambda_j x_i^\top z_j", LP,
      "paper-index", 62, "two matrices"),
     # a size as a value, where no set of the claim declares that size
-    (r"\min_{\nu} \; B\nu - n \log \nu - n", "lab_budget_max", "paper-unsupported", 22,
-     "the size n as a value"),
+    (r"\max_{\nu} \; -b^\top\nu - n", LN, "paper-unsupported", 26, "the size n as a value"),
 ]
 
 
