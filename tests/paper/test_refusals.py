@@ -56,7 +56,6 @@ REFUSED = [
     (r"\max_{\lambda} \sum_{i=1}^m \sum_{j=1}^m \lambda_i \lambda_j x_i^\top z_j", LP,
      "paper-index", 62, "two matrices"),
     # a size as a value, where no set of the claim declares that size
-    (r"\max_{\nu} \; -b^\top\nu - n", LN, "paper-unsupported", 26, "the size n as a value"),
 ]
 
 
@@ -71,6 +70,14 @@ def test_fragment_is_refused_where_it_goes_wrong(body: str, problem: str, rule: 
     assert says in d.message
     if "`<`" in says:
         assert d.hint is not None and "\\le" in d.hint
+
+
+def test_a_size_no_set_of_the_claim_declares_is_refused_as_a_value() -> None:
+    # The budget split's data B is a scalar, so no line of the claim declares the size n.
+    t = fragment(r"\min_{\nu} \; B\nu - n \log \nu - n", "lab_budget_max", "map nu=budget")
+    (d,) = t.diagnostics
+    assert d.rule == "paper-unsupported" and "the size n as a value" in d.message
+    assert d.span is not None and (d.span.line, d.span.column) == (3, 22)
 
 
 def test_corpus_is_large_enough() -> None:
