@@ -48,9 +48,23 @@ def relation_of(text: str) -> str:
     return RELATIONS[text]
 
 
+# Where any operand may stand, the list says "an expression" rather than fourteen tokens.
+OPERAND_STARTS = frozenset({"LETTER", "GREEK", "NUMBER", "BOLD", "FRAC", "FRAC_DIGITS", "SUM",
+                            "FUNC", "SQRT", "NORM_OPEN", "ABS_OPEN", "LPAR", "LSQB", "LBRACE"})
+OPERATORS = frozenset({"PLUS", "MINUS", "CDOT", "SLASH", "TRANSPOSE", "SUP_ARG", "CIRCUMFLEX"})
+
+
 def expected_text(names: Iterable[str]) -> str:
     """A sorted, de-duplicated list of what could have stood there."""
-    words = sorted({TOKEN_WORDS.get(n, n) for n in names})
+    given = set(names)
+    groups = []
+    if {"LETTER", "GREEK"} <= given:
+        given -= OPERAND_STARTS
+        groups.append("an expression")
+    if {"PLUS", "MINUS", "CDOT"} <= given:
+        given -= OPERATORS
+        groups.append("an operator")
+    words = groups + sorted({TOKEN_WORDS.get(n, n) for n in given})
     if not words:
         return "something else"
     if len(words) > 8:
