@@ -154,3 +154,10 @@ def _read(path: str) -> str:
         raise DualizeError(f"cannot read {path}: {err.strerror or err}", 2) from None
     except UnicodeDecodeError:
         raise DualizeError(f"{path}: the draft is not UTF-8 text", 2) from None
+
+
+def describe(translation: Translation) -> str:
+    """One line for a report: where the claim is and how its names were matched."""
+    claim = translation.claim
+    names = ", ".join(f"{m.paper} = {m.ours} (by {m.how})" for m in translation.matches)
+    return f"claim read from {claim.path}, line {claim.line}" + (f"; {names}" if names else "")

@@ -53,3 +53,6 @@ def test_the_claim_for_the_given_problem_is_picked_from_a_draft() -> None:
     problem = str(ROOT / "examples" / "route_entropy.prob")
     t = translation_for(path, example("route_entropy"), problem_path=problem)
     assert t.ok and t.claim.line == 26
+    from dualize.paper.draft import describe
+
+    assert describe(t) == f"claim read from {path}, line 26; lambda = capacity (by shape)"
