@@ -49,8 +49,16 @@ class DualizeGroup(click.Group):
         return None
 
 
+def _print_version(ctx: click.Context, param: click.Parameter, value: bool) -> None:
+    """--version, resolved only when asked (package metadata costs start-up time)."""
+    if value and not ctx.resilient_parsing:
+        click.echo(f"dualize, version {_version()}")
+        ctx.exit()
+
+
 @click.group(cls=DualizeGroup)
-@click.version_option(_version(), prog_name="dualize")
+@click.option("--version", is_flag=True, expose_value=False, is_eager=True,
+              callback=_print_version, help="Show the version and exit.")
 def main() -> None:
     """Derive, check and explain Lagrange duals of optimization problems."""
 
