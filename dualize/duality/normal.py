@@ -176,7 +176,8 @@ def _matmul(e: MatMul) -> list[Term]:
             while isinstance(f, Scale):
                 scalars.append(f.factor)
                 f = f.arg
-            chain.append(f)
+            if not isinstance(f, Identity):
+                chain.append(f)
         terms = [_atom(MatMul(tuple(chain)))]
         for s in scalars:
             terms = _product(_expand(s), terms)
