@@ -58,7 +58,7 @@ SCALAR = Shape(ONE, ONE)
 
 
 def vector(n: sympy.Expr | int) -> Shape:
-    return Shape(sympy.sympify(n) if isinstance(n, int) else n, ONE)
+    return Shape(sympy.Integer(n) if isinstance(n, int) else n, ONE)
 
 
 class Expr:
