@@ -53,6 +53,7 @@ def rule_table() -> dict[str, RuleKind]:
     """Every registered kind, after importing the modules that register them."""
     import dualize.analysis.rules  # noqa: F401
     import dualize.model.rules  # noqa: F401
+    import dualize.paper.rules  # noqa: F401
     import dualize.syntax.rules  # noqa: F401
 
     return dict(sorted(_REGISTRY.items()))
