@@ -116,11 +116,13 @@ def _print_lint(report: LintReport, fmt: str) -> None:
 def _register() -> None:
     """The commands that live in their own modules (each imports nothing heavy)."""
     from dualize.commands.check import check_command
+    from dualize.commands.check_draft import check_draft_command
     from dualize.commands.derive import derive_command
     from dualize.commands.solver import solver_command
     from dualize.commands.verify import verify_command
 
-    for command in (derive_command, verify_command, check_command, solver_command):
+    for command in (derive_command, verify_command, check_command, check_draft_command,
+                    solver_command):
         main.add_command(command)
 
 
