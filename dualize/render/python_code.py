@@ -156,7 +156,7 @@ class NumpyPrinter(Printer):
 
     def size(self, value: sympy.Expr) -> str:
         """A size as an integer expression (dimension names are ints at run time)."""
-        value = sympy.sympify(value)
+        value = sympy.Integer(value) if isinstance(value, int) else value
         if value.is_Integer:
             return str(int(value))
         return f"int({self._arg(value)})"
@@ -176,7 +176,8 @@ class NumpyPrinter(Printer):
         return self._name(expr.name)
 
     def _print_ir_Number(self, expr: ir.Number) -> str:  # noqa: N802
-        return self._print(sympy.sympify(expr.value))
+        value = expr.value
+        return self._print(sympy.Integer(value) if isinstance(value, int) else value)
 
     def _print_ir_Ones(self, expr: ir.Ones) -> str:  # noqa: N802
         return f"np.ones({self.size(expr.n)})"

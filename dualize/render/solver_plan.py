@@ -135,9 +135,14 @@ def _norm_ball(norm: ir.Norm, radius: ir.Expr) -> list[tuple[ir.Expr, str, ir.Ex
     )
 
 
+def _exact(value: object) -> sympy.Expr:
+    """A number of the IR as a sympy number (it is one already, or a Python int)."""
+    return sympy.Integer(value) if isinstance(value, int) else value  # type: ignore[return-value]
+
+
 def _known_nonneg(expr: ir.Expr) -> bool:
     if isinstance(expr, ir.Number):
-        return bool(sympy.sympify(expr.value).is_nonnegative)
+        return bool(_exact(expr.value).is_nonnegative)
     return isinstance(expr, ir.Symbol) and bool(expr.facts & {"nonneg", "pos"})
 
 
