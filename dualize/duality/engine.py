@@ -35,7 +35,7 @@ from dualize.duality.result import (
 )
 from dualize.duality.separable import separable_infimum
 from dualize.duality.simplify import simplify, simplify_scalar, substitutions
-from dualize.model.expr import SCALAR, Expr, Symbol, depends_on, symbols_of
+from dualize.model.expr import SCALAR, Expr, Symbol, symbols_of
 from dualize.model.problem import Domain, Problem, Variable
 
 
@@ -366,7 +366,7 @@ def _assemble(work: Work, outcomes: dict[str, Outcome], mults):  # type: ignore[
                                        Domain("free")))
         if out.recovery is not None and name in _primal_names(work):
             recovery.append(out.recovery)
-    work.extra = [e for e in extra]
+    work.extra = extra
     variables = tuple(mults) + tuple(work.extra)
     dual = DualProblem("maximize", variables, tidy(objective), tuple(constraints),
                        tuple(inner), unbounded)
@@ -417,6 +417,3 @@ def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:
                      "primal optimum from above.")
     return tuple(notes)
 
-
-def uses(e: Expr, name: str) -> bool:
-    return depends_on(e, {name})
