@@ -28,7 +28,7 @@ _TALL = (r"\frac", r"\tfrac", "bmatrix")
 _NORM_SUBSCRIPTS: dict[str, str] = {"1": "1", "2": "2", "inf": r"\infty"}
 
 
-class IRLatexPrinter(LatexPrinter):
+class IRLatexPrinter(st.SharedLeaves, LatexPrinter):
     """LaTeX for IR nodes: ``^\\top``, ``\\tfrac``, ``\\mathbf{1}``, ``\\odot``, few parentheses."""
 
     printmethod = "_dualize_latex"
@@ -65,31 +65,6 @@ class IRLatexPrinter(LatexPrinter):
         if value.q == 1:
             return self._print(sympy.Integer(value.p))
         return rf"\tfrac{{{value.p}}}{{{value.q}}}"
-
-    def _print_ir_Ones(self, node: ir.Ones) -> str:
-        return self._settings["ones"]
-
-    def _print_ir_Identity(self, node: ir.Identity) -> str:
-        return self._settings["identity"]
-
-    def _print_ir_Zero(self, node: ir.Zero) -> str:
-        return "0"
-
-    def _print_ir_Add(self, node: ir.Add) -> str:
-        return " ".join(self.add_pieces(node))
-
-    def add_pieces(self, node: ir.Add) -> list[str]:
-        """The terms of a sum as printed, each but the first with its sign: ``a``, ``- b``."""
-        terms = st.ordered_terms(node) if self._settings["order_terms"] else st.flat_terms(node)
-        pieces = []
-        for index, term in enumerate(terms):
-            negative, magnitude = st.split_sign(term)
-            shown = self.wrap(magnitude, st.NEG if negative else st.ADD)
-            if index == 0:
-                pieces.append(("-" if negative else "") + shown)
-            else:
-                pieces.append(("- " if negative else "+ ") + shown)
-        return pieces
 
     def _print_ir_Scale(self, node: ir.Scale) -> str:
         negative, magnitude = st.split_sign(node)
