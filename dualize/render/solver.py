@@ -68,8 +68,11 @@ class _Emitter:
         self.scope = scope
         self.constants = Constants()
 
-    def code(self, expr: ir.Expr) -> tuple[str, set[str]]:
-        printer = NumpyPrinter({"names": self.scope.names, "constants": self.constants})
+    def code(self, expr: ir.Expr, hoist: bool = True) -> tuple[str, set[str]]:
+        """Numpy code for ``expr``; data-only parts go to ``_prepare`` when ``hoist``."""
+        printer = NumpyPrinter(
+            {"names": self.scope.names, "constants": self.constants, "hoist": hoist}
+        )
         return bare(printer.code(normalize(expr))), printer.used
 
     def size(self, value: object) -> tuple[str, set[str]]:
@@ -121,6 +124,27 @@ def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         used |= reads | sreads
     body = [f"return np.concatenate([{', '.join(pieces)}])"]
     return _function(emitter, "def _gradient(z, d):", body, used)
+
+
+def _hessian(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    """``_hessian(d)``: the constant Hessian of a quadratic objective, as one dense matrix.
+
+    Printed in place, not hoisted, so that it is formed only when it is needed.
+    """
+    if plan.hessian is None:
+        return "def _hessian(d):\n    return None"
+    rows, used = [], set()
+    for row, left in zip(plan.hessian, symbols, strict=True):
+        blocks = []
+        for block, right in zip(row, symbols, strict=True):
+            code, reads = emitter.code(block, hoist=False)
+            height, hreads = emitter.size(length(left.shape))
+            width, wreads = emitter.size(length(right.shape))
+            used |= reads | hreads | wreads
+            blocks.append(f"_block({code}, {height}, {width})")
+        rows.append(f"[{', '.join(blocks)}]")
+    body = [f"return np.block([{', '.join(rows)}])"]
+    return _function(emitter, "def _hessian(d):", body, used)
 
 
 def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
@@ -322,6 +346,7 @@ def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
         _sizes(emitter, symbols, "def _dual_sizes(d):"),
         _objective(emitter, plan),
         _gradient(emitter, plan, symbols),
+        _hessian(emitter, plan, symbols),
         _bounds(emitter, plan, symbols),
         _constraints(emitter, plan, symbols),
         recover,

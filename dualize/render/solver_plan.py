@@ -3,18 +3,21 @@
 The method follows the dual's structure, the reason a dual is worth solving:
 a linear dual goes to an LP solver; a dual whose only constraints are bounds
 (nonnegative multipliers, boxes left by eliminated slacks) to L-BFGS-B with
-the analytic gradient; bounds plus linear equalities to an augmented
-Lagrangian (J. Nocedal and S. Wright, Numerical Optimization, 2nd ed., 2006,
-section 17.4) whose inner problems on the bounds go to the spectral projected
-gradient method (E. Birgin, J. Martinez, M. Raydan, SIAM J. Optim., 2000),
-measured much faster than L-BFGS-B on thousands of bounded multipliers;
-anything else smooth to SLSQP with analytic Jacobians.  A semidefinite dual needs a
+the analytic gradient; a quadratic dual with bounds and linear equalities (the
+soft-margin kind) to a primal-dual interior-point method with Mehrotra's
+predictor-corrector (J. Nocedal and S. Wright, Numerical Optimization, 2nd ed.,
+2006, sections 16.6 and 14.2) on the symbolic Hessian, factored as a low-rank
+Gram matrix when it is one; any other dual with bounds plus linear equalities
+to an augmented Lagrangian (same book, section 17.4) whose inner problems on
+the bounds go to the spectral projected gradient method (E. Birgin, J.
+Martinez, M. Raydan, SIAM J. Optim., 2000); anything else smooth to SLSQP with
+analytic Jacobians.  A semidefinite dual needs a
 conic solver, which the generated module says instead of guessing.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Literal
 
 import sympy
@@ -25,7 +28,7 @@ from dualize.model import expr as ir
 from dualize.render.calculus import NotDifferentiable, gradient, jacobian
 from dualize.render.ir_rewrite import normalize
 
-Method = Literal["linprog", "lbfgsb", "augmented", "slsqp", "conic"]
+Method = Literal["linprog", "lbfgsb", "interior", "augmented", "slsqp", "conic"]
 
 
 @dataclass(frozen=True)
@@ -55,6 +58,7 @@ class Plan:
     gradients: tuple[ir.Expr, ...]
     bounds: tuple[Bound, ...]
     constraints: tuple[General, ...]
+    hessian: tuple[tuple[ir.Expr, ...], ...] | None = None
 
 
 def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
@@ -91,7 +95,28 @@ def make_plan(dual: DualProblem) -> Plan:
             else:
                 general.append(_general(part, variables))
     linear = not any(_moving(g, dual) for g in gradients)
-    return _choose(objective, gradients, tuple(bounds), tuple(general), linear)
+    plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
+    if plan.method == "augmented":
+        hessian = _constant_hessian(gradients, variables, dual)
+        if hessian is not None:
+            reason = "a quadratic objective with bounds and linear equalities: a " \
+                "primal-dual interior-point method (Mehrotra predictor-corrector) on the " \
+                "Hessian, factored as a low-rank Gram matrix when it is one"
+            plan = replace(plan, method="interior", reason=reason, hessian=hessian)
+    return plan
+
+
+def _constant_hessian(
+    gradients: tuple[ir.Expr, ...], variables: tuple[ir.Symbol, ...], dual: DualProblem
+) -> tuple[tuple[ir.Expr, ...], ...] | None:
+    """The Hessian blocks when the objective is quadratic (they are free of multipliers)."""
+    try:
+        blocks = tuple(tuple(jacobian(g, v) for v in variables) for g in gradients)
+    except NotDifferentiable:
+        return None
+    if any(_moving(block, dual) for row in blocks for block in row):
+        return None
+    return blocks
 
 
 def _zero() -> ir.Expr:
