@@ -127,24 +127,25 @@ def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
 
 
 def _hessian(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
-    """``_hessian(d)``: the constant Hessian of a quadratic objective, as one dense matrix.
+    """``_hessian(z, d)``: the Hessian of the objective, as one dense matrix.
 
-    Printed in place, not hoisted, so that it is formed only when it is needed.
+    A constant Hessian is printed in place, not hoisted into ``_prepare``, so that
+    it is formed only when no low-rank factor replaces it.
     """
     if plan.hessian is None:
-        return "def _hessian(d):\n    return None"
+        return "def _hessian(z, d):\n    return None"
     rows, used = [], set()
     for row, left in zip(plan.hessian, symbols, strict=True):
         blocks = []
         for block, right in zip(row, symbols, strict=True):
-            code, reads = emitter.code(block, hoist=False)
+            code, reads = emitter.code(block, hoist=not plan.constant_hessian)
             height, hreads = emitter.size(length(left.shape))
             width, wreads = emitter.size(length(right.shape))
             used |= reads | hreads | wreads
             blocks.append(f"_block({code}, {height}, {width})")
         rows.append(f"[{', '.join(blocks)}]")
     body = [f"return np.block([{', '.join(rows)}])"]
-    return _function(emitter, "def _hessian(d):", body, used)
+    return _function(emitter, "def _hessian(z, d):", body, used)
 
 
 def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
@@ -358,6 +359,7 @@ def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
         "solver.py.j2",
         docstring=docstring(derivation, plan.method, plan.reason, missing),
         method=json.dumps(plan.method),
+        constant_hessian=repr(plan.constant_hessian),
         conic=False,
         missing=json.dumps(dict(sorted(missing.items()))),
         functions="\n\n\n".join(functions),
@@ -373,6 +375,7 @@ def _render_conic(derivation: Derivation, scope: Scope) -> str:
         "solver.py.j2",
         docstring=docstring(derivation, "conic", reason, {}),
         method=json.dumps("conic"),
+        constant_hessian="False",
         conic=True,
         missing="{}",
         functions="",

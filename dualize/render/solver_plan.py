@@ -3,16 +3,17 @@
 The method follows the dual's structure, the reason a dual is worth solving:
 a linear dual goes to an LP solver; a dual whose only constraints are bounds
 (nonnegative multipliers, boxes left by eliminated slacks) to L-BFGS-B with
-the analytic gradient; a quadratic dual with bounds and linear equalities (the
-soft-margin kind) to a primal-dual interior-point method with Mehrotra's
-predictor-corrector (J. Nocedal and S. Wright, Numerical Optimization, 2nd ed.,
-2006, sections 16.6 and 14.2) on the symbolic Hessian, factored as a low-rank
-Gram matrix when it is one; any other dual with bounds plus linear equalities
-to an augmented Lagrangian (same book, section 17.4) whose inner problems on
-the bounds go to the spectral projected gradient method (E. Birgin, J.
-Martinez, M. Raydan, SIAM J. Optim., 2000); anything else smooth to SLSQP with
-analytic Jacobians.  A semidefinite dual needs a
-conic solver, which the generated module says instead of guessing.
+the analytic gradient; a smooth dual with bounds and linear constraints (the
+soft-margin, entropy and barrier kinds) to a primal-dual interior-point method
+with Mehrotra's predictor-corrector (J. Nocedal and S. Wright, Numerical
+Optimization, 2nd ed., 2006, sections 16.6, 14.2 and 19.2) on the symbolic
+Hessian, factored as a low-rank Gram matrix when it is a constant one; a dual
+whose Hessian has no rule here, with bounds and linear equalities, to an
+augmented Lagrangian (same book, section 17.4) whose inner problems on the
+bounds go to the spectral projected gradient method (E. Birgin, J. Martinez,
+M. Raydan, SIAM J. Optim., 2000); anything else smooth to SLSQP with analytic
+Jacobians.  A semidefinite dual needs a conic solver, which the generated
+module says instead of guessing.
 """
 
 from __future__ import annotations
@@ -59,6 +60,7 @@ class Plan:
     bounds: tuple[Bound, ...]
     constraints: tuple[General, ...]
     hessian: tuple[tuple[ir.Expr, ...], ...] | None = None
+    constant_hessian: bool = False
 
 
 def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
@@ -96,27 +98,28 @@ def make_plan(dual: DualProblem) -> Plan:
                 general.append(_general(part, variables))
     linear = not any(_moving(g, dual) for g in gradients)
     plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
-    if plan.method == "augmented":
-        hessian = _constant_hessian(gradients, variables, dual)
+    if plan.method in ("augmented", "slsqp") and all(g.affine for g in general):
+        hessian = _hessian_blocks(gradients, variables)
         if hessian is not None:
-            reason = "a quadratic objective with bounds and linear equalities: a " \
-                "primal-dual interior-point method (Mehrotra predictor-corrector) on the " \
-                "Hessian, factored as a low-rank Gram matrix when it is one"
-            plan = replace(plan, method="interior", reason=reason, hessian=hessian)
+            constant = not any(_moving(block, dual) for row in hessian for block in row)
+            kind = "a quadratic" if constant else "a smooth convex"
+            reason = f"{kind} objective with bounds and linear constraints: a primal-dual " \
+                "interior-point method (Mehrotra predictor-corrector) on the analytic Hessian"
+            if constant:
+                reason += ", factored as a low-rank Gram matrix when it is one"
+            plan = replace(plan, method="interior", reason=reason, hessian=hessian,
+                           constant_hessian=constant)
     return plan
 
 
-def _constant_hessian(
-    gradients: tuple[ir.Expr, ...], variables: tuple[ir.Symbol, ...], dual: DualProblem
+def _hessian_blocks(
+    gradients: tuple[ir.Expr, ...], variables: tuple[ir.Symbol, ...]
 ) -> tuple[tuple[ir.Expr, ...], ...] | None:
-    """The Hessian blocks when the objective is quadratic (they are free of multipliers)."""
+    """The Hessian blocks d(gradient_i)/d(variable_j), or None where one has no rule."""
     try:
-        blocks = tuple(tuple(jacobian(g, v) for v in variables) for g in gradients)
+        return tuple(tuple(jacobian(g, v) for v in variables) for g in gradients)
     except NotDifferentiable:
         return None
-    if any(_moving(block, dual) for row in blocks for block in row):
-        return None
-    return blocks
 
 
 def _zero() -> ir.Expr:

@@ -1,0 +1,137 @@
+"""Generated solvers of the norm, barrier, entropy and log-sum-exp duals against cvxpy.
+
+The dual optimum must equal cvxpy's optimum of the primal (cvxpy as reference
+library, common practice; strong duality by Slater's condition for these convex
+problems with affine constraints, S. Boyd and L. Vandenberghe, Convex
+Optimization, 2004, section 5.2.3, from memory), on the bundled instance and on
+random ones.  Where the module reports x, it must be primal optimal too.
+"""
+
+from __future__ import annotations
+
+import cvxpy as cp
+import numpy as np
+import pytest
+
+from tests.solver.conftest import instance_of
+
+REL = 1e-6
+
+
+def arrays(data: dict, *names: str):
+    return tuple(np.array(data[k], dtype=float) for k in names)
+
+
+def check(report: dict, value: float, sense: str = "minimize") -> None:
+    assert report["converged"], report["message"]
+    assert report["dual_value"] == pytest.approx(value, rel=REL, abs=1e-8)
+    if report["primal_value"] is not None:
+        assert report["primal_value"] == pytest.approx(value, rel=REL, abs=1e-8)
+        assert report["max_violation"] <= 1e-6
+    weak = report["dual_value"] - value if sense == "minimize" else value - report["dual_value"]
+    assert weak <= 1e-7 * (1 + abs(value))
+
+
+def equality_instance(seed: int, m: int = 3, n: int = 6) -> dict:
+    rng = np.random.default_rng(seed)
+    return {"A": rng.normal(size=(m, n)).tolist(), "b": rng.normal(size=m).tolist()}
+
+
+def norm_reference(data: dict, p: int) -> float:
+    # Minimum-norm solution of A x = b (S. Boyd and L. Vandenberghe, Convex
+    # Optimization, 2004, section 5.1.6, from memory).
+    A, b = arrays(data, "A", "b")
+    x = cp.Variable(A.shape[1])
+    problem = cp.Problem(cp.Minimize(cp.norm(x, p)), [A @ x == b])
+    problem.solve(solver=cp.CLARABEL)
+    return float(problem.value)
+
+
+@pytest.mark.parametrize("data", [instance_of("antenna_norm_min"), equality_instance(1),
+                                  equality_instance(2)])
+def test_least_two_norm(solver_module, data):
+    _, module = solver_module("antenna_norm_min")
+    check(module.solve(data), norm_reference(data, 2))
+
+
+@pytest.mark.parametrize("data", [instance_of("pipe_leaks_l1"), equality_instance(3),
+                                  equality_instance(4)])
+def test_least_one_norm(solver_module, data):
+    _, module = solver_module("pipe_leaks_l1")
+    check(module.solve(data), norm_reference(data, 1))
+
+
+def lasso_instance(seed: int, m: int = 8, n: int = 5) -> dict:
+    rng = np.random.default_rng(seed)
+    return {"A": rng.normal(size=(m, n)).tolist(), "y": rng.normal(size=m).tolist(),
+            "lambda": 0.4}
+
+
+@pytest.mark.parametrize("data", [instance_of("spectrum_lasso"), lasso_instance(5),
+                                  lasso_instance(6)])
+def test_lasso(solver_module, data):
+    # l1-regularized least squares: R. Tibshirani, Regression shrinkage and selection
+    # via the lasso, 1996 (from memory).
+    A, y = arrays(data, "A", "y")
+    x = cp.Variable(A.shape[1])
+    problem = cp.Problem(cp.Minimize(cp.sum_squares(A @ x - y) + data["lambda"] * cp.norm1(x)))
+    problem.solve(solver=cp.CLARABEL)
+    _, module = solver_module("spectrum_lasso")
+    check(module.solve(data), float(problem.value))
+
+
+def center_instance(seed: int, n: int = 3) -> dict:
+    rng = np.random.default_rng(seed)
+    A = np.vstack([np.eye(n), -np.eye(n), rng.normal(size=(3, n))])
+    b = A @ (0.1 * rng.normal(size=n)) + 0.5 + rng.random(len(A))
+    return {"A": A.tolist(), "b": b.tolist()}
+
+
+@pytest.mark.parametrize("data", [instance_of("robot_analytic_center"), center_instance(7),
+                                  center_instance(8)])
+def test_analytic_center(solver_module, data):
+    # Analytic centre of a polyhedron (S. Boyd and L. Vandenberghe, Convex Optimization,
+    # 2004, section 8.5.3, from memory).
+    A, b = arrays(data, "A", "b")
+    x = cp.Variable(A.shape[1])
+    problem = cp.Problem(cp.Minimize(-cp.sum(cp.log(b - A @ x))))
+    problem.solve(solver=cp.CLARABEL)
+    _, module = solver_module("robot_analytic_center")
+    report = module.solve(data)
+    check(report, float(problem.value))
+
+
+def softmax_instance(seed: int, m: int = 6, n: int = 2) -> dict:
+    rng = np.random.default_rng(seed)
+    rows = rng.normal(size=(m - 1, n))
+    A = np.vstack([rows, -rows.sum(axis=0)])  # 0 in the hull of the rows: bounded below
+    return {"A": A.tolist(), "b": rng.normal(size=m).tolist()}
+
+
+@pytest.mark.parametrize("data", [instance_of("traffic_softmax"), softmax_instance(9),
+                                  softmax_instance(10)])
+def test_log_sum_exp(solver_module, data):
+    # Dual of log-sum-exp minimization: an entropy maximization over the simplex (S. Boyd
+    # and L. Vandenberghe, Convex Optimization, 2004, example 5.5, from memory).
+    A, b = arrays(data, "A", "b")
+    x = cp.Variable(A.shape[1])
+    problem = cp.Problem(cp.Minimize(cp.log_sum_exp(A @ x + b)))
+    problem.solve(solver=cp.CLARABEL)
+    _, module = solver_module("traffic_softmax")
+    check(module.solve(data), float(problem.value))
+
+
+@pytest.mark.parametrize("data", [instance_of("lab_budget_max"), {"n": 7, "B": 3.2}])
+def test_log_utility_budget(solver_module, data):
+    # Maximize sum(log x) on a budget: x = B/n, value n log(B/n) (S. Boyd and
+    # L. Vandenberghe, Convex Optimization, 2004, exercise 5.x, from memory; the closed
+    # form is elementary).  Checked against cvxpy as well.
+    n, B = int(data["n"]), float(data["B"])
+    x = cp.Variable(n)
+    problem = cp.Problem(cp.Maximize(cp.sum(cp.log(x))), [cp.sum(x) == B, x >= 0])
+    problem.solve(solver=cp.CLARABEL)
+    assert problem.value == pytest.approx(n * np.log(B / n), rel=1e-6)
+    _, module = solver_module("lab_budget_max")
+    report = module.solve(data)
+    check(report, float(problem.value), sense="maximize")
+    assert np.allclose(report["primal"]["x"], B / n, rtol=1e-5)
