@@ -55,6 +55,8 @@ class Plan:
     gradients: tuple[ir.Expr, ...]
     bounds: tuple[Bound, ...]
     constraints: tuple[General, ...]
+    auxiliary: tuple[ir.Symbol, ...] = ()
+    """Epigraph variables of the lift; they follow the multipliers and are never reported."""
 
 
 def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
