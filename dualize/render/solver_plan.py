@@ -8,13 +8,16 @@ Lagrangian (J. Nocedal and S. Wright, Numerical Optimization, 2nd ed., 2006,
 section 17.4) whose inner problems on the bounds go to the spectral projected
 gradient method (E. Birgin, J. Martinez, M. Raydan, SIAM J. Optim., 2000),
 measured much faster than L-BFGS-B on thousands of bounded multipliers;
-anything else smooth to SLSQP with analytic Jacobians.  A semidefinite dual needs a
-conic solver, which the generated module says instead of guessing.
+anything else smooth to SLSQP with analytic Jacobians.  Max, min, absolute
+values and polyhedral norms of the multipliers are first replaced by epigraph
+variables (``solver_lift``), so a piecewise-linear dual becomes a linear program.
+A semidefinite dual needs a conic solver, which the generated module says
+instead of guessing.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Literal
 
 import sympy
@@ -24,6 +27,7 @@ from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.calculus import NotDifferentiable, gradient, jacobian
 from dualize.render.ir_rewrite import normalize
+from dualize.render.solver_lift import Lift, epigraph_lift, known_sign
 
 Method = Literal["linprog", "lbfgsb", "augmented", "slsqp", "conic"]
 
@@ -63,10 +67,6 @@ def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
     return tuple(v.symbol for v in dual.variables)
 
 
-def _moving(expr: ir.Expr, dual: DualProblem) -> bool:
-    return ir.depends_on(expr, {v.name for v in dual.variables})
-
-
 def is_conic(dual: DualProblem) -> bool:
     """A semidefinite constraint or a matrix multiplier: beyond smooth solvers."""
     if any(v.set in ("psd", "symmetric") for v in dual.variables):
@@ -80,20 +80,36 @@ def make_plan(dual: DualProblem) -> Plan:
     """The plan for a closed-form, non-conic dual; raises DualizeError when none fits."""
     sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
     objective = normalize(ir.Scale(sign, dual.objective))
-    variables = _multipliers(dual)
+    parts = [part for constraint in dual.constraints for part in _expand(constraint)]
+    lift = epigraph_lift(objective, parts, {v.name for v in dual.variables})
+    variables = _multipliers(dual) + lift.auxiliary
+    names = {v.name for v in variables}
+    objective = normalize(lift.objective)
     gradients = tuple(_differentiate(objective, v, "the dual objective") for v in variables)
     bounds = [Bound(v.name, "lo", _zero()) for v in dual.variables if v.set == "nonneg"]
     bounds += [Bound(v.name, "hi", _zero()) for v in dual.variables if v.set == "nonpos"]
     general: list[General] = []
-    for constraint in dual.constraints:
-        for part in _expand(constraint):
-            bound = _as_bound(part, dual)
-            if bound:
-                bounds.extend(bound)
-            else:
-                general.append(_general(part, variables))
-    linear = not any(_moving(g, dual) for g in gradients)
-    return _choose(objective, gradients, tuple(bounds), tuple(general), linear)
+    for part in lift.parts:
+        bound = _as_bound(part, names)
+        if bound:
+            bounds.extend(bound)
+        else:
+            general.append(_general(part, variables))
+    linear = not any(ir.depends_on(g, names) for g in gradients)
+    plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
+    return _lifted(plan, lift) if lift.auxiliary else plan
+
+
+def _lifted(plan: Plan, lift: Lift) -> Plan:
+    """The plan with the epigraph variables and a reason that says why they are there."""
+    what = " and ".join(lift.lifted)
+    if plan.method == "linprog":
+        reason = f"the dual is a linear program after epigraph variables for {what} " \
+            "(piecewise linear, not smooth): HiGHS"
+    else:
+        reason = f"after epigraph variables for {what} (piecewise linear, not smooth), " \
+            + plan.reason
+    return replace(plan, reason=reason, auxiliary=lift.auxiliary)
 
 
 def _zero() -> ir.Expr:
@@ -130,29 +146,17 @@ def _norm_ball(norm: ir.Norm, radius: ir.Expr) -> list[tuple[ir.Expr, str, ir.Ex
     if norm.p == "2" and _known_nonneg(radius):
         square = ir.MatMul((ir.Transpose(arg), arg))
         return [(square, "<=", ir.Power(radius, sympy.Integer(2)))]
-    if norm.p == "2":
-        return [(norm, "<=", radius)]
-    raise DualizeError(
-        "cannot generate a solver: the dual has a 1-norm constraint, which is not smooth", 2
-    )
-
-
-def _exact(value: object) -> sympy.Expr:
-    """A number of the IR as a sympy number (it is one already, or a Python int)."""
-    return sympy.Integer(value) if isinstance(value, int) else value  # type: ignore[return-value]
+    return [(norm, "<=", radius)]  # the 2-norm as it is; the 1-norm for the lift
 
 
 def _known_nonneg(expr: ir.Expr) -> bool:
-    if isinstance(expr, ir.Number):
-        return bool(_exact(expr.value).is_nonnegative)
-    return isinstance(expr, ir.Symbol) and bool(expr.facts & {"nonneg", "pos"})
+    return known_sign(expr) == 1
 
 
-def _as_bound(part: tuple[ir.Expr, str, ir.Expr], dual: DualProblem) -> list[Bound] | None:
+def _as_bound(part: tuple[ir.Expr, str, ir.Expr], names: set[str]) -> list[Bound] | None:
     lhs, rel, rhs = part
-    names = {v.name for v in dual.variables}
     for var, other, side in ((lhs, rhs, rel), (rhs, lhs, _flip(rel))):
-        if isinstance(var, ir.Symbol) and var.name in names and not _moving(other, dual):
+        if isinstance(var, ir.Symbol) and var.name in names and not ir.depends_on(other, names):
             if not (other.shape.is_scalar or other.shape == var.shape):
                 continue
             value = other.arg if isinstance(other, ir.Broadcast) else other
