@@ -12,8 +12,9 @@ its new variable with those bounds added: the optimum and the multipliers stay t
 same (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, sections 4.1.3 and
 4.3).  The replacement keeps going through sums, transposes and weights of known sign,
 since a nondecreasing function of t is least where t is; a negative weight swaps the
-roles of max and min.  A node met with the other sign (a max under a negative weight
-in the minimized objective) is not convex there and is refused, never guessed.
+roles of max and min.  Before that, every objective term and constraint with such a
+node must be convex in the minimized form by the composition rules of the analysis
+stage (a max under a negative weight is not), else it is refused, never guessed.
 """
 
 from __future__ import annotations
@@ -23,6 +24,7 @@ from typing import NoReturn
 
 import sympy
 
+from dualize.analysis.public import curvature, sign
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.ir_rewrite import is_scalar, is_vector_like, length
@@ -49,6 +51,10 @@ def epigraph_lift(objective: ir.Expr, parts: list[Part], multipliers: set[str]) 
     """Lift the minimized ``objective`` and the constraint ``parts`` (see the module doc)."""
     lifter = _Lifter(multipliers)
     lifter.where = "the objective"
+    terms = objective.terms if isinstance(objective, ir.Add) else (objective,)
+    for term in terms:
+        lifter.check(term, "a term of the dual objective",
+                     "the objective negated when the dual maximizes")
     new_objective = lifter.term(objective, 1)
     lifter.where = "the constraints"
     new_parts = [lifter.constraint(part) for part in parts]
@@ -58,19 +64,27 @@ def epigraph_lift(objective: ir.Expr, parts: list[Part], multipliers: set[str]) 
 
 def known_sign(expr: ir.Expr) -> int | None:
     """+1 if every entry is known nonnegative, -1 if known nonpositive, else None."""
-    if isinstance(expr, ir.Number):
-        value = sympy.Integer(expr.value) if isinstance(expr.value, int) else expr.value
-        return 1 if value.is_nonnegative else -1 if value.is_nonpositive else None
-    if isinstance(expr, ir.Ones | ir.Identity):
-        return 1
-    if isinstance(expr, ir.Symbol) and expr.facts & {"nonneg", "pos"}:
-        return 1
-    if isinstance(expr, ir.Transpose):
-        return known_sign(expr.arg)
-    return None
+    if isinstance(expr, ir.Number) and isinstance(expr.value, int):
+        expr = ir.Number(sympy.Integer(expr.value))
+    try:
+        found = sign(expr)
+    except TypeError:  # a node of code generation the sign rules do not know
+        return None
+    return 1 if found in ("pos", "nonneg", "zero") else -1 if found in ("neg", "nonpos") else None
+
+
+def _convex(expr: ir.Expr) -> bool:
+    try:
+        return curvature(expr) in ("constant", "affine", "convex")
+    except TypeError:
+        return False
 
 
 _KINDS = {"max": "max", "min": "min", "abs": "absolute value", "1": "1-norm", "inf": "inf-norm"}
+
+
+def _a(kind: str) -> str:
+    return ("an " if kind[0] in "aeiou" else "a ") + kind
 
 
 def _kink(node: ir.Expr) -> str | None:
@@ -100,6 +114,16 @@ class _Lifter:
     def kinked(self, expr: ir.Expr) -> bool:
         return any(_kink(n) and self.moving(n) for n in ir.walk(expr))
 
+    def check(self, expr: ir.Expr, what: str, form: str) -> None:
+        """Refuse ``expr`` if it has a piecewise-linear node and is not convex as minimized."""
+        if self.kinked(expr) and not _convex(expr):
+            kinds = sorted({k for n in ir.walk(expr) if (k := _kink(n)) and self.moving(n)})
+            raise DualizeError(
+                f"cannot generate a solver: {what} with {' and '.join(map(_a, kinds))} of the "
+                f"multipliers is not shown convex by the composition rules ({form}), so no "
+                "epigraph lift applies", 2
+            )
+
     def constraint(self, part: Part) -> Part:
         """``lhs <= rhs`` holds iff the lifted lhs (least value) <= the lifted rhs (largest)."""
         lhs, rel, rhs = part
@@ -113,6 +137,7 @@ class _Lifter:
             )
         if rel == ">=":
             lhs, rhs = rhs, lhs
+        self.check(ir.Add((lhs, ir.Scale(MINUS, rhs))), "a dual constraint", "as lhs - rhs <= 0")
         return (self.term(lhs, 1), "<=", self.term(rhs, -1))
 
     def term(self, expr: ir.Expr, sign: int) -> ir.Expr:
@@ -201,8 +226,8 @@ class _Lifter:
     def _Extremum(self, expr: ir.Extremum, sign: int) -> ir.Expr:  # noqa: N802
         if expr.kind != ("max" if sign > 0 else "min"):
             self.refuse(
-                f"a sign that makes its {expr.kind} nonconvex (a max can be lifted where it is "
-                "minimized or bounded above, a min where it is maximized or bounded below)"
+                f"a sign at which its {expr.kind} has no epigraph form (a max is lifted where "
+                "it is minimized or bounded above, a min where it is maximized or bounded below)"
             )
         t = self.bounded((expr.left, expr.right), expr.shape, sign, expr.kind)
         return _shaped(t, expr.shape)
@@ -211,7 +236,7 @@ class _Lifter:
         if expr.func != "abs":
             self.refuse(f"the function {expr.func}")
         if sign < 0:
-            self.refuse("a negative weight (an absolute value there is nonconvex)")
+            self.refuse("a negative weight, where an absolute value has no epigraph form")
         pieces = (expr.arg, ir.Scale(MINUS, expr.arg))
         return _shaped(self.bounded(pieces, expr.shape, 1, _KINDS["abs"]), expr.shape)
 
@@ -219,7 +244,7 @@ class _Lifter:
         if expr.p not in ("1", "inf"):
             self.refuse(f"the {expr.p}-norm")
         if sign < 0:
-            self.refuse(f"a negative weight (a {expr.p}-norm there is nonconvex)")
+            self.refuse(f"a negative weight, where a {expr.p}-norm has no epigraph form")
         arg = expr.arg
         if not (is_scalar(arg) or is_vector_like(arg)):
             self.refuse(f"the {expr.p}-norm of a matrix")
