@@ -45,20 +45,24 @@ def render_solver(derivation: Derivation) -> str:
             "cannot generate a solver: the dual has no closed form (the Lagrangian is "
             f"still minimized over {inner})", 2
         )
-    scope = _scope(derivation)
     if is_conic(dual):
-        return _render_conic(derivation, scope)
+        return _render_conic(derivation, _scope(derivation))
     plan = make_plan(dual)
-    return _render(derivation, plan, scope)
+    return _render(derivation, plan, _scope(derivation, plan.auxiliary))
 
 
-def _scope(derivation: Derivation) -> Scope:
+def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = ()) -> Scope:
+    """The names in scope; epigraph variables follow the multipliers in ``z``.
+
+    Their names start with an underscore, which ``python_names`` refuses for problem
+    names, so they are their own identifiers and cannot clash.
+    """
     problem = derivation.problem
     data = [d.name for d in problem.data] + [str(s) for s in problem.dims]
     dual = [v.name for v in derivation.dual.variables]
     primal = [v.name for v in problem.variables]
-    names = python_names(data + dual + primal)
-    return Scope(names, frozenset(data), tuple(dual), tuple(primal))
+    names = python_names(data + dual + primal) | {s.name: s.name for s in auxiliary}
+    return Scope(names, frozenset(data), tuple(dual + [s.name for s in auxiliary]), tuple(primal))
 
 
 class _Emitter:
@@ -322,7 +326,9 @@ def _size_spec(size: object) -> str:
     raise DualizeError(f"cannot generate a solver: a data size {text} is not a plain name", 2)
 
 
-def _tables(derivation: Derivation, scope: Scope) -> dict[str, str]:
+def _tables(
+    derivation: Derivation, scope: Scope, auxiliary: tuple[ir.Symbol, ...] = ()
+) -> dict[str, str]:
     problem = derivation.problem
     dual = derivation.dual
     return {
@@ -330,6 +336,7 @@ def _tables(derivation: Derivation, scope: Scope) -> dict[str, str]:
         "dims": json.dumps(sorted(str(s) for s in problem.dims)),
         "dual_names": json.dumps([v.name for v in dual.variables]),
         "dual_scalar": repr([v.symbol.shape.is_scalar for v in dual.variables]),
+        "auxiliary_scalar": repr([s.shape.is_scalar for s in auxiliary]),
         "primal_names": json.dumps([v.name for v in problem.variables]),
         "primal_scalar": repr([v.symbol.shape.is_scalar for v in problem.variables]),
         "dual_sense": json.dumps(dual.sense),
@@ -341,7 +348,7 @@ def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
     from dualize.render.templating import fill
 
     emitter = _Emitter(scope)
-    symbols = [v.symbol for v in derivation.dual.variables]
+    symbols = [v.symbol for v in derivation.dual.variables] + list(plan.auxiliary)
     recover, missing = _recovery(emitter, derivation)
     functions = [
         _sizes(emitter, symbols, "def _dual_sizes(d):"),
@@ -363,7 +370,7 @@ def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
         conic=False,
         missing=json.dumps(dict(sorted(missing.items()))),
         functions="\n\n\n".join(functions),
-        **_tables(derivation, scope),
+        **_tables(derivation, scope, plan.auxiliary),
     )
 
 

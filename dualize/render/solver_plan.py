@@ -12,8 +12,10 @@ whose Hessian has no rule here, with bounds and linear equalities, to an
 augmented Lagrangian (same book, section 17.4) whose inner problems on the
 bounds go to the spectral projected gradient method (E. Birgin, J. Martinez,
 M. Raydan, SIAM J. Optim., 2000); anything else smooth to SLSQP with analytic
-Jacobians.  A semidefinite dual needs a conic solver, which the generated
-module says instead of guessing.
+Jacobians.  Max, min, absolute values and polyhedral norms of the multipliers
+are first replaced by epigraph variables (``solver_lift``), so a
+piecewise-linear dual becomes a linear program.  A semidefinite dual needs a
+conic solver, which the generated module says instead of guessing.
 """
 
 from __future__ import annotations
@@ -28,6 +30,7 @@ from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.calculus import NotDifferentiable, gradient, jacobian
 from dualize.render.ir_rewrite import normalize
+from dualize.render.solver_lift import Lift, epigraph_lift, known_sign
 
 Method = Literal["linprog", "lbfgsb", "interior", "augmented", "slsqp", "conic"]
 
@@ -59,16 +62,14 @@ class Plan:
     gradients: tuple[ir.Expr, ...]
     bounds: tuple[Bound, ...]
     constraints: tuple[General, ...]
+    auxiliary: tuple[ir.Symbol, ...] = ()
+    """Epigraph variables of the lift; they follow the multipliers and are never reported."""
     hessian: tuple[tuple[ir.Expr, ...], ...] | None = None
     constant_hessian: bool = False
 
 
 def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
     return tuple(v.symbol for v in dual.variables)
-
-
-def _moving(expr: ir.Expr, dual: DualProblem) -> bool:
-    return ir.depends_on(expr, {v.name for v in dual.variables})
 
 
 def is_conic(dual: DualProblem) -> bool:
@@ -84,24 +85,27 @@ def make_plan(dual: DualProblem) -> Plan:
     """The plan for a closed-form, non-conic dual; raises DualizeError when none fits."""
     sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
     objective = normalize(ir.Scale(sign, dual.objective))
-    variables = _multipliers(dual)
+    parts = [part for constraint in dual.constraints for part in _expand(constraint)]
+    lift = epigraph_lift(objective, parts, {v.name for v in dual.variables})
+    variables = _multipliers(dual) + lift.auxiliary
+    names = {v.name for v in variables}
+    objective = normalize(lift.objective)
     gradients = tuple(_differentiate(objective, v, "the dual objective") for v in variables)
     bounds = [Bound(v.name, "lo", _zero()) for v in dual.variables if v.set == "nonneg"]
     bounds += [Bound(v.name, "hi", _zero()) for v in dual.variables if v.set == "nonpos"]
     general: list[General] = []
-    for constraint in dual.constraints:
-        for part in _expand(constraint):
-            bound = _as_bound(part, dual)
-            if bound:
-                bounds.extend(bound)
-            else:
-                general.append(_general(part, variables))
-    linear = not any(_moving(g, dual) for g in gradients)
+    for part in lift.parts:
+        bound = _as_bound(part, names)
+        if bound:
+            bounds.extend(bound)
+        else:
+            general.append(_general(part, variables))
+    linear = not any(ir.depends_on(g, names) for g in gradients)
     plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
     if plan.method in ("augmented", "slsqp") and all(g.affine for g in general):
         hessian = _hessian_blocks(gradients, variables)
         if hessian is not None:
-            constant = not any(_moving(block, dual) for row in hessian for block in row)
+            constant = not any(ir.depends_on(block, names) for row in hessian for block in row)
             kind = "a quadratic" if constant else "a smooth convex"
             reason = f"{kind} objective with bounds and linear constraints: a primal-dual " \
                 "interior-point method (Mehrotra predictor-corrector) on the analytic Hessian"
@@ -109,7 +113,7 @@ def make_plan(dual: DualProblem) -> Plan:
                 reason += ", factored as a low-rank Gram matrix when it is one"
             plan = replace(plan, method="interior", reason=reason, hessian=hessian,
                            constant_hessian=constant)
-    return plan
+    return _lifted(plan, lift) if lift.auxiliary else plan
 
 
 def _hessian_blocks(
@@ -120,6 +124,18 @@ def _hessian_blocks(
         return tuple(tuple(jacobian(g, v) for v in variables) for g in gradients)
     except NotDifferentiable:
         return None
+
+
+def _lifted(plan: Plan, lift: Lift) -> Plan:
+    """The plan with the epigraph variables and a reason that says why they are there."""
+    what = " and ".join(lift.lifted)
+    if plan.method == "linprog":
+        reason = f"the dual is a linear program after epigraph variables for {what} " \
+            "(piecewise linear, not smooth): HiGHS"
+    else:
+        reason = f"after epigraph variables for {what} (piecewise linear, not smooth), " \
+            + plan.reason
+    return replace(plan, reason=reason, auxiliary=lift.auxiliary)
 
 
 def _zero() -> ir.Expr:
@@ -156,29 +172,17 @@ def _norm_ball(norm: ir.Norm, radius: ir.Expr) -> list[tuple[ir.Expr, str, ir.Ex
     if norm.p == "2" and _known_nonneg(radius):
         square = ir.MatMul((ir.Transpose(arg), arg))
         return [(square, "<=", ir.Power(radius, sympy.Integer(2)))]
-    if norm.p == "2":
-        return [(norm, "<=", radius)]
-    raise DualizeError(
-        "cannot generate a solver: the dual has a 1-norm constraint, which is not smooth", 2
-    )
-
-
-def _exact(value: object) -> sympy.Expr:
-    """A number of the IR as a sympy number (it is one already, or a Python int)."""
-    return sympy.Integer(value) if isinstance(value, int) else value  # type: ignore[return-value]
+    return [(norm, "<=", radius)]  # the 2-norm as it is; the 1-norm for the lift
 
 
 def _known_nonneg(expr: ir.Expr) -> bool:
-    if isinstance(expr, ir.Number):
-        return bool(_exact(expr.value).is_nonnegative)
-    return isinstance(expr, ir.Symbol) and bool(expr.facts & {"nonneg", "pos"})
+    return known_sign(expr) == 1
 
 
-def _as_bound(part: tuple[ir.Expr, str, ir.Expr], dual: DualProblem) -> list[Bound] | None:
+def _as_bound(part: tuple[ir.Expr, str, ir.Expr], names: set[str]) -> list[Bound] | None:
     lhs, rel, rhs = part
-    names = {v.name for v in dual.variables}
     for var, other, side in ((lhs, rhs, rel), (rhs, lhs, _flip(rel))):
-        if isinstance(var, ir.Symbol) and var.name in names and not _moving(other, dual):
+        if isinstance(var, ir.Symbol) and var.name in names and not ir.depends_on(other, names):
             if not (other.shape.is_scalar or other.shape == var.shape):
                 continue
             value = other.arg if isinstance(other, ir.Broadcast) else other

@@ -28,6 +28,20 @@ def test_generated_module_runs_and_closes_the_gap(tmp_path: Path) -> None:
     assert report["converged"] and abs(report["gap"]) <= 1e-6 * max(1, abs(report["dual_value"]))
 
 
+def test_lifted_linear_program_reports_only_the_multipliers(tmp_path: Path) -> None:
+    # Strong duality of a feasible bounded LP (S. Boyd and L. Vandenberghe, Convex
+    # Optimization, 2004, section 5.2.4, from memory): the gap of the box LP closes.
+    out = tmp_path / "box_solver.py"
+    problem = ROOT / "examples" / "charging_box.prob"
+    result = CliRunner().invoke(main, ["solver", str(problem), "-o", str(out)])
+    assert result.exit_code == 0, result.output
+    run = subprocess.run([sys.executable, str(out), str(problem.with_suffix(".json"))],
+                         capture_output=True, text=True, check=True)
+    report = json.loads(run.stdout)
+    assert report["converged"] and abs(report["gap"]) <= 1e-9 * max(1, abs(report["dual_value"]))
+    assert list(report["multipliers"]) == ["feeder"]
+
+
 @pytest.mark.parametrize("name", ["pump_share_domain"])
 def test_no_closed_form_writes_nothing(tmp_path: Path, name: str) -> None:
     out = tmp_path / "solver.py"

@@ -15,10 +15,10 @@ from dualize.render.solver import render_solver
 from tests.solver.conftest import EXAMPLES, derivation_of
 
 SOLVABLE = [
-    "antenna_norm_min", "disk_scalar", "drone_thrust_qp", "flour_blend_lp", "joinery_lp",
-    "lab_budget_max", "orchard_mean_variance", "parts_soft_margin", "pipe_leaks_l1",
-    "robot_analytic_center", "route_entropy", "sensor_hinge", "spectrum_lasso",
-    "survey_least_norm", "traffic_softmax", "window_scalar",
+    "antenna_norm_min", "charging_box", "disk_scalar", "drone_thrust_qp", "flour_blend_lp",
+    "joinery_lp", "kiln_minimax", "lab_budget_max", "orchard_mean_variance",
+    "parts_soft_margin", "pipe_leaks_l1", "robot_analytic_center", "route_entropy",
+    "sensor_hinge", "spectrum_lasso", "survey_least_norm", "traffic_softmax", "window_scalar",
 ]
 
 
@@ -36,9 +36,10 @@ def test_generated_module_is_ruff_clean(tmp_path, name):
     assert result.returncode == 0, result.stdout
 
 
-def test_same_input_same_module():
-    first = render_solver(derivation_of("parts_soft_margin"))
-    assert first == render_solver(derivation_of("parts_soft_margin"))
+@pytest.mark.parametrize("name", ["parts_soft_margin", "charging_box"])
+def test_same_input_same_module(name):
+    first = render_solver(derivation_of(name))
+    assert first == render_solver(derivation_of(name))
 
 
 @pytest.mark.parametrize("name", ["drone_thrust_qp", "route_entropy", "parts_soft_margin",
