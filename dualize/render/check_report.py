@@ -11,12 +11,14 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING, Any
 
+from dualize.render.caution import REVIEW
+
 if TYPE_CHECKING:
     from dualize.checking.report import ClaimReport
     from dualize.numeric.verify import InstanceCheck, VerifyReport
 
 CAUTION = ("These numbers hold for the model as written, on these instances, and within "
-           "solver tolerances (about 1e-6 absolute plus 1e-5 relative).")
+           "solver tolerances (about 1e-6 absolute plus 1e-5 relative). " + REVIEW)
 WEAK_ONLY = ("weak duality only: the primal is not certifiably convex, so the dual optimum "
              "is only guaranteed to be a lower bound, and a positive gap is no error")
 WEAK_ONLY_MAX = ("weak duality only: the primal is not certifiably convex, so the dual "

@@ -26,6 +26,7 @@ from dualize.duality.result import (
 )
 from dualize.model import expr as ir
 from dualize.model.problem import Constraint, Problem, Variable
+from dualize.render.caution import CAUTION
 
 KKT_ORDER = ("stationarity", "primal feasibility", "dual feasibility", "complementary slackness")
 _DUAL_SET_RELATION = {"nonneg": ">=", "nonpos": "<=", "psd": "succeq"}
@@ -160,6 +161,7 @@ class DocumentView:
     verdict: VerdictView | None
     diagnostics: tuple[DiagnosticView, ...]
     notes: tuple[str, ...]
+    caution: str
 
 
 def build_view(derivation: Derivation, analysis: Analysis | None,
@@ -179,6 +181,7 @@ def build_view(derivation: Derivation, analysis: Analysis | None,
         verdict=None if analysis is None else verdict_view(analysis, fmt, problem),
         diagnostics=() if analysis is None else diagnostic_views(analysis.diagnostics, fmt),
         notes=tuple(fmt.prose(n) for n in derivation.notes),
+        caution=fmt.prose(CAUTION),
     )
 
 

@@ -27,6 +27,7 @@ from dualize.duality.result import (
 )
 from dualize.model import expr as ir
 from dualize.model.problem import Constraint, DataDecl, Problem, Variable
+from dualize.render.caution import CAUTION
 from dualize.render.document import Analysis, diagnostic_key, head_text, shape_text
 from dualize.render.latex_printer import latex_expr, latex_relation
 from dualize.render.text_printer import text_expr, text_relation
@@ -205,6 +206,7 @@ def derivation_json(derivation: Derivation, analysis: Analysis | None = None) ->
         "recovery": [recovery_json(r) for r in derivation.recovery],
         "notes": list(derivation.notes),
         "diagnostics": [diagnostic_json(d) for d in diagnostics],
+        "caution": CAUTION,
     }
 
 

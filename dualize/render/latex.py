@@ -221,6 +221,7 @@ def _context(view: DocumentView) -> dict[str, Any]:
         "verdict": view.verdict,
         "witness": ", ".join(_inline(w) for w in view.verdict.witness) if view.verdict else "",
         "notes": view.notes,
+        "caution": view.caution,
     }
 
 

@@ -112,6 +112,7 @@ def _context(view: DocumentView) -> dict[str, Any]:
                       if r.formula is not None else "", "variable": r.variable,
                       "note": r.note} for r in view.recovery],
         "notes": view.notes,
+        "caution": view.caution,
     }
 
 

@@ -18,6 +18,7 @@ from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.calculus import NotDifferentiable, jacobian
+from dualize.render.caution import CAUTION
 from dualize.render.ir_rewrite import length, normalize
 from dualize.render.python_code import Constants, NumpyPrinter, bare, python_names
 from dualize.render.solver_plan import Plan, is_conic, make_plan
@@ -367,6 +368,7 @@ def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
         docstring=docstring(derivation, plan.method, plan.reason, missing),
         method=json.dumps(plan.method),
         constant_hessian=repr(plan.constant_hessian),
+        caution=json.dumps(CAUTION),
         conic=False,
         missing=json.dumps(dict(sorted(missing.items()))),
         functions="\n\n\n".join(functions),
@@ -383,6 +385,7 @@ def _render_conic(derivation: Derivation, scope: Scope) -> str:
         docstring=docstring(derivation, "conic", reason, {}),
         method=json.dumps("conic"),
         constant_hessian="False",
+        caution=json.dumps(CAUTION),
         conic=True,
         missing="{}",
         functions="",

@@ -2,8 +2,11 @@
 
 from __future__ import annotations
 
+import textwrap
+
 from dualize.duality.result import Derivation
 from dualize.model import expr as ir
+from dualize.render.caution import CAUTION
 
 _RELATIONS = {"<=": "<=", ">=": ">=", "==": "=", "=": "=", "succeq": ">= (psd)",
               "preceq": "<= (psd)", "in": "in"}
@@ -75,5 +78,7 @@ def docstring(derivation: Derivation, method: str, reason: str, missing: dict[st
         *(_recovery_lines(derivation, missing) or ["  (none)"]),
         "",
         f"Method: {method}, because {reason}.",
+        "",
+        *textwrap.wrap("Caution: " + CAUTION, width=88),
     ]
     return _safe("\n".join(lines))

@@ -214,6 +214,7 @@ def _context(view: DocumentView, convex: bool | None, color: bool) -> dict[str, 
         "recovery": [line for r in view.recovery
                      for line in _recovery_rows(r.variable, r.formula, r.note)],
         "notes": [line for note in view.notes for line in wrap(note, width=WIDTH - 2)],
+        "caution": wrap(view.caution, width=WIDTH - 2),
     }
 
 
