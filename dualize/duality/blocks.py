@@ -25,7 +25,7 @@ from dualize.duality.result import (
     Recovery,
     Step,
 )
-from dualize.model.expr import Block, Divide, Expr, Symbol, depends_on, symbols_of
+from dualize.model.expr import Block, Divide, Expr, Norm, Symbol, depends_on, symbols_of
 from dualize.model.problem import Domain
 
 
@@ -128,6 +128,8 @@ def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
     if H is None:
         return affine_block(x, domain, q.g, q.r)
     H = tidy(H)
+    if domain.kind in ("nonneg", "pos"):
+        return _orthant(x, H, q, domain.kind == "pos")
     if domain.kind != "free":
         return None
     r = q.r if q.r is not None else b.num(0)
@@ -141,6 +143,40 @@ def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
             "multipliers: its infimum is minus infinity, so the dual function is minus "
             "infinity everywhere.", block=x.name)])
     return _semidefinite(x, H, g, r, kind)
+
+
+def _orthant(x: Symbol, H: Expr, q: Quadratic, open_set: bool) -> Outcome | None:
+    """inf over x >= 0 of 1/2 h x'x + g'x + r, with h a known positive scalar.
+
+    Entry by entry, 1/2 h t^2 + g_i t over t >= 0 is least at t = max(0, -g_i/h),
+    so the infimum is r - ||min(g, 0)||^2 / (2h), attained at x = max(-g, 0)/h
+    (the conjugate of 1/2 ||x||^2 on the orthant is 1/2 ||max(y, 0)||^2).  Over the
+    open orthant the infimum is the same, approached as x tends to that point.
+    Other Hessians on the orthant have no rule here (None: the infimum is kept).
+    """
+    h = _identity_multiple(H) if not H.shape.is_scalar else H
+    if h is None or _has_multiplier(h) or definiteness(H) != "pd":
+        return None
+    r = q.r if q.r is not None else b.num(0)
+    if q.g is None:
+        return Outcome(r, recovery=Recovery(x.name, b.zeros(x.shape)), steps=[Step(
+            "minimize-quadratic-orthant", f"The Lagrangian is a positive definite quadratic in "
+            f"{x.name} with no linear term: on the orthant it is least at zero.",
+            block=x.name)])
+    g = tidy(q.g)
+    low = b.minimum(g, b.zeros(g.shape))
+    form = b.power(low if g.shape.is_scalar else Norm(low, "2"), sympy.Integer(2))
+    value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)), b.divide(form, h))))
+    xstar = tidy(b.scale(b.power(h, sympy.Integer(-1)),
+                         b.maximum(b.neg(g), b.zeros(g.shape))))
+    text = (f"The Lagrangian is a strictly convex quadratic in {x.name} with Hessian a positive "
+            f"multiple h of the identity, over the {'open ' if open_set else ''}nonnegative "
+            "orthant: entry by entry it is least at max(-g/h, 0), and the infimum is "
+            "r - ||min(g, 0)||^2/(2h).")
+    note = "where an entry is 0 the infimum is approached, not attained" if open_set else ""
+    return Outcome(value, recovery=Recovery(x.name, xstar, note),
+                   steps=[Step("minimize-quadratic-orthant", text, (Equation(x, "=", xstar),),
+                               block=x.name)])
 
 
 def _definite(x: Symbol, H: Expr, g: Expr | None, r: Expr) -> Outcome:

@@ -3,18 +3,39 @@ claim written by a user) up to the roles of their names."""
 
 from __future__ import annotations
 
+from dataclasses import fields, replace
+
 from dualize.duality.normal import equal
-from dualize.model.expr import Expr, Symbol, substitute, symbols_of
+from dualize.model.expr import Add, Block, Divide, Expr, MatMul, Symbol, substitute, symbols_of
 
 
 def _plain(e: Expr) -> Expr:
     """Every symbol as a data symbol of its name and shape; only symmetry is kept,
-    since it is the one fact that changes the algebra (S' = S)."""
+    since it is the one fact that changes the algebra (S' = S).  Divisions by a
+    scalar become powers, so 1/(2h) and 1/2 h^-1 compare equal."""
     mapping: dict[Expr, Expr] = {}
     for s in symbols_of(e):
         facts = frozenset({"symmetric"}) & s.facts
         mapping[s] = Symbol(s.name, "data", s.shape, facts)
-    return substitute(e, mapping)
+    return _undivided(substitute(e, mapping))
+
+
+def _undivided(e: Expr) -> Expr:
+    """``e`` with every a / d for a scalar d written as d^-1 a, children first."""
+    from dualize.duality import build as b
+
+    if isinstance(e, Block):
+        return Block(tuple(tuple(_undivided(x) for x in row) for row in e.rows))
+    changes = {f.name: _undivided(getattr(e, f.name)) for f in fields(e)
+               if isinstance(getattr(e, f.name), Expr)}
+    if isinstance(e, Add):
+        changes["terms"] = tuple(_undivided(t) for t in e.terms)
+    elif isinstance(e, MatMul):
+        changes["factors"] = tuple(_undivided(f) for f in e.factors)
+    e = replace(e, **changes) if changes else e
+    if isinstance(e, Divide) and e.right.shape.is_scalar:
+        return b.divide(e.left, e.right)
+    return e
 
 
 def same_expression(a: Expr, c: Expr) -> bool:

@@ -146,8 +146,35 @@ def _divide(expr: ir.Divide, target: _Target) -> ir.Expr:
 
 def _power(expr: ir.Power, target: _Target) -> ir.Expr:
     exponent = sympy.Rational(expr.exponent)
-    slope = scale(ir.Number(exponent), ir.Power(expr.base, exponent - 1))
-    return _diag_times(slope, _jac(expr.base, target))
+    base = expr.base
+    two = ir.Number(sympy.Integer(2))
+    if exponent == 2 and isinstance(base, ir.Norm) and base.p == "2" and _clipped(base.arg):
+        # ||min(u, 0)||^2 (or max) is continuously differentiable: its gradient in u
+        # is 2 min(u, 0), although min(u, 0) itself has a kink.
+        return matmul(ir.Transpose(scale(two, _column(base.arg))),
+                      _jac(_clipped(base.arg), target))
+    if exponent == 2 and _clipped(base):
+        return _diag_times(scale(two, base), _jac(_clipped(base), target))
+    slope = scale(ir.Number(exponent), ir.Power(base, exponent - 1))
+    return _diag_times(slope, _jac(base, target))
+
+
+def _clipped(expr: ir.Expr) -> ir.Expr | None:
+    """u when ``expr`` is min(u, 0) or max(u, 0) (either order), else None."""
+    if not isinstance(expr, ir.Extremum):
+        return None
+    for side, other in ((expr.left, expr.right), (expr.right, expr.left)):
+        if _is_zero(other):
+            return side
+    return None
+
+
+def _is_zero(expr: ir.Expr) -> bool:
+    if isinstance(expr, ir.Zero):
+        return True
+    if isinstance(expr, ir.Broadcast):
+        return _is_zero(expr.arg)
+    return isinstance(expr, ir.Number) and expr.value == 0
 
 
 def _apply(expr: ir.Apply, target: _Target) -> ir.Expr:

@@ -27,6 +27,7 @@ import sympy
 from dualize.analysis.public import curvature, sign
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
+from dualize.render.calculus import NotDifferentiable, jacobian
 from dualize.render.ir_rewrite import is_scalar, is_vector_like, length
 
 Part = tuple[ir.Expr, str, ir.Expr]
@@ -112,7 +113,18 @@ class _Lifter:
         return ir.depends_on(expr, self.multipliers)
 
     def kinked(self, expr: ir.Expr) -> bool:
-        return any(_kink(n) and self.moving(n) for n in ir.walk(expr))
+        """Whether ``expr`` has a piecewise-linear node of the multipliers that matters:
+        one the calculus cannot differentiate through (||min(u, 0)||^2 it can)."""
+        if not any(_kink(n) and self.moving(n) for n in ir.walk(expr)):
+            return False
+        symbols = {n for n in ir.walk(expr)
+                   if isinstance(n, ir.Symbol) and n.name in self.multipliers}
+        try:
+            for symbol in sorted(symbols, key=lambda s: s.name):
+                jacobian(expr, symbol)
+        except NotDifferentiable:
+            return True
+        return False
 
     def check(self, expr: ir.Expr, what: str, form: str) -> None:
         """Refuse ``expr`` if it has a piecewise-linear node and is not convex as minimized."""

@@ -273,3 +273,30 @@ def test_term_without_rule_keeps_the_infimum() -> None:
     # a norm and a product) must not produce a guessed dual.
     d = _derive("minimize ||x||_1 * ||x||_2\nover x in R^n")
     assert not d.dual.closed_form and [v.name for v in d.dual.inner] == ["x"]
+
+
+ORTHANT = "data A in R^(m,n)\ndata b in R^m\ndata c in R^n\ndata h in R_++"
+
+
+def test_quadratic_over_the_orthant_keeps_a_clipped_square() -> None:
+    # The conjugate of 1/2 ||x||^2 restricted to x >= 0 is 1/2 ||max(y, 0)||^2 (S. Boyd and
+    # L. Vandenberghe, Convex Optimization, 2004, section 3.3 and exercise 3.36, from
+    # memory), so inf over x >= 0 of h/2 ||x||^2 + g'x is -||min(g, 0)||^2 / (2h) with
+    # g = A'nu + c, attained at x = max(-g, 0)/h.
+    d = _derive(ORTHANT + "\nminimize h/2 * ||x||^2 + c' * x\nover x in R^n_+\n"
+                "subject to\n  nu: A*x == b")
+    claim = _claim(ORTHANT, "maximize -1/(2*h) * ||min(A' * nu + c, 0)||^2 - b' * nu\n"
+                   "over nu in R^m")
+    _check(d, claim)
+    [rec] = d.recovery
+    expected = _claim(ORTHANT, "minimize sum(1/h * max(-A' * nu - c, 0))\nover nu in R^m")
+    assert same_expression(_sum(rec.formula), expected.objective)
+
+
+def test_quadratic_over_the_orthant_with_a_general_hessian_keeps_the_infimum() -> None:
+    # No closed form is claimed where the rule does not apply: for x'Px on the orthant the
+    # infimum is a nonnegative least-squares value (common practice), left as written.
+    d = _derive("data P in S^n_++\ndata c in R^n\nminimize 1/2 * x' * P * x + c' * x\n"
+                "over x in R^n_+")
+    assert not d.dual.closed_form
+    assert [v.name for v in d.dual.inner] == ["x"]

@@ -79,3 +79,23 @@ def test_quadratic_gradient_matches_finite_differences():
 def _run(text: str, env: dict) -> np.ndarray:
     """Run the printer's own output in a namespace holding only numpy and the test data."""
     return np.asarray(eval(compile(text, "<printed>", "eval"), {"np": np, **env}))
+
+
+def test_gradient_of_a_clipped_square_matches_finite_differences():
+    # ||min(u, 0)||^2 is continuously differentiable with gradient 2 min(u, 0) (common
+    # practice); checked by central differences on u = X' a at random points.
+    u = ir.MatMul((ir.Transpose(X), a))
+    f = ir.Power(ir.Norm(ir.Extremum("min", u, ir.Zero(ir.vector(n))), "2"), sympy.Integer(2))
+    text, _ = code(gradient(f, a))
+    rng = np.random.default_rng(5)
+    Xv = rng.normal(size=(4, 6))
+
+    def value(v):
+        return float(np.sum(np.minimum(Xv.T @ v, 0) ** 2))
+
+    step = 1e-6
+    for _ in range(3):
+        av = rng.normal(size=4)
+        grad = _run(text, {"X": Xv, "a": av, "m": 4, "n": 6})
+        numeric = [(value(av + step * e) - value(av - step * e)) / (2 * step) for e in np.eye(4)]
+        assert np.allclose(grad, numeric, rtol=1e-5, atol=1e-7)

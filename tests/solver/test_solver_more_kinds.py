@@ -135,3 +135,26 @@ def test_log_utility_budget(solver_module, data):
     report = module.solve(data)
     check(report, float(problem.value), sense="maximize")
     assert np.allclose(report["primal"]["x"], B / n, rtol=1e-5)
+
+
+def orthant_instance(seed: int, m: int = 3, n: int = 6) -> dict:
+    rng = np.random.default_rng(seed)
+    A = rng.normal(size=(m, n))
+    return {"A": A.tolist(), "b": (A @ np.abs(rng.normal(size=n))).tolist(),
+            "c": rng.normal(size=n).tolist()}
+
+
+@pytest.mark.parametrize("data", [instance_of("pump_share_domain"), orthant_instance(11),
+                                  orthant_instance(12)])
+def test_quadratic_on_the_orthant(solver_module, data):
+    # inf over x >= 0 of 1/2 ||x||^2 + g'x = -1/2 ||min(g, 0)||^2, a C^1 dual objective
+    # (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 3.3, from memory);
+    # the minimizer x = max(-g, 0) is unique, so x must match cvxpy's.
+    A, b, c = arrays(data, "A", "b", "c")
+    x = cp.Variable(A.shape[1])
+    problem = cp.Problem(cp.Minimize(c @ x + 0.5 * cp.sum_squares(x)), [A @ x == b, x >= 0])
+    problem.solve(solver=cp.CLARABEL)
+    _, module = solver_module("pump_share_domain")
+    report = module.solve(data)
+    check(report, float(problem.value))
+    assert np.allclose(report["primal"]["x"], x.value, atol=1e-5)
