@@ -127,7 +127,7 @@ def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         size, sreads = emitter.size(length(symbol.shape))
         pieces.append(f"_flat({code}, {size})")
         used |= reads | sreads
-    body = [f"return np.concatenate([{', '.join(pieces)}])"]
+    body = [f"return np.concatenate([{', '.join([*pieces, 'np.zeros(0)'])}])"]
     return _function(emitter, "def _gradient(z, d):", body, used)
 
 
@@ -163,7 +163,7 @@ def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         i = index[bound.variable]
         pick = "np.maximum" if bound.side == "lo" else "np.minimum"
         body.append(f"{bound.side}[{i}] = {pick}({bound.side}[{i}], {code})")
-    body.append("return np.concatenate(lo), np.concatenate(hi)")
+    body.append("return np.concatenate([*lo, np.zeros(0)]), np.concatenate([*hi, np.zeros(0)])")
     return _function(emitter, "def _bounds(d):", body, used)
 
 

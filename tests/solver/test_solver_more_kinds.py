@@ -158,3 +158,83 @@ def test_quadratic_on_the_orthant(solver_module, data):
     report = module.solve(data)
     check(report, float(problem.value))
     assert np.allclose(report["primal"]["x"], x.value, atol=1e-5)
+
+
+RIDGE = """
+data A in R^(m,n)
+data b in R^m
+data gamma in R_++
+minimize ||A*x - b||^2 + gamma * ||x||^2
+over x in R^n
+"""
+
+
+def test_dual_without_variables_is_a_constant(text_solver):
+    # An unconstrained ridge regression: the dual has no multipliers, its value is the
+    # optimum, and x = (A'A + gamma I)^-1 A'b (A. Hoerl and R. Kennard, Ridge regression,
+    # 1970, from memory); cvxpy as reference (common practice).
+    rng = np.random.default_rng(13)
+    A, b = rng.normal(size=(7, 4)), rng.normal(size=7)
+    module = text_solver(RIDGE, "ridge")
+    report = module.solve({"A": A.tolist(), "b": b.tolist(), "gamma": 0.3})
+    x = cp.Variable(4)
+    problem = cp.Problem(cp.Minimize(cp.sum_squares(A @ x - b) + 0.3 * cp.sum_squares(x)))
+    problem.solve(solver=cp.CLARABEL)
+    check(report, float(problem.value))
+    assert report["multipliers"] == {}
+    assert np.allclose(report["primal"]["x"], np.linalg.solve(A.T @ A + 0.3 * np.eye(4), A.T @ b))
+
+
+BARRIER_EQ = """
+data A in R^(m,n)
+data b in R^m
+minimize -sum(log(x))
+over x in R^n
+subject to
+  A*x == b
+"""
+
+
+@pytest.mark.parametrize("seed", [14, 15])
+def test_start_found_inside_the_dual_domain(text_solver, seed):
+    # The dual 1'log(A'nu) - b'nu + n is finite only where A'nu > 0, which no fixed start
+    # meets; the module finds one by a linear program.  Analytic centre of {x: Ax = b}
+    # (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 8.5.3, from memory).
+    rng = np.random.default_rng(seed)
+    A = rng.normal(size=(3, 6))
+    b = A @ (0.5 + rng.random(6))
+    module = text_solver(BARRIER_EQ, "barrier_eq")
+    report = module.solve({"A": A.tolist(), "b": b.tolist()})
+    x = cp.Variable(6)
+    problem = cp.Problem(cp.Minimize(-cp.sum(cp.log(x))), [A @ x == b])
+    problem.solve(solver=cp.CLARABEL)
+    check(report, float(problem.value))
+    # The KKT condition itself, sharper than a second solver's x on this flat objective:
+    # 1/x lies in the range of A' (the gradient -1/x + A'nu = 0).
+    found = np.array(report["primal"]["x"])
+    residual = (np.eye(6) - np.linalg.pinv(A) @ A) @ (1.0 / found)
+    assert np.abs(residual).max() <= 1e-6 * np.abs(1.0 / found).max()
+    assert np.allclose(A @ found, b, atol=1e-8)
+
+
+EXP_INEQ = """
+data A in R^(m,n)
+data b in R^m
+minimize sum(exp(x))
+over x in R^n
+subject to
+  A*x <= b
+"""
+
+
+def test_unattained_primal_is_reported_not_solved(text_solver):
+    # With a direction d, A d <= 0, d < 0, the infimum 0 of sum(exp(x)) is approached as
+    # x runs to minus infinity and never attained (common practice); the dual's domain
+    # -A'lambda >= 0 then has no interior point, and the module must say so rather than
+    # report a value.
+    A = np.array([[1.0, 0.0], [0.0, 1.0]])
+    module = text_solver(EXP_INEQ, "exp_ineq")
+    report = module.solve({"A": A.tolist(), "b": [1.0, 2.0]})
+    assert not report["converged"]
+    assert report["gap"] is None
+    assert "finite" in report["message"]
