@@ -21,7 +21,7 @@ from dualize.model import expr as E
 from dualize.model.problem import Problem
 
 STRICT_CLASSES = frozenset({"convex-inequality", "linear-matrix-inequality"})
-WEAK_ONLY = ("the problem is not convex: weak duality only (the dual optimum is a {bound} "
+WEAK_ONLY = ("the problem is not convex: weak duality only (the dual optimum is {bound} "
              "on the primal optimum, possibly with a gap)")
 
 
@@ -32,7 +32,7 @@ def strong_duality(problem: Problem, conv: Convexity,
         return Verdict("guaranteed", "no constraint is dualized: the dual function's only "
                        "value is the primal optimal value itself")
     if conv.convex is False:
-        bound = "lower bound" if problem.sense == "minimize" else "upper bound"
+        bound = "a lower bound" if problem.sense == "minimize" else "an upper bound"
         return Verdict("not-guaranteed", WEAK_ONLY.format(bound=bound))
     if conv.convex is None:
         return Verdict("unknown", "convexity could not be decided, so neither could Slater's "

@@ -207,6 +207,11 @@ def _block(work: Work, v: Variable) -> Outcome:
         H = hessian(q, x)
         if not mapped or H is None or definiteness(tidy(H)) == "pd":
             return quadratic_block(x, v.domain, q) or _kept(v, terms, _domain_why(v))
+    if (mapped or nonsmooth) and not _convex_remainder(polys + [_square_poly(a, x) for a in bare],
+                                                      x):
+        return _kept(v, terms, "splitting its terms off would leave a quadratic remainder not "
+                     "known to be convex, whose infimum alone may be minus infinity although "
+                     "the whole is bounded below; no closed form is claimed")
     for a in mapped:
         _split_local(work, a, polys, x)
     direct = [a for a in nonsmooth if a.arg == x]
@@ -216,6 +221,19 @@ def _block(work: Work, v: Variable) -> Outcome:
         _split_local(work, a, polys, x)
     polys = polys + [_square_poly(a, x) for a in bare]
     return _quadratic(v, polys) or _kept_quadratic(v, polys)
+
+
+def _convex_remainder(polys: list[Quadratic], x: Symbol) -> bool:
+    """Whether the quadratic part left in a block after splitting is known convex.
+
+    Splitting u = arg off a block dualizes u = arg: for a convex remainder nothing
+    is lost (strong duality of the split), but a concave or indefinite remainder
+    alone is unbounded below, so the split dual would be minus infinity where the
+    block's own infimum (x^4 - 2 x^2, say) is finite.
+    """
+    q = _sum(polys)  # type: ignore[arg-type]
+    H = hessian(q, x) if q is not None else None
+    return H is None or definiteness(tidy(H)) in ("pd", "psd", "zero")
 
 
 def _kept_quadratic(v: Variable, polys: list[Quadratic]) -> Outcome:

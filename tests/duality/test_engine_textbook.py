@@ -300,3 +300,24 @@ def test_quadratic_over_the_orthant_with_a_general_hessian_keeps_the_infimum() -
                 "over x in R^n_+")
     assert not d.dual.closed_form
     assert [v.name for v in d.dual.inner] == ["x"]
+
+
+def test_no_split_leaves_a_concave_remainder() -> None:
+    # inf over x of x^4 - 2x^2 + (1 + lam) x is finite for every lam; splitting u = x off
+    # the quartic would leave -2x^2 alone, unbounded below, and make the dual minus
+    # infinity: a weaker bound than the Lagrangian dual of the problem as written
+    # (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 5.7, from memory).
+    d = _derive("minimize x^4 - 2*x^2 + x\nover x in R\nsubject to\n  lam: x <= 5")
+    assert not d.dual.unbounded
+    assert [v.name for v in d.dual.inner] == ["x"]
+    # And for a nonconvex constraint: min x^4 s.t. x^2 >= 1 has dual value 1 = p*, which the
+    # split would lose (lam x^2 enters with a negative sign).
+    d = _derive("minimize x^4\nover x in R\nsubject to\n  lam: x^2 >= 1")
+    assert not d.dual.unbounded and not d.dual.closed_form
+
+
+def test_convex_remainder_still_splits() -> None:
+    # The lasso keeps its closed-form dual: the remainder ||Ax - y||^2 is convex.
+    d = _derive("data A in R^(m,n)\ndata y in R^m\ndata lam in R_++\n"
+                "minimize ||A*x - y||^2 + lam * ||x||_1\nover x in R^n")
+    assert d.dual.closed_form
