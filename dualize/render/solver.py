@@ -12,26 +12,16 @@ identifiers.
 from __future__ import annotations
 
 import json
-from dataclasses import dataclass
 
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.calculus import NotDifferentiable, jacobian
-from dualize.render.ir_rewrite import length, normalize
-from dualize.render.python_code import Constants, NumpyPrinter, bare, python_names
+from dualize.render.ir_rewrite import length
+from dualize.render.python_code import python_names
+from dualize.render.solver_emit import Emitter, Scope, function
 from dualize.render.solver_plan import Plan, is_conic, make_plan
 from dualize.render.solver_text import docstring
-
-
-@dataclass(frozen=True)
-class Scope:
-    """Where each identifier of a generated function comes from."""
-
-    names: dict[str, str]
-    data: frozenset[str]
-    dual: tuple[str, ...]
-    primal: tuple[str, ...]
 
 
 def render_solver(derivation: Derivation) -> str:
@@ -65,61 +55,21 @@ def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = ()) -> Sco
     return Scope(names, frozenset(data), tuple(dual + [s.name for s in auxiliary]), tuple(primal))
 
 
-class _Emitter:
-    """Prints function bodies and the lines that bind the identifiers they read."""
-
-    def __init__(self, scope: Scope) -> None:
-        self.scope = scope
-        self.constants = Constants()
-
-    def code(self, expr: ir.Expr, hoist: bool = True) -> tuple[str, set[str]]:
-        """Numpy code for ``expr``; data-only parts go to ``_prepare`` when ``hoist``."""
-        printer = NumpyPrinter(
-            {"names": self.scope.names, "constants": self.constants, "hoist": hoist}
-        )
-        return bare(printer.code(normalize(expr))), printer.used
-
-    def size(self, value: object) -> tuple[str, set[str]]:
-        printer = NumpyPrinter({"names": self.scope.names, "constants": self.constants})
-        return printer.size(value), printer.used  # type: ignore[arg-type]
-
-    def bindings(self, used: set[str]) -> list[str]:
-        """``X = d["X"]`` lines for data, dimensions and constants; dual and primal parts."""
-        lines = []
-        by_ident = {ident: name for name, ident in self.scope.names.items()}
-        for ident in sorted(used):
-            name = by_ident.get(ident, ident)
-            if ident.startswith("_k") or name in self.scope.data:
-                lines.append(f"{ident} = d[{json.dumps(name)}]")
-            elif name in self.scope.dual:
-                lines.append(f"{ident} = _parts[{self.scope.dual.index(name)}]")
-            elif name in self.scope.primal:
-                lines.append(f"{ident} = x[{json.dumps(name)}]")
-        if any(by_ident.get(i) in self.scope.dual for i in used):
-            lines.insert(0, "_parts = _split(z, d)")
-        return lines
-
-
-def _function(emitter: _Emitter, head: str, body: list[str], used: set[str]) -> str:
-    lines = [head, *(f"    {line}" for line in emitter.bindings(used) + body)]
-    return "\n".join(lines)
-
-
-def _sizes(emitter: _Emitter, symbols: list[ir.Symbol], head: str) -> str:
+def _sizes(emitter: Emitter, symbols: list[ir.Symbol], head: str) -> str:
     parts, used = [], set()
     for symbol in symbols:
         code, reads = emitter.size(length(symbol.shape))
         parts.append(code)
         used |= reads
-    return _function(emitter, head, [f"return [{', '.join(parts)}]"], used)
+    return function(emitter, head, [f"return [{', '.join(parts)}]"], used)
 
 
-def _objective(emitter: _Emitter, plan: Plan) -> str:
+def _objective(emitter: Emitter, plan: Plan) -> str:
     code, used = emitter.code(plan.objective)
-    return _function(emitter, "def _objective(z, d):", [f"return float({code})"], used)
+    return function(emitter, "def _objective(z, d):", [f"return float({code})"], used)
 
 
-def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _gradient(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     pieces, used = [], set()
     for grad, symbol in zip(plan.gradients, symbols, strict=True):
         code, reads = emitter.code(grad)
@@ -127,10 +77,10 @@ def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         pieces.append(f"_flat({code}, {size})")
         used |= reads | sreads
     body = [f"return np.concatenate([{', '.join(pieces)}])"]
-    return _function(emitter, "def _gradient(z, d):", body, used)
+    return function(emitter, "def _gradient(z, d):", body, used)
 
 
-def _hessian(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _hessian(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     """``_hessian(z, d)``: the Hessian of the objective, as one dense matrix.
 
     A constant Hessian is printed in place, not hoisted into ``_prepare``, so that
@@ -149,10 +99,10 @@ def _hessian(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
             blocks.append(f"_block({code}, {height}, {width})")
         rows.append(f"[{', '.join(blocks)}]")
     body = [f"return np.block([{', '.join(rows)}])"]
-    return _function(emitter, "def _hessian(z, d):", body, used)
+    return function(emitter, "def _hessian(z, d):", body, used)
 
 
-def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _bounds(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     body, used = ["sizes = _dual_sizes(d)", "lo = [np.full(s, -np.inf) for s in sizes]",
                   "hi = [np.full(s, np.inf) for s in sizes]"], set()
     index = {s.name: i for i, s in enumerate(symbols)}
@@ -163,10 +113,10 @@ def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         pick = "np.maximum" if bound.side == "lo" else "np.minimum"
         body.append(f"{bound.side}[{i}] = {pick}({bound.side}[{i}], {code})")
     body.append("return np.concatenate(lo), np.concatenate(hi)")
-    return _function(emitter, "def _bounds(d):", body, used)
+    return function(emitter, "def _bounds(d):", body, used)
 
 
-def _constraints(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _constraints(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     """``_constraints(z, d)``: a list of (relation, values, Jacobian) for the general ones."""
     body, used = ["out = []"], set()
     for general in plan.constraints:
@@ -184,10 +134,10 @@ def _constraints(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str
             f"np.hstack([{', '.join(blocks)}])))"
         )
     body.append("return out")
-    return _function(emitter, "def _constraints(z, d):", body, used)
+    return function(emitter, "def _constraints(z, d):", body, used)
 
 
-def _recovery(emitter: _Emitter, derivation: Derivation) -> tuple[str, dict[str, str]]:
+def _recovery(emitter: Emitter, derivation: Derivation) -> tuple[str, dict[str, str]]:
     """``_recover(z, d)`` for the variables with a formula; the notes of the others."""
     body, used, missing = ["x = {}"], set(), {}
     for rec in derivation.recovery:
@@ -201,10 +151,10 @@ def _recovery(emitter: _Emitter, derivation: Derivation) -> tuple[str, dict[str,
         if var.name not in {r.variable for r in derivation.recovery}:
             missing[var.name] = "the derivation gives no recovery for it"
     body.append("return x")
-    return _function(emitter, "def _recover(z, d):", body, used), missing
+    return function(emitter, "def _recover(z, d):", body, used), missing
 
 
-def _primal_parts(emitter: _Emitter, derivation: Derivation) -> str:
+def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
     """``_primal(x, d)``: the primal objective and each constraint function, flattened."""
     problem = derivation.problem
     code, used = emitter.code(problem.objective)
@@ -214,10 +164,10 @@ def _primal_parts(emitter: _Emitter, derivation: Derivation) -> str:
         used |= reads
         body.append(f"parts.append(({constraint.kind!r}, np.asarray({fcode}, dtype=float)))")
     body.append("return value, parts")
-    return _function(emitter, "def _primal(x, d):", body, used)
+    return function(emitter, "def _primal(x, d):", body, used)
 
 
-def _restricted(emitter: _Emitter, derivation: Derivation, missing: dict[str, str]) -> str:
+def _restricted(emitter: Emitter, derivation: Derivation, missing: dict[str, str]) -> str:
     """``_restricted(x, d)``: the primal as an LP in the unrecovered variables, if it is one.
 
     The recovered variables are held at their values; the objective and every
@@ -245,10 +195,10 @@ def _restricted(emitter: _Emitter, derivation: Derivation, missing: dict[str, st
             blocks.append(f"_block({code}, {rows}, {cols})")
         body.append(f"rows.append(np.hstack([{', '.join(blocks)}]))")
     body.append(f"return c, rows, {_domain_bounds(emitter, unknown, used)}")
-    return _function(emitter, "def _restricted(x, d):", body, used)
+    return function(emitter, "def _restricted(x, d):", body, used)
 
 
-def _jac_row(emitter: _Emitter, expr: ir.Expr, unknown: list, used: set[str]) -> str:
+def _jac_row(emitter: Emitter, expr: ir.Expr, unknown: list, used: set[str]) -> str:
     blocks = []
     for var in unknown:
         code, reads = emitter.code(jacobian(expr, var.symbol))
@@ -258,7 +208,7 @@ def _jac_row(emitter: _Emitter, expr: ir.Expr, unknown: list, used: set[str]) ->
     return f"np.hstack([{', '.join(blocks)}])[0]"
 
 
-def _domain_bounds(emitter: _Emitter, unknown: list, used: set[str]) -> str:
+def _domain_bounds(emitter: Emitter, unknown: list, used: set[str]) -> str:
     items = []
     for var in unknown:
         size, reads = emitter.size(length(var.symbol.shape))
@@ -295,7 +245,7 @@ def _not_linear(derivation: Derivation, unknown: list[ir.Symbol]) -> str:
     return ""
 
 
-def _prepare(emitter: _Emitter) -> str:
+def _prepare(emitter: Emitter) -> str:
     """Constants are emitted last-registered last, so each sees the ones it reads."""
     body, reads = [], set()
     for name, code, used in emitter.constants.entries:
@@ -303,7 +253,7 @@ def _prepare(emitter: _Emitter) -> str:
         body.append(f"{name} = {code}")
     names = [n for n, _, _ in emitter.constants.entries]
     body.append("return {" + ", ".join(f"{json.dumps(n)}: {n}" for n in names) + "}")
-    return _function(emitter, "def _prepare(d):", body, reads)
+    return function(emitter, "def _prepare(d):", body, reads)
 
 
 def _declarations(derivation: Derivation, scope: Scope) -> str:
@@ -347,7 +297,7 @@ def _tables(
 def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
     from dualize.render.templating import fill
 
-    emitter = _Emitter(scope)
+    emitter = Emitter(scope)
     symbols = [v.symbol for v in derivation.dual.variables] + list(plan.auxiliary)
     recover, missing = _recovery(emitter, derivation)
     functions = [
