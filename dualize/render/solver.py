@@ -16,11 +16,11 @@ import json
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
-from dualize.render.calculus import NotDifferentiable, jacobian
 from dualize.render.ir_rewrite import length
 from dualize.render.python_code import python_names
 from dualize.render.solver_emit import Emitter, Scope, function
 from dualize.render.solver_plan import Plan, is_conic, make_plan
+from dualize.render.solver_recover import Rule, choose, missing_of, restricted, rule_text, unknowns
 from dualize.render.solver_text import docstring
 
 
@@ -38,11 +38,14 @@ def render_solver(derivation: Derivation) -> str:
     if is_conic(dual):
         return _render_conic(derivation, _scope(derivation))
     plan = make_plan(dual)
-    return _render(derivation, plan, _scope(derivation, plan.auxiliary))
+    rule = choose(derivation, missing_of(derivation))
+    return _render(derivation, plan, rule, _scope(derivation, plan.auxiliary, rule.auxiliary))
 
 
-def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = ()) -> Scope:
-    """The names in scope; epigraph variables follow the multipliers in ``z``.
+def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = (),
+           primal_auxiliary: tuple[ir.Symbol, ...] = ()) -> Scope:
+    """The names in scope; the dual's epigraph variables follow the multipliers in ``z``,
+    the primal's (for recovering x as a linear program) sit in ``x``.
 
     Their names start with an underscore, which ``python_names`` refuses for problem
     names, so they are their own identifiers and cannot clash.
@@ -51,8 +54,10 @@ def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = ()) -> Sco
     data = [d.name for d in problem.data] + [str(s) for s in problem.dims]
     dual = [v.name for v in derivation.dual.variables]
     primal = [v.name for v in problem.variables]
-    names = python_names(data + dual + primal) | {s.name: s.name for s in auxiliary}
-    return Scope(names, frozenset(data), tuple(dual + [s.name for s in auxiliary]), tuple(primal))
+    names = python_names(data + dual + primal)
+    names |= {s.name: s.name for s in (*auxiliary, *primal_auxiliary)}
+    return Scope(names, frozenset(data), tuple(dual + [s.name for s in auxiliary]),
+                 tuple(primal + [s.name for s in primal_auxiliary]))
 
 
 def _sizes(emitter: Emitter, symbols: list[ir.Symbol], head: str) -> str:
@@ -137,21 +142,16 @@ def _constraints(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     return function(emitter, "def _constraints(z, d):", body, used)
 
 
-def _recovery(emitter: Emitter, derivation: Derivation) -> tuple[str, dict[str, str]]:
-    """``_recover(z, d)`` for the variables with a formula; the notes of the others."""
-    body, used, missing = ["x = {}"], set(), {}
+def _recovery(emitter: Emitter, derivation: Derivation) -> str:
+    """``_recover(z, d)`` for the variables with a formula (the others: ``solver_recover``)."""
+    body, used = ["x = {}"], set()
     for rec in derivation.recovery:
-        if rec.formula is None:
-            missing[rec.variable] = rec.note or "the Lagrangian does not determine it"
-            continue
-        code, reads = emitter.code(rec.formula)
-        used |= reads
-        body.append(f"x[{json.dumps(rec.variable)}] = {code}")
-    for var in derivation.problem.variables:
-        if var.name not in {r.variable for r in derivation.recovery}:
-            missing[var.name] = "the derivation gives no recovery for it"
+        if rec.formula is not None:
+            code, reads = emitter.code(rec.formula)
+            used |= reads
+            body.append(f"x[{json.dumps(rec.variable)}] = {code}")
     body.append("return x")
-    return function(emitter, "def _recover(z, d):", body, used), missing
+    return function(emitter, "def _recover(z, d):", body, used)
 
 
 def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
@@ -165,84 +165,6 @@ def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
         body.append(f"parts.append(({constraint.kind!r}, np.asarray({fcode}, dtype=float)))")
     body.append("return value, parts")
     return function(emitter, "def _primal(x, d):", body, used)
-
-
-def _restricted(emitter: Emitter, derivation: Derivation, missing: dict[str, str]) -> str:
-    """``_restricted(x, d)``: the primal as an LP in the unrecovered variables, if it is one.
-
-    The recovered variables are held at their values; the objective and every
-    constraint must be affine in the unrecovered ones (their Jacobians free of
-    them), else the function returns the reason and they are reported as null.
-    """
-    problem = derivation.problem
-    unknown = [v for v in problem.variables if v.name in missing]
-    reason = _not_linear(derivation, [v.symbol for v in unknown])
-    if not unknown or reason:
-        text = reason or "nothing to recover"
-        return f"def _restricted(x, d):\n    return {json.dumps(text)}"
-    body, used = [], set()
-    objective = _jac_row(emitter, problem.objective, unknown, used)
-    body.append(f"c = {objective}")
-    body.append("rows = []")
-    for constraint in problem.constraints:
-        rows, rreads = emitter.size(length(constraint.function.shape))
-        used |= rreads
-        blocks = []
-        for var in unknown:
-            code, reads = emitter.code(jacobian(constraint.function, var.symbol))
-            cols, creads = emitter.size(length(var.symbol.shape))
-            used |= reads | creads
-            blocks.append(f"_block({code}, {rows}, {cols})")
-        body.append(f"rows.append(np.hstack([{', '.join(blocks)}]))")
-    body.append(f"return c, rows, {_domain_bounds(emitter, unknown, used)}")
-    return function(emitter, "def _restricted(x, d):", body, used)
-
-
-def _jac_row(emitter: Emitter, expr: ir.Expr, unknown: list, used: set[str]) -> str:
-    blocks = []
-    for var in unknown:
-        code, reads = emitter.code(jacobian(expr, var.symbol))
-        cols, creads = emitter.size(length(var.symbol.shape))
-        used |= reads | creads
-        blocks.append(f"_block({code}, 1, {cols})")
-    return f"np.hstack([{', '.join(blocks)}])[0]"
-
-
-def _domain_bounds(emitter: Emitter, unknown: list, used: set[str]) -> str:
-    items = []
-    for var in unknown:
-        size, reads = emitter.size(length(var.symbol.shape))
-        used |= reads
-        lo, hi = "-np.inf", "np.inf"
-        if var.domain.kind in ("nonneg", "pos"):
-            lo = "0.0"
-        elif var.domain.kind == "box":
-            lo, lreads = emitter.code(var.domain.lo)
-            hi, hreads = emitter.code(var.domain.hi)
-            used |= lreads | hreads
-        items.append(f"({json.dumps(var.name)}, {size}, {lo}, {hi})")
-    return "[" + ", ".join(items) + "]"
-
-
-def _not_linear(derivation: Derivation, unknown: list[ir.Symbol]) -> str:
-    """Why the primal is not an LP in ``unknown`` (empty when it is)."""
-    problem = derivation.problem
-    names = {s.name for s in unknown}
-    for var in problem.variables:
-        if var.name in names and var.domain.kind not in ("free", "nonneg", "pos", "box"):
-            return f"{var.name} ranges over a {var.domain.kind} set, beyond a linear program"
-    if any(c.kind == "psd" for c in problem.constraints):
-        return "a semidefinite primal constraint is beyond a linear program"
-    exprs = [problem.objective, *(c.function for c in problem.constraints)]
-    for expr in exprs:
-        for symbol in unknown:
-            try:
-                jac = jacobian(expr, symbol)
-            except NotDifferentiable as err:
-                return f"the primal is not linear in {symbol.name} ({err})"
-            if ir.depends_on(jac, names):
-                return f"the primal is not linear in {symbol.name}"
-    return ""
 
 
 def _prepare(emitter: Emitter) -> str:
@@ -294,12 +216,12 @@ def _tables(
     }
 
 
-def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
+def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str:
     from dualize.render.templating import fill
 
     emitter = Emitter(scope)
     symbols = [v.symbol for v in derivation.dual.variables] + list(plan.auxiliary)
-    recover, missing = _recovery(emitter, derivation)
+    missing = missing_of(derivation)
     functions = [
         _sizes(emitter, symbols, "def _dual_sizes(d):"),
         _objective(emitter, plan),
@@ -307,14 +229,15 @@ def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
         _hessian(emitter, plan, symbols),
         _bounds(emitter, plan, symbols),
         _constraints(emitter, plan, symbols),
-        recover,
+        _recovery(emitter, derivation),
         _primal_parts(emitter, derivation),
-        _restricted(emitter, derivation, missing),
+        unknowns(emitter, derivation),
+        restricted(emitter, derivation, rule),
     ]
     functions.insert(0, _prepare(emitter))
     return fill(
         "solver.py.j2",
-        docstring=docstring(derivation, plan.method, plan.reason, missing),
+        docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
         method=json.dumps(plan.method),
         constant_hessian=repr(plan.constant_hessian),
         conic=False,
