@@ -20,7 +20,16 @@ from dualize.render.ir_rewrite import length
 from dualize.render.python_code import python_names
 from dualize.render.solver_emit import Emitter, Scope, function
 from dualize.render.solver_plan import Plan, is_conic, make_plan
-from dualize.render.solver_recover import Rule, choose, missing_of, restricted, rule_text, unknowns
+from dualize.render.solver_recover import (
+    Rule,
+    choose,
+    lagrangian,
+    lagrangian_domain,
+    missing_of,
+    restricted,
+    rule_text,
+    unknowns,
+)
 from dualize.render.solver_text import docstring
 
 
@@ -233,6 +242,8 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         _primal_parts(emitter, derivation),
         unknowns(emitter, derivation),
         restricted(emitter, derivation, rule),
+        lagrangian(emitter, derivation, rule),
+        lagrangian_domain(emitter, derivation, rule),
     ]
     functions.insert(0, _prepare(emitter))
     return fill(
@@ -242,6 +253,7 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         constant_hessian=repr(plan.constant_hessian),
         conic=False,
         missing=json.dumps(dict(sorted(missing.items()))),
+        lagrangian=repr(rule.kind == "lagrangian"),
         functions="\n\n\n".join(functions),
         **_tables(derivation, scope, plan.auxiliary),
     )
@@ -258,6 +270,7 @@ def _render_conic(derivation: Derivation, scope: Scope) -> str:
         constant_hessian="False",
         conic=True,
         missing="{}",
+        lagrangian="False",
         functions="",
         **_tables(derivation, scope),
     )

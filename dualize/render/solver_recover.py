@@ -1,13 +1,25 @@
 """How a generated solver finds the primal variables the derivation has no formula for.
 
-With the recovered variables held, the primal may be a linear program in the
-unrecovered ones once its max, min, absolute values and polyhedral norms are
-replaced by epigraph variables (``solver_lift``, with the primal as its
-subject): a minimized max is the least t above its pieces, so the lifted LP has
-the primal's optimal value and its x part is a primal optimum (S. Boyd and
-L. Vandenberghe, Convex Optimization, 2004, sections 4.1.3 and 4.3).
-``_restricted(x, d)`` prints that LP; the runtime hands it to HiGHS.  A variable
-it does not fit stays unrecovered with the reason.
+Two rules, tried in this order; a variable that neither fits stays unrecovered
+with the reasons of both.
+
+1. **A linear program.**  With the recovered variables held, the primal is a
+   linear program in the unrecovered ones once its max, min, absolute values and
+   polyhedral norms are replaced by epigraph variables (``solver_lift``, with the
+   primal as its subject): a minimized max is the least t above its pieces, so
+   the lifted LP has the primal's optimal value and its x part is a primal
+   optimum (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, sections
+   4.1.3 and 4.3).  ``_restricted(x, d)`` prints that LP; the runtime hands it to
+   HiGHS.
+2. **A minimizer of the Lagrangian.**  When strong duality holds and the dual
+   optimum is attained, every primal optimum minimizes L(x, multipliers) at the
+   optimal multipliers, and a unique minimizer of it is the primal optimum (same
+   book, section 5.5.5).  When L is smooth in the unrecovered variables and every
+   constraint on them is priced in L by a multiplier the dual solves for,
+   ``_lagrangian(x, z, d)`` prints L and its analytic gradient for L-BFGS-B over
+   the variables' domains.  Uniqueness cannot be read off the symbols, so the
+   runtime keeps a minimizer only when the duality gap and the constraint
+   violation at it certify it; otherwise the variables stay unrecovered.
 """
 
 from __future__ import annotations
@@ -16,11 +28,13 @@ import json
 from dataclasses import dataclass
 from typing import Literal
 
+import sympy
+
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.problem import Variable
-from dualize.render.calculus import NotDifferentiable, jacobian
+from dualize.render.calculus import NotDifferentiable, gradient, jacobian
 from dualize.render.ir_rewrite import length, normalize
 from dualize.render.solver_emit import Emitter, function
 from dualize.render.solver_lift import MINUS, Lift, Part, Subject, epigraph_lift
@@ -65,7 +79,10 @@ def choose(derivation: Derivation, missing: dict[str, str]) -> Rule:
     lift, reason = _linear_program(derivation, unknown)
     if lift is not None:
         return Rule("linprog", lift=lift)
-    return Rule("none", reason)
+    smooth = _not_smooth(derivation, unknown)
+    if not smooth:
+        return Rule("lagrangian", reason)
+    return Rule("none", f"{reason}; {smooth}")
 
 
 def _unknown(derivation: Derivation, missing: dict[str, str]) -> list[Variable]:
@@ -206,6 +223,107 @@ def unknowns(emitter: Emitter, derivation: Derivation) -> str:
     return function(emitter, "def _unknowns(d):", [f"return [{', '.join(items)}]"], used)
 
 
+# --- rule 2: a minimizer of the Lagrangian ------------------------------------
+def _squares(expr: ir.Expr) -> ir.Expr:
+    """||u||^2 as u'u, whose derivative 2u needs no division by ||u||."""
+    found = {n: ir.MatMul((ir.Transpose(n.base.arg), n.base.arg)) for n in ir.walk(expr)
+             if isinstance(n, ir.Power) and isinstance(n.base, ir.Norm) and n.base.p == "2"
+             and sympy.Rational(n.exponent) == 2}
+    return ir.substitute(expr, found) if found else expr
+
+
+def _lagrangian(derivation: Derivation) -> ir.Expr:
+    """The minimized Lagrangian (negated for a maximization), squared norms as inner products."""
+    return normalize(_squares(_minimized(derivation, derivation.lagrangian)))
+
+
+def _not_smooth(derivation: Derivation, unknown: list[Variable]) -> str:
+    """Why rule 2 does not apply to ``unknown`` (empty when it does)."""
+    prefix = f"no smooth Lagrangian to minimize over {_names(unknown)}"
+    reason = _beyond_bounds(unknown) or _unpriced(derivation, unknown)
+    if reason:
+        return f"{prefix}: {reason}"
+    expr = _lagrangian(derivation)
+    names = {v.name for v in unknown}
+    for node in ir.walk(expr):
+        if isinstance(node, ir.Norm) and node.p == "2" and ir.depends_on(node, names):
+            return f"{prefix}: a 2-norm in it is not differentiable where its argument vanishes"
+    for var in unknown:
+        try:
+            gradient(expr, var.symbol)
+        except NotDifferentiable as err:
+            return f"{prefix}: the Lagrangian is not smooth in {var.name} ({err})"
+    return ""
+
+
+def _unpriced(derivation: Derivation, unknown: list[Variable]) -> str:
+    """A constraint on ``unknown`` or a multiplier in L that the dual does not solve for."""
+    duals = {v.name for v in derivation.dual.variables}
+    names = {v.name for v in unknown}
+    for constraint in derivation.problem.constraints:
+        if ir.depends_on(constraint.function, names) and constraint.multiplier.name not in duals:
+            return f"the constraint {constraint.label} is not priced by a multiplier of the dual"
+    for symbol in ir.symbols_of(derivation.lagrangian, "multiplier"):
+        if symbol.name not in duals:
+            return f"the Lagrangian reads {symbol.name}, which the dual does not solve for"
+    return ""
+
+
+def lagrangian(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
+    """``_lagrangian(x, z, d)``: L at the multipliers in z and its gradient in the unknowns."""
+    if rule.kind != "lagrangian":
+        text = json.dumps("the Lagrangian is not minimized for the recovery")
+        return f"def _lagrangian(x, z, d):\n    return {text}"
+    expr = _lagrangian(derivation)
+    code, used = emitter.code(expr)
+    pieces = []
+    for var in _unknown(derivation, missing_of(derivation)):
+        grad, reads = emitter.code(gradient(expr, var.symbol))
+        size, sreads = emitter.size(length(var.symbol.shape))
+        used |= reads | sreads
+        pieces.append(f"_flat({grad}, {size})")
+    body = [f"return float({code}), np.concatenate([{', '.join(pieces)}])"]
+    return function(emitter, "def _lagrangian(x, z, d):", body, used)
+
+
+def _domain_arguments(expr: ir.Expr, names: set[str]) -> list[ir.Expr]:
+    """What must be positive for L to be finite: arguments of logs, roots, real powers."""
+    found: list[ir.Expr] = []
+    for node in ir.walk(expr):
+        arg = None
+        if isinstance(node, ir.Apply) and node.func in ("log", "sqrt"):
+            arg = node.arg
+        elif isinstance(node, ir.Power) and not sympy.Rational(node.exponent).is_integer:
+            arg = node.base
+        if arg is not None and ir.depends_on(arg, names) and arg not in found:
+            found.append(arg)
+    return found
+
+
+def lagrangian_domain(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
+    """``_lagrangian_domain(x, d)``: [(value at 0, Jacobian)] of the affine arguments that
+    must be positive, for a start inside L's domain; a reason when one is not affine."""
+    head = "def _lagrangian_domain(x, d):"
+    if rule.kind != "lagrangian":
+        return f"{head}\n    return []"
+    unknown = _unknown(derivation, missing_of(derivation))
+    moving = [v.symbol for v in unknown]
+    names = {s.name for s in moving}
+    body, used = ["rows = []"], set()
+    for arg in _domain_arguments(_lagrangian(derivation), names):
+        if any(ir.depends_on(jacobian(arg, s), names) for s in moving):
+            text = "a logarithm, root or real power in the Lagrangian has an argument that " \
+                "is not affine, so no linear program finds a point inside its domain"
+            return f"{head}\n    return {json.dumps(text)}"
+        size, sreads = emitter.size(length(arg.shape))
+        value, vreads = emitter.code(_at_zero(arg, moving))
+        used |= sreads | vreads
+        body.append(f"rows.append((_flat({value}, {size}), "
+                    f"{_jac_blocks(emitter, arg, moving, size, used)}))")
+    body.append("return rows")
+    return function(emitter, head, body, used)
+
+
 def rule_text(rule: Rule) -> str:
     """How the unrecovered variables are found, for the module's docstring."""
     if rule.kind == "linprog" and rule.lift is not None:
@@ -213,6 +331,11 @@ def rule_text(rule: Rule) -> str:
         after = f", after epigraph variables for {lifted}," if lifted else ""
         return "found by solving the primal as a linear program in the unrecovered " \
             f"variables{after} with the recovered ones held (HiGHS)"
+    if rule.kind == "lagrangian":
+        return "found by a numeric minimization of the Lagrangian at the optimal multipliers " \
+            "(L-BFGS-B with its analytic gradient, from a start inside its domain), the " \
+            "recovered variables held; such an x is kept only when the duality gap and the " \
+            "constraint violation at it certify it, else it is reported unrecovered"
     if rule.kind == "none":
         return f"left unrecovered: {rule.reason}"
     return ""
