@@ -27,9 +27,13 @@ def arrays(data: dict, *names: str) -> list[np.ndarray]:
     return [np.array(data[k], dtype=float) for k in names]
 
 
+TIGHT = {"tol_gap_abs": 1e-11, "tol_gap_rel": 1e-11, "tol_feas": 1e-11}
+"""Clarabel's defaults leave about 1e-5 in x on the exponential-cone problems here."""
+
+
 def solved(objective, constraints: list) -> cp.Problem:
     problem = cp.Problem(objective, constraints)
-    problem.solve(solver=cp.CLARABEL)
+    problem.solve(solver=cp.CLARABEL, **TIGHT)
     assert problem.status == cp.OPTIMAL
     return problem
 
@@ -193,3 +197,175 @@ def test_maximized_negated_one_norm_x(text_solver, seed):
     ours = check_optimal(module.solve(data), x, problem,
                          lambda v: max(0.0, np.abs(v).max() - 1.0))
     assert c @ ours - np.abs(A @ ours).sum() == pytest.approx(problem.value, rel=REL, abs=1e-8)
+
+
+# --- rule 2: smooth Lagrangians, minimized numerically and certified by the gap ----
+def check_unique_optimum(report: dict, x: cp.Variable, problem: cp.Problem) -> np.ndarray:
+    """x is reported from the Lagrangian, certified, and equals cvxpy's unique optimum.
+
+    The callers show the optimum unique from the data (strict convexity); the face test
+    above suits polyhedral problems, not smooth ones, whose near-optimal sets are wide.
+    """
+    assert report["converged"], report["message"]
+    assert report["unrecovered"] == {}
+    assert "minimization of the Lagrangian" in report["recovered_by"]["x"]
+    assert report["primal_value"] == pytest.approx(problem.value, rel=REL, abs=1e-8)
+    assert abs(report["gap"]) <= 1e-6 * (1 + abs(problem.value))
+    ours = np.array(report["primal"]["x"], dtype=float)
+    assert np.allclose(ours, x.value, rtol=1e-5, atol=1e-6)
+    return ours
+
+
+def center_instance(seed: int, n: int = 3) -> dict:
+    rng = np.random.default_rng(seed)
+    A = np.vstack([np.eye(n), -np.eye(n), rng.normal(size=(3, n))])
+    b = A @ (0.1 * rng.normal(size=n)) + 0.5 + rng.random(len(A))
+    return {"A": A.tolist(), "b": b.tolist()}
+
+
+def analytic_center(data: dict) -> tuple[cp.Variable, cp.Problem]:
+    # The analytic centre of a bounded polyhedron with an interior is unique: the barrier
+    # is strictly convex there (Boyd and Vandenberghe, 2004, section 8.5.3, from memory).
+    # The instances bound the polyhedron by rows +-I, so A has full column rank.
+    A, b = arrays(data, "A", "b")
+    assert np.linalg.matrix_rank(A) == A.shape[1]
+    x = cp.Variable(A.shape[1])
+    return x, solved(cp.Minimize(-cp.sum(cp.log(b - A @ x))), [])
+
+
+@pytest.mark.parametrize("data", [instance_of("robot_analytic_center"), center_instance(7),
+                                  center_instance(8)])
+def test_analytic_center_x(solver_module, data):
+    # The bundled instance has b_i = 0 on two walls, so x = 0 is outside the barrier's
+    # domain and the start comes from the linear program for an interior point.
+    _, module = solver_module("robot_analytic_center")
+    assert "numeric minimization of the Lagrangian" in module.__doc__
+    assert "duality gap" in module.__doc__
+    x, problem = analytic_center(data)
+    ours = check_unique_optimum(module.solve(data), x, problem)
+    A, b = arrays(data, "A", "b")
+    assert np.all(b - A @ ours > 0)
+
+
+MAXIMIZED_CENTER = """
+data A in R^(m,n)
+data b in R^m
+maximize sum(log(b - A*x))
+over x in R^n
+"""
+
+
+@pytest.mark.parametrize("data", [instance_of("robot_analytic_center"), center_instance(23)])
+def test_maximized_log_barrier_x(text_solver, data):
+    # The same centre written as a maximization: its Lagrangian is negated to be minimized.
+    module = text_solver(MAXIMIZED_CENTER, "maximized_center")
+    x, problem = analytic_center(data)
+    report = module.solve(data)
+    assert report["primal_value"] == pytest.approx(-problem.value, rel=REL)
+    assert np.allclose(report["primal"]["x"], x.value, rtol=1e-5, atol=1e-6)
+
+
+def softmax_instance(seed: int, m: int = 6, n: int = 2) -> dict:
+    rng = np.random.default_rng(seed)
+    rows = rng.normal(size=(m - 1, n))
+    A = np.vstack([rows, -rows.sum(axis=0)])  # 0 in the hull of the rows: bounded below
+    return {"A": A.tolist(), "b": rng.normal(size=m).tolist()}
+
+
+def unique_log_sum_exp(A: np.ndarray) -> None:
+    # log-sum-exp is strictly convex except along the ones vector (Boyd and Vandenberghe,
+    # 2004, section 3.1.5, from memory): with A of full column rank and rows summing to 0,
+    # A d = t 1 forces t = 0 and d = 0, so lse(A x + b) has one minimizer.
+    assert np.linalg.matrix_rank(A) == A.shape[1]
+    assert np.allclose(A.sum(axis=0), 0)
+
+
+@pytest.mark.parametrize("data", [instance_of("traffic_softmax"), softmax_instance(9),
+                                  softmax_instance(10)])
+def test_log_sum_exp_x(solver_module, data):
+    _, module = solver_module("traffic_softmax")
+    A, b = arrays(data, "A", "b")
+    unique_log_sum_exp(A)
+    x = cp.Variable(A.shape[1])
+    problem = solved(cp.Minimize(cp.log_sum_exp(A @ x + b)), [])
+    check_unique_optimum(module.solve(data), x, problem)
+
+
+PRICED_SOFTMAX = """
+data A in R^(m,n)
+data b in R^m
+minimize log(sum(exp(A*x + b)))
+over x in R^n
+subject to
+  total: sum(x) == 1
+"""
+
+
+@pytest.mark.parametrize("seed", [24, 25, 26])
+def test_log_sum_exp_with_priced_equality_x(text_solver, seed):
+    # The constraint is priced in L by its multiplier: L(x, nu) = lse(A x + b) + nu (1'x - 1)
+    # has one minimizer by the argument above, the primal optimum at the optimal nu (Boyd and
+    # Vandenberghe, 2004, section 5.5.5, from memory); cvxpy reference.
+    module = text_solver(PRICED_SOFTMAX, "priced_softmax")
+    data = softmax_instance(seed, m=7, n=3)
+    A, b = arrays(data, "A", "b")
+    unique_log_sum_exp(A)
+    x = cp.Variable(3)
+    problem = solved(cp.Minimize(cp.log_sum_exp(A @ x + b)), [cp.sum(x) == 1])
+    ours = check_unique_optimum(module.solve(data), x, problem)
+    assert ours.sum() == pytest.approx(1.0, abs=1e-6)
+
+
+FLAT_LAGRANGIAN = """
+data A in R^(m,n)
+data b in R^m
+data c in R^n
+minimize exp(c'*x) + exp(-c'*x)
+over x in R^n
+subject to
+  fit: A*x == b
+"""
+
+
+@pytest.mark.parametrize("shape", [(2, 4), (3, 3)])
+def test_many_minimizers_of_the_lagrangian_stay_unrecovered(text_solver, shape):
+    # 2 cosh(c'x) is constant on the hyperplanes c'x = t, so L(x, nu) at the optimal nu has a
+    # hyperplane of minimizers, most of them off A x = b: a minimizer of L is a primal optimum
+    # only when it is unique (Boyd and Vandenberghe, 2004, section 5.5.5, from memory).
+    # Whatever L-BFGS-B returns, the module must not report it unless the gap certifies it.
+    module = text_solver(FLAT_LAGRANGIAN, "flat_lagrangian")
+    rng = np.random.default_rng(sum(shape))
+    A, b, c = rng.normal(size=shape), rng.normal(size=shape[0]), rng.normal(size=shape[1])
+    report = module.solve({"A": A.tolist(), "b": b.tolist(), "c": c.tolist()})
+    x = cp.Variable(shape[1])
+    problem = solved(cp.Minimize(cp.exp(c @ x) + cp.exp(-c @ x)), [A @ x == b])
+    assert report["dual_value"] == pytest.approx(problem.value, rel=REL)
+    if np.linalg.matrix_rank(np.vstack([A, c])) > shape[0]:
+        # c outside the row space of A: some x on A x = b has c'x = 0, so the optimal nu is 0
+        # and the start x = 0 already minimizes L, though A 0 = 0 is not b.
+        assert report["primal"]["x"] is None
+    if report["primal"]["x"] is None:
+        assert "too large to certify" in report["unrecovered"]["x"]
+        assert report["recovered_by"] == {}
+    else:  # a lucky minimizer is reported only if it is optimal
+        ours = np.array(report["primal"]["x"])
+        assert np.abs(A @ ours - b).max() <= 1e-6
+        assert report["primal_value"] == pytest.approx(problem.value, rel=REL)
+
+
+@pytest.mark.parametrize(("name", "why"), [
+    # ||x|| + nu'(A x - b) is not differentiable at 0, and its minimizers at the optimal nu
+    # form a ray (Boyd and Vandenberghe, 2004, section 5.5.5, from memory): outside rule 2.
+    ("antenna_norm_min", "2-norm in it is not differentiable"),
+    # The 1-norm beside a quadratic: neither a linear program nor smooth.
+    ("spectrum_lasso", "not smooth in x"),
+])
+def test_outside_the_rules_stays_unrecovered(solver_module, name, why):
+    _, module = solver_module(name)
+    assert "left unrecovered" in module.__doc__
+    report = module.solve(instance_of(name))
+    assert report["converged"]
+    assert report["primal"]["x"] is None and report["primal_value"] is None
+    assert report["gap"] is None
+    assert "not linear in x" in report["unrecovered"]["x"]
+    assert why in report["unrecovered"]["x"]
