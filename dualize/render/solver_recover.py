@@ -135,7 +135,7 @@ def _not_linear(lift: Lift, unknown: list[ir.Symbol]) -> str:
     names = {s.name for s in moving}
     after = f" after epigraph variables for {' and '.join(lift.lifted)}" if lift.lifted else ""
     for expr in [lift.objective, *(f for _, f in _functions(lift))]:
-        for symbol in unknown:
+        for symbol in moving:
             try:
                 jac = jacobian(expr, symbol)
             except NotDifferentiable as err:
