@@ -12,27 +12,26 @@ identifiers.
 from __future__ import annotations
 
 import json
-from dataclasses import dataclass
 
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
-from dualize.render.calculus import NotDifferentiable, jacobian
 from dualize.render.caution import CAUTION
-from dualize.render.ir_rewrite import length, normalize
-from dualize.render.python_code import Constants, NumpyPrinter, bare, python_names
+from dualize.render.ir_rewrite import length
+from dualize.render.python_code import python_names
+from dualize.render.solver_emit import Emitter, Scope, function
 from dualize.render.solver_plan import Plan, is_conic, make_plan
+from dualize.render.solver_recover import (
+    Rule,
+    choose,
+    lagrangian,
+    lagrangian_domain,
+    missing_of,
+    restricted,
+    rule_text,
+    unknowns,
+)
 from dualize.render.solver_text import docstring
-
-
-@dataclass(frozen=True)
-class Scope:
-    """Where each identifier of a generated function comes from."""
-
-    names: dict[str, str]
-    data: frozenset[str]
-    dual: tuple[str, ...]
-    primal: tuple[str, ...]
 
 
 def render_solver(derivation: Derivation) -> str:
@@ -49,11 +48,14 @@ def render_solver(derivation: Derivation) -> str:
     if is_conic(dual):
         return _render_conic(derivation, _scope(derivation))
     plan = make_plan(dual)
-    return _render(derivation, plan, _scope(derivation, plan.auxiliary))
+    rule = choose(derivation, missing_of(derivation))
+    return _render(derivation, plan, rule, _scope(derivation, plan.auxiliary, rule.auxiliary))
 
 
-def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = ()) -> Scope:
-    """The names in scope; epigraph variables follow the multipliers in ``z``.
+def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = (),
+           primal_auxiliary: tuple[ir.Symbol, ...] = ()) -> Scope:
+    """The names in scope; the dual's epigraph variables follow the multipliers in ``z``,
+    the primal's (for recovering x as a linear program) sit in ``x``.
 
     Their names start with an underscore, which ``python_names`` refuses for problem
     names, so they are their own identifiers and cannot clash.
@@ -62,65 +64,27 @@ def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = ()) -> Sco
     data = [d.name for d in problem.data] + [str(s) for s in problem.dims]
     dual = [v.name for v in derivation.dual.variables]
     primal = [v.name for v in problem.variables]
-    names = python_names(data + dual + primal) | {s.name: s.name for s in auxiliary}
-    return Scope(names, frozenset(data), tuple(dual + [s.name for s in auxiliary]), tuple(primal))
+    names = python_names(data + dual + primal)
+    names |= {s.name: s.name for s in (*auxiliary, *primal_auxiliary)}
+    return Scope(names, frozenset(data), tuple(dual + [s.name for s in auxiliary]),
+                 tuple(primal + [s.name for s in primal_auxiliary]))
 
 
-class _Emitter:
-    """Prints function bodies and the lines that bind the identifiers they read."""
-
-    def __init__(self, scope: Scope) -> None:
-        self.scope = scope
-        self.constants = Constants()
-
-    def code(self, expr: ir.Expr, hoist: bool = True) -> tuple[str, set[str]]:
-        """Numpy code for ``expr``; data-only parts go to ``_prepare`` when ``hoist``."""
-        printer = NumpyPrinter(
-            {"names": self.scope.names, "constants": self.constants, "hoist": hoist}
-        )
-        return bare(printer.code(normalize(expr))), printer.used
-
-    def size(self, value: object) -> tuple[str, set[str]]:
-        printer = NumpyPrinter({"names": self.scope.names, "constants": self.constants})
-        return printer.size(value), printer.used  # type: ignore[arg-type]
-
-    def bindings(self, used: set[str]) -> list[str]:
-        """``X = d["X"]`` lines for data, dimensions and constants; dual and primal parts."""
-        lines = []
-        by_ident = {ident: name for name, ident in self.scope.names.items()}
-        for ident in sorted(used):
-            name = by_ident.get(ident, ident)
-            if ident.startswith("_k") or name in self.scope.data:
-                lines.append(f"{ident} = d[{json.dumps(name)}]")
-            elif name in self.scope.dual:
-                lines.append(f"{ident} = _parts[{self.scope.dual.index(name)}]")
-            elif name in self.scope.primal:
-                lines.append(f"{ident} = x[{json.dumps(name)}]")
-        if any(by_ident.get(i) in self.scope.dual for i in used):
-            lines.insert(0, "_parts = _split(z, d)")
-        return lines
-
-
-def _function(emitter: _Emitter, head: str, body: list[str], used: set[str]) -> str:
-    lines = [head, *(f"    {line}" for line in emitter.bindings(used) + body)]
-    return "\n".join(lines)
-
-
-def _sizes(emitter: _Emitter, symbols: list[ir.Symbol], head: str) -> str:
+def _sizes(emitter: Emitter, symbols: list[ir.Symbol], head: str) -> str:
     parts, used = [], set()
     for symbol in symbols:
         code, reads = emitter.size(length(symbol.shape))
         parts.append(code)
         used |= reads
-    return _function(emitter, head, [f"return [{', '.join(parts)}]"], used)
+    return function(emitter, head, [f"return [{', '.join(parts)}]"], used)
 
 
-def _objective(emitter: _Emitter, plan: Plan) -> str:
+def _objective(emitter: Emitter, plan: Plan) -> str:
     code, used = emitter.code(plan.objective)
-    return _function(emitter, "def _objective(z, d):", [f"return float({code})"], used)
+    return function(emitter, "def _objective(z, d):", [f"return float({code})"], used)
 
 
-def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _gradient(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     pieces, used = [], set()
     for grad, symbol in zip(plan.gradients, symbols, strict=True):
         code, reads = emitter.code(grad)
@@ -128,10 +92,10 @@ def _gradient(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         pieces.append(f"_flat({code}, {size})")
         used |= reads | sreads
     body = [f"return np.concatenate([{', '.join([*pieces, 'np.zeros(0)'])}])"]
-    return _function(emitter, "def _gradient(z, d):", body, used)
+    return function(emitter, "def _gradient(z, d):", body, used)
 
 
-def _hessian(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _hessian(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     """``_hessian(z, d)``: the Hessian of the objective, as one dense matrix.
 
     A constant Hessian is printed in place, not hoisted into ``_prepare``, so that
@@ -150,10 +114,10 @@ def _hessian(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
             blocks.append(f"_block({code}, {height}, {width})")
         rows.append(f"[{', '.join(blocks)}]")
     body = [f"return np.block([{', '.join(rows)}])"]
-    return _function(emitter, "def _hessian(z, d):", body, used)
+    return function(emitter, "def _hessian(z, d):", body, used)
 
 
-def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _bounds(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     body, used = ["sizes = _dual_sizes(d)", "lo = [np.full(s, -np.inf) for s in sizes]",
                   "hi = [np.full(s, np.inf) for s in sizes]"], set()
     index = {s.name: i for i, s in enumerate(symbols)}
@@ -164,10 +128,10 @@ def _bounds(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         pick = "np.maximum" if bound.side == "lo" else "np.minimum"
         body.append(f"{bound.side}[{i}] = {pick}({bound.side}[{i}], {code})")
     body.append("return np.concatenate([*lo, np.zeros(0)]), np.concatenate([*hi, np.zeros(0)])")
-    return _function(emitter, "def _bounds(d):", body, used)
+    return function(emitter, "def _bounds(d):", body, used)
 
 
-def _constraints(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+def _constraints(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     """``_constraints(z, d)``: a list of (relation, values, Jacobian) for the general ones."""
     body, used = ["out = []"], set()
     for general in plan.constraints:
@@ -185,27 +149,22 @@ def _constraints(emitter: _Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str
             f"np.hstack([{', '.join(blocks)}])))"
         )
     body.append("return out")
-    return _function(emitter, "def _constraints(z, d):", body, used)
+    return function(emitter, "def _constraints(z, d):", body, used)
 
 
-def _recovery(emitter: _Emitter, derivation: Derivation) -> tuple[str, dict[str, str]]:
-    """``_recover(z, d)`` for the variables with a formula; the notes of the others."""
-    body, used, missing = ["x = {}"], set(), {}
+def _recovery(emitter: Emitter, derivation: Derivation) -> str:
+    """``_recover(z, d)`` for the variables with a formula (the others: ``solver_recover``)."""
+    body, used = ["x = {}"], set()
     for rec in derivation.recovery:
-        if rec.formula is None:
-            missing[rec.variable] = rec.note or "the Lagrangian does not determine it"
-            continue
-        code, reads = emitter.code(rec.formula)
-        used |= reads
-        body.append(f"x[{json.dumps(rec.variable)}] = {code}")
-    for var in derivation.problem.variables:
-        if var.name not in {r.variable for r in derivation.recovery}:
-            missing[var.name] = "the derivation gives no recovery for it"
+        if rec.formula is not None:
+            code, reads = emitter.code(rec.formula)
+            used |= reads
+            body.append(f"x[{json.dumps(rec.variable)}] = {code}")
     body.append("return x")
-    return _function(emitter, "def _recover(z, d):", body, used), missing
+    return function(emitter, "def _recover(z, d):", body, used)
 
 
-def _primal_parts(emitter: _Emitter, derivation: Derivation) -> str:
+def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
     """``_primal(x, d)``: the primal objective and each constraint function, flattened."""
     problem = derivation.problem
     code, used = emitter.code(problem.objective)
@@ -215,88 +174,10 @@ def _primal_parts(emitter: _Emitter, derivation: Derivation) -> str:
         used |= reads
         body.append(f"parts.append(({constraint.kind!r}, np.asarray({fcode}, dtype=float)))")
     body.append("return value, parts")
-    return _function(emitter, "def _primal(x, d):", body, used)
+    return function(emitter, "def _primal(x, d):", body, used)
 
 
-def _restricted(emitter: _Emitter, derivation: Derivation, missing: dict[str, str]) -> str:
-    """``_restricted(x, d)``: the primal as an LP in the unrecovered variables, if it is one.
-
-    The recovered variables are held at their values; the objective and every
-    constraint must be affine in the unrecovered ones (their Jacobians free of
-    them), else the function returns the reason and they are reported as null.
-    """
-    problem = derivation.problem
-    unknown = [v for v in problem.variables if v.name in missing]
-    reason = _not_linear(derivation, [v.symbol for v in unknown])
-    if not unknown or reason:
-        text = reason or "nothing to recover"
-        return f"def _restricted(x, d):\n    return {json.dumps(text)}"
-    body, used = [], set()
-    objective = _jac_row(emitter, problem.objective, unknown, used)
-    body.append(f"c = {objective}")
-    body.append("rows = []")
-    for constraint in problem.constraints:
-        rows, rreads = emitter.size(length(constraint.function.shape))
-        used |= rreads
-        blocks = []
-        for var in unknown:
-            code, reads = emitter.code(jacobian(constraint.function, var.symbol))
-            cols, creads = emitter.size(length(var.symbol.shape))
-            used |= reads | creads
-            blocks.append(f"_block({code}, {rows}, {cols})")
-        body.append(f"rows.append(np.hstack([{', '.join(blocks)}]))")
-    body.append(f"return c, rows, {_domain_bounds(emitter, unknown, used)}")
-    return _function(emitter, "def _restricted(x, d):", body, used)
-
-
-def _jac_row(emitter: _Emitter, expr: ir.Expr, unknown: list, used: set[str]) -> str:
-    blocks = []
-    for var in unknown:
-        code, reads = emitter.code(jacobian(expr, var.symbol))
-        cols, creads = emitter.size(length(var.symbol.shape))
-        used |= reads | creads
-        blocks.append(f"_block({code}, 1, {cols})")
-    return f"np.hstack([{', '.join(blocks)}])[0]"
-
-
-def _domain_bounds(emitter: _Emitter, unknown: list, used: set[str]) -> str:
-    items = []
-    for var in unknown:
-        size, reads = emitter.size(length(var.symbol.shape))
-        used |= reads
-        lo, hi = "-np.inf", "np.inf"
-        if var.domain.kind in ("nonneg", "pos"):
-            lo = "0.0"
-        elif var.domain.kind == "box":
-            lo, lreads = emitter.code(var.domain.lo)
-            hi, hreads = emitter.code(var.domain.hi)
-            used |= lreads | hreads
-        items.append(f"({json.dumps(var.name)}, {size}, {lo}, {hi})")
-    return "[" + ", ".join(items) + "]"
-
-
-def _not_linear(derivation: Derivation, unknown: list[ir.Symbol]) -> str:
-    """Why the primal is not an LP in ``unknown`` (empty when it is)."""
-    problem = derivation.problem
-    names = {s.name for s in unknown}
-    for var in problem.variables:
-        if var.name in names and var.domain.kind not in ("free", "nonneg", "pos", "box"):
-            return f"{var.name} ranges over a {var.domain.kind} set, beyond a linear program"
-    if any(c.kind == "psd" for c in problem.constraints):
-        return "a semidefinite primal constraint is beyond a linear program"
-    exprs = [problem.objective, *(c.function for c in problem.constraints)]
-    for expr in exprs:
-        for symbol in unknown:
-            try:
-                jac = jacobian(expr, symbol)
-            except NotDifferentiable as err:
-                return f"the primal is not linear in {symbol.name} ({err})"
-            if ir.depends_on(jac, names):
-                return f"the primal is not linear in {symbol.name}"
-    return ""
-
-
-def _prepare(emitter: _Emitter) -> str:
+def _prepare(emitter: Emitter) -> str:
     """Constants are emitted last-registered last, so each sees the ones it reads."""
     body, reads = [], set()
     for name, code, used in emitter.constants.entries:
@@ -304,7 +185,7 @@ def _prepare(emitter: _Emitter) -> str:
         body.append(f"{name} = {code}")
     names = [n for n, _, _ in emitter.constants.entries]
     body.append("return {" + ", ".join(f"{json.dumps(n)}: {n}" for n in names) + "}")
-    return _function(emitter, "def _prepare(d):", body, reads)
+    return function(emitter, "def _prepare(d):", body, reads)
 
 
 def _declarations(derivation: Derivation, scope: Scope) -> str:
@@ -345,12 +226,12 @@ def _tables(
     }
 
 
-def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
+def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str:
     from dualize.render.templating import fill
 
-    emitter = _Emitter(scope)
+    emitter = Emitter(scope)
     symbols = [v.symbol for v in derivation.dual.variables] + list(plan.auxiliary)
-    recover, missing = _recovery(emitter, derivation)
+    missing = missing_of(derivation)
     functions = [
         _sizes(emitter, symbols, "def _dual_sizes(d):"),
         _objective(emitter, plan),
@@ -358,19 +239,23 @@ def _render(derivation: Derivation, plan: Plan, scope: Scope) -> str:
         _hessian(emitter, plan, symbols),
         _bounds(emitter, plan, symbols),
         _constraints(emitter, plan, symbols),
-        recover,
+        _recovery(emitter, derivation),
         _primal_parts(emitter, derivation),
-        _restricted(emitter, derivation, missing),
+        unknowns(emitter, derivation),
+        restricted(emitter, derivation, rule),
+        lagrangian(emitter, derivation, rule),
+        lagrangian_domain(emitter, derivation, rule),
     ]
     functions.insert(0, _prepare(emitter))
     return fill(
         "solver.py.j2",
-        docstring=docstring(derivation, plan.method, plan.reason, missing),
+        docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
         method=json.dumps(plan.method),
         constant_hessian=repr(plan.constant_hessian),
         caution=json.dumps(CAUTION),
         conic=False,
         missing=json.dumps(dict(sorted(missing.items()))),
+        lagrangian=repr(rule.kind == "lagrangian"),
         functions="\n\n\n".join(functions),
         **_tables(derivation, scope, plan.auxiliary),
     )
@@ -388,6 +273,7 @@ def _render_conic(derivation: Derivation, scope: Scope) -> str:
         caution=json.dumps(CAUTION),
         conic=True,
         missing="{}",
+        lagrangian="False",
         functions="",
         **_tables(derivation, scope),
     )

@@ -15,6 +15,9 @@ since a nondecreasing function of t is least where t is; a negative weight swaps
 roles of max and min.  Before that, every objective term and constraint with such a
 node must be convex in the minimized form by the composition rules of the analysis
 stage (a max under a negative weight is not), else it is refused, never guessed.
+
+The same lift serves the primal when a generated solver recovers x as a linear
+program: a ``Subject`` names the variables that move and words the refusals.
 """
 
 from __future__ import annotations
@@ -31,11 +34,26 @@ from dualize.render.calculus import NotDifferentiable, jacobian
 from dualize.render.ir_rewrite import is_scalar, is_vector_like, length
 
 Part = tuple[ir.Expr, str, ir.Expr]
-"""A constraint ``lhs relation rhs`` of the dual, relation one of ``<=``, ``>=``, ``=``."""
+"""A constraint ``lhs relation rhs``, relation one of ``<=``, ``>=``, ``=``."""
 
 MINUS = ir.Number(sympy.Integer(-1))
-PREFIX = "_lift"
-"""Auxiliary names start with an underscore, which no problem name may (see python_names)."""
+
+
+@dataclass(frozen=True)
+class Subject:
+    """What is lifted, for names and messages: the dual (over its multipliers) or the primal."""
+
+    prefix: str
+    """Auxiliary names start with an underscore, which no problem name may (see python_names)."""
+    noun: str
+    moving: str
+    lead: str
+    scope: str
+    """What the caller handles, said when a term is beyond the lift."""
+
+
+DUAL = Subject("_lift", "dual", "the multipliers", "cannot generate a solver: ",
+               "the generator handles smooth duals and convex piecewise-linear ones")
 
 
 @dataclass(frozen=True)
@@ -48,14 +66,16 @@ class Lift:
     lifted: tuple[str, ...]
 
 
-def epigraph_lift(objective: ir.Expr, parts: list[Part], multipliers: set[str]) -> Lift:
-    """Lift the minimized ``objective`` and the constraint ``parts`` (see the module doc)."""
-    lifter = _Lifter(multipliers)
+def epigraph_lift(objective: ir.Expr, parts: list[Part], multipliers: set[str],
+                  subject: Subject = DUAL) -> Lift:
+    """Lift the minimized ``objective`` and the constraint ``parts`` (see the module doc);
+    ``multipliers`` names the variables of ``subject`` the new variables are bounded by."""
+    lifter = _Lifter(multipliers, subject)
     lifter.where = "the objective"
     terms = objective.terms if isinstance(objective, ir.Add) else (objective,)
     for term in terms:
-        lifter.check(term, "a term of the dual objective",
-                     "the objective negated when the dual maximizes")
+        lifter.check(term, f"a term of the {subject.noun} objective",
+                     f"the objective negated when the {subject.noun} maximizes")
     new_objective = lifter.term(objective, 1)
     lifter.where = "the constraints"
     new_parts = [lifter.constraint(part) for part in parts]
@@ -102,8 +122,9 @@ def _kink(node: ir.Expr) -> str | None:
 class _Lifter:
     """Walks an expression with the sign it enters a minimization with, collecting bounds."""
 
-    def __init__(self, multipliers: set[str]) -> None:
+    def __init__(self, multipliers: set[str], subject: Subject) -> None:
         self.multipliers = multipliers
+        self.subject = subject
         self.where = ""
         self.auxiliary: list[ir.Symbol] = []
         self.parts: list[Part] = []
@@ -131,9 +152,9 @@ class _Lifter:
         if self.kinked(expr) and not _convex(expr):
             kinds = sorted({k for n in ir.walk(expr) if (k := _kink(n)) and self.moving(n)})
             raise DualizeError(
-                f"cannot generate a solver: {what} with {' and '.join(map(_a, kinds))} of the "
-                f"multipliers is not shown convex by the composition rules ({form}), so no "
-                "epigraph lift applies", 2
+                f"{self.subject.lead}{what} with {' and '.join(map(_a, kinds))} of "
+                f"{self.subject.moving} is not shown convex by the composition rules ({form}), "
+                "so no epigraph lift applies", 2
             )
 
     def constraint(self, part: Part) -> Part:
@@ -143,13 +164,14 @@ class _Lifter:
             return part
         if rel == "=":
             raise DualizeError(
-                "cannot generate a solver: a dual equality constraint has a max, min, "
-                "absolute value or polyhedral norm of the multipliers; it is not convex, "
+                f"{self.subject.lead}a {self.subject.noun} equality constraint has a max, min, "
+                f"absolute value or polyhedral norm of {self.subject.moving}; it is not convex, "
                 "so no epigraph variable can replace it", 2
             )
         if rel == ">=":
             lhs, rhs = rhs, lhs
-        self.check(ir.Add((lhs, ir.Scale(MINUS, rhs))), "a dual constraint", "as lhs - rhs <= 0")
+        self.check(ir.Add((lhs, ir.Scale(MINUS, rhs))), f"a {self.subject.noun} constraint",
+                   "as lhs - rhs <= 0")
         return (self.term(lhs, 1), "<=", self.term(rhs, -1))
 
     def term(self, expr: ir.Expr, sign: int) -> ir.Expr:
@@ -166,13 +188,13 @@ class _Lifter:
 
     def refuse(self, why: str) -> NoReturn:
         raise DualizeError(
-            f"cannot generate a solver: a piecewise-linear term in {self.where} of the dual "
-            f"sits under {why}, so no epigraph variable can replace it (the generator "
-            "handles smooth duals and convex piecewise-linear ones)", 2
+            f"{self.subject.lead}a piecewise-linear term in {self.where} of the "
+            f"{self.subject.noun} sits under {why}, so no epigraph variable can replace it "
+            f"({self.subject.scope})", 2
         )
 
     def fresh(self, shape: ir.Shape, kind: str) -> ir.Symbol:
-        symbol = ir.Symbol(f"{PREFIX}{len(self.auxiliary)}", "auxiliary",
+        symbol = ir.Symbol(f"{self.subject.prefix}{len(self.auxiliary)}", "auxiliary",
                            ir.Shape(length(shape), sympy.Integer(1)))
         self.auxiliary.append(symbol)
         note = f"the {kind} in {self.where}"
@@ -196,7 +218,7 @@ class _Lifter:
 
     def weight(self, factor: ir.Expr) -> int:
         if self.moving(factor):
-            self.refuse("a factor that depends on the multipliers")
+            self.refuse(f"a factor that depends on {self.subject.moving}")
         sign = known_sign(factor)
         if sign is None:
             self.refuse("a weight of unknown sign")
@@ -227,7 +249,7 @@ class _Lifter:
         """A chain with one factor in the multipliers, the others of known sign."""
         moving = [i for i, f in enumerate(expr.factors) if self.moving(f)]
         if len(moving) != 1:
-            self.refuse("a product of two expressions in the multipliers")
+            self.refuse(f"a product of two expressions in {self.subject.moving}")
         i = moving[0]
         for factor in expr.factors[:i] + expr.factors[i + 1:]:
             sign *= self.weight(factor)

@@ -49,18 +49,22 @@ def _dual_lines(derivation: Derivation) -> list[str]:
     return lines
 
 
-def _recovery_lines(derivation: Derivation, missing: dict[str, str]) -> list[str]:
+def _recovery_lines(derivation: Derivation, missing: dict[str, str], how: str) -> list[str]:
     lines = []
     for rec in derivation.recovery:
         if rec.formula is not None:
             lines.append(f"  {rec.variable} = {plain(rec.formula)}")
     for name in sorted(missing):
-        lines.append(f"  {name}: no formula ({missing[name]}); solved as a linear program")
-        lines.append("    in the unrecovered variables with the others held, when it is one")
+        lines.append(f"  {name}: no formula ({missing[name]})")
+    if missing and how:
+        lines.extend(textwrap.wrap(f"{', '.join(sorted(missing))}: {how}.", width=86,
+                                   initial_indent="  ", subsequent_indent="    "))
     return lines
 
 
-def docstring(derivation: Derivation, method: str, reason: str, missing: dict[str, str]) -> str:
+def docstring(derivation: Derivation, method: str, reason: str, missing: dict[str, str],
+              how: str = "") -> str:
+    """``how`` says how the variables in ``missing`` are found (or why they are not)."""
     title = derivation.problem.title or "an optimization problem"
     lines = [
         f"Solver for the Lagrange dual of: {title}.",
@@ -75,7 +79,7 @@ def docstring(derivation: Derivation, method: str, reason: str, missing: dict[st
         *_dual_lines(derivation),
         "",
         "Recovery of the primal solution:",
-        *(_recovery_lines(derivation, missing) or ["  (none)"]),
+        *(_recovery_lines(derivation, missing, how) or ["  (none)"]),
         "",
         f"Method: {method}, because {reason}.",
         "",

@@ -39,7 +39,8 @@ def test_generated_module_is_ruff_clean(tmp_path, name):
     assert result.returncode == 0, result.stdout
 
 
-@pytest.mark.parametrize("name", ["parts_soft_margin", "charging_box"])
+@pytest.mark.parametrize("name", ["parts_soft_margin", "charging_box", "kiln_minimax",
+                                  "robot_analytic_center"])
 def test_same_input_same_module(name):
     first = render_solver(derivation_of(name))
     assert first == render_solver(derivation_of(name))
