@@ -12,15 +12,12 @@ import numpy as np
 import pytest
 
 from tests.solver.conftest import instance_of
+from tests.solver.instances import arrays
 from tests.solver.test_solver_vs_reference import close
 
 REL = 1e-6
 FACE = 1e-8
 """Slack on the optimal value that defines the set of optimal multipliers."""
-
-
-def arrays(data: dict, *names: str) -> list[np.ndarray]:
-    return [np.array(data[k], dtype=float) for k in names]
 
 
 def unique_entries(variable: cp.Variable, feasible: list, value: cp.Expression,

@@ -17,14 +17,11 @@ import numpy as np
 import pytest
 
 from tests.solver.conftest import instance_of
+from tests.solver.instances import arrays, center_instance, equality_instance, softmax_instance
 
 REL = 1e-6
 FACE = 1e-7
 """Slack on the optimal value that defines the optimal face."""
-
-
-def arrays(data: dict, *names: str) -> list[np.ndarray]:
-    return [np.array(data[k], dtype=float) for k in names]
 
 
 TIGHT = {"tol_gap_abs": 1e-11, "tol_gap_rel": 1e-11, "tol_feas": 1e-11}
@@ -69,9 +66,6 @@ def check_optimal(report: dict, x: cp.Variable, problem: cp.Problem, feasible) -
 
 
 # --- rule 1: polyhedral primals, recovered as linear programs -----------------
-def equality_instance(seed: int, m: int = 3, n: int = 6) -> dict:
-    rng = np.random.default_rng(seed)
-    return {"A": rng.normal(size=(m, n)).tolist(), "b": rng.normal(size=m).tolist()}
 
 
 @pytest.mark.parametrize("data", [instance_of("pipe_leaks_l1"), equality_instance(3),
@@ -216,13 +210,6 @@ def check_unique_optimum(report: dict, x: cp.Variable, problem: cp.Problem) -> n
     return ours
 
 
-def center_instance(seed: int, n: int = 3) -> dict:
-    rng = np.random.default_rng(seed)
-    A = np.vstack([np.eye(n), -np.eye(n), rng.normal(size=(3, n))])
-    b = A @ (0.1 * rng.normal(size=n)) + 0.5 + rng.random(len(A))
-    return {"A": A.tolist(), "b": b.tolist()}
-
-
 def analytic_center(data: dict) -> tuple[cp.Variable, cp.Problem]:
     # The analytic centre of a bounded polyhedron with an interior is unique: the barrier
     # is strictly convex there (Boyd and Vandenberghe, 2004, section 8.5.3, from memory).
@@ -263,13 +250,6 @@ def test_maximized_log_barrier_x(text_solver, data):
     report = module.solve(data)
     assert report["primal_value"] == pytest.approx(-problem.value, rel=REL)
     assert np.allclose(report["primal"]["x"], x.value, rtol=1e-5, atol=1e-6)
-
-
-def softmax_instance(seed: int, m: int = 6, n: int = 2) -> dict:
-    rng = np.random.default_rng(seed)
-    rows = rng.normal(size=(m - 1, n))
-    A = np.vstack([rows, -rows.sum(axis=0)])  # 0 in the hull of the rows: bounded below
-    return {"A": A.tolist(), "b": rng.normal(size=m).tolist()}
 
 
 def unique_log_sum_exp(A: np.ndarray) -> None:

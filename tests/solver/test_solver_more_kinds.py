@@ -14,12 +14,9 @@ import numpy as np
 import pytest
 
 from tests.solver.conftest import instance_of
+from tests.solver.instances import arrays, center_instance, equality_instance, softmax_instance
 
 REL = 1e-6
-
-
-def arrays(data: dict, *names: str):
-    return tuple(np.array(data[k], dtype=float) for k in names)
 
 
 def check(report: dict, value: float, sense: str = "minimize") -> None:
@@ -30,11 +27,6 @@ def check(report: dict, value: float, sense: str = "minimize") -> None:
         assert report["max_violation"] <= 1e-6
     weak = report["dual_value"] - value if sense == "minimize" else value - report["dual_value"]
     assert weak <= 1e-7 * (1 + abs(value))
-
-
-def equality_instance(seed: int, m: int = 3, n: int = 6) -> dict:
-    rng = np.random.default_rng(seed)
-    return {"A": rng.normal(size=(m, n)).tolist(), "b": rng.normal(size=m).tolist()}
 
 
 def norm_reference(data: dict, p: int) -> float:
@@ -80,13 +72,6 @@ def test_lasso(solver_module, data):
     check(module.solve(data), float(problem.value))
 
 
-def center_instance(seed: int, n: int = 3) -> dict:
-    rng = np.random.default_rng(seed)
-    A = np.vstack([np.eye(n), -np.eye(n), rng.normal(size=(3, n))])
-    b = A @ (0.1 * rng.normal(size=n)) + 0.5 + rng.random(len(A))
-    return {"A": A.tolist(), "b": b.tolist()}
-
-
 @pytest.mark.parametrize("data", [instance_of("robot_analytic_center"), center_instance(7),
                                   center_instance(8)])
 def test_analytic_center(solver_module, data):
@@ -99,13 +84,6 @@ def test_analytic_center(solver_module, data):
     _, module = solver_module("robot_analytic_center")
     report = module.solve(data)
     check(report, float(problem.value))
-
-
-def softmax_instance(seed: int, m: int = 6, n: int = 2) -> dict:
-    rng = np.random.default_rng(seed)
-    rows = rng.normal(size=(m - 1, n))
-    A = np.vstack([rows, -rows.sum(axis=0)])  # 0 in the hull of the rows: bounded below
-    return {"A": A.tolist(), "b": rng.normal(size=m).tolist()}
 
 
 @pytest.mark.parametrize("data", [instance_of("traffic_softmax"), softmax_instance(9),
