@@ -130,6 +130,8 @@ def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
     H = tidy(H)
     if domain.kind in ("nonneg", "pos"):
         return _orthant(x, H, q, domain.kind == "pos")
+    if domain.kind == "box":
+        return _box(x, H, q, domain)
     if domain.kind != "free":
         return None
     r = q.r if q.r is not None else b.num(0)
@@ -177,6 +179,34 @@ def _orthant(x: Symbol, H: Expr, q: Quadratic, open_set: bool) -> Outcome | None
     return Outcome(value, recovery=Recovery(x.name, xstar, note),
                    steps=[Step("minimize-quadratic-orthant", text, (Equation(x, "=", xstar),),
                                block=x.name)])
+
+
+def _box(x: Symbol, H: Expr, q: Quadratic, domain: Domain) -> Outcome | None:
+    """inf over lo <= x <= hi of 1/2 h x'x + g'x + r, with h a known positive scalar.
+
+    Entry by entry, 1/2 h t^2 + g_i t over [lo, hi] is least at the projection
+    p_i = max(lo, min(hi, -g_i/h)) of its unconstrained minimizer, so the
+    infimum is r + sum(1/2 h p.^2 + g .* p), attained at x = p.
+    """
+    h = _identity_multiple(H) if not H.shape.is_scalar else H
+    if h is None or _has_multiplier(h) or definiteness(H) != "pd":
+        return None
+    assert domain.lo is not None and domain.hi is not None
+    r = q.r if q.r is not None else b.num(0)
+    g = tidy(q.g) if q.g is not None else b.zeros(x.shape)
+    shape = x.shape
+    free = b.scale(b.neg(b.power(h, sympy.Integer(-1))), g)
+    c = tidy(b.maximum(b.broadcast(domain.lo, shape),
+                       b.minimum(b.broadcast(domain.hi, shape), free)))
+    half = b.scale(b.num(sympy.Rational(1, 2)), h)
+    pieces = b.add(b.scale(half, b.hadamard(c, c)), b.hadamard(g, c))
+    value = tidy(b.add(r, pieces if shape.is_scalar else b.sum_all(pieces)))
+    text = (f"The Lagrangian is a strictly convex quadratic in {x.name} with Hessian a positive "
+            f"multiple h of the identity, over the box [{_txt(domain.lo)}, {_txt(domain.hi)}]: "
+            "entry by entry it is least at the projection p of -g/h onto the interval, and "
+            "the infimum is r + sum(h/2 p^2 + g p).")
+    return Outcome(value, recovery=Recovery(x.name, c), steps=[Step(
+        "minimize-quadratic-box", text, (Equation(x, "=", c),), block=x.name)])
 
 
 def _definite(x: Symbol, H: Expr, g: Expr | None, r: Expr) -> Outcome:

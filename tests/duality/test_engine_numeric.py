@@ -17,7 +17,7 @@ import pytest
 pytest.importorskip("cvxpy")
 
 from dualize.duality import derive  # noqa: E402
-from dualize.model import load_file  # noqa: E402
+from dualize.model import load, load_file  # noqa: E402
 from dualize.numeric.instance import read_instance  # noqa: E402
 from dualize.numeric.samples import weak_duality_samples  # noqa: E402
 from dualize.numeric.verify import verify  # noqa: E402
@@ -100,3 +100,31 @@ def test_standard_forms_on_random_instances(path: Path) -> None:
         assert all(c.dual_value <= c.primal_value + 1e-6 for c in report.checks)
         return
     assert report.verdict == "zero-gap", (path.stem, report.checks)
+
+
+BOX_QP = """
+data A in R^(m,n)
+data b in R^m
+data c in R^n
+data h in R_++
+minimize h/2 * ||x||^2 + c' * x
+over x in [0, 1]^n
+subject to
+  fit: A*x == b
+"""
+
+
+def test_scaled_identity_quadratic_over_a_box_has_a_closed_form() -> None:
+    # inf over 0 <= t <= 1 of h/2 t^2 + g t is attained at the projection of -g/h onto
+    # [0, 1] (common practice); the dual optimum must meet cvxpy's primal optimum on
+    # random instances, the primal being convex with affine constraints (S. Boyd and
+    # L. Vandenberghe, Convex Optimization, 2004, section 5.2.3, from memory).
+    loaded = load(BOX_QP)
+    assert loaded.problem is not None
+    derivation = derive(loaded.problem)
+    assert derivation.dual.closed_form
+    report = verify(derivation, [], seeds=[3, 4, 5])
+    for check in report.checks:
+        assert check.weak_duality_ok, check
+        assert check.primal_status == "optimal", check
+        assert abs(check.gap) <= 1e-5 * max(1.0, abs(check.primal_value)), check
