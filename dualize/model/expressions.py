@@ -34,6 +34,15 @@ from dualize.syntax import ast
 ELEMENTWISE = {"exp": "exp", "log": "log", "sqrt": "sqrt"}
 
 
+
+_WRITTEN_AS = {
+    "abs": "the absolute value is written |e| (elementwise)",
+    "norm": "norms are written ||e||, ||e||_1, ||e||_2 or ||e||_inf",
+    "transpose": "the transpose is written e' (or e^T)",
+    "square": "write e^2 (elementwise on a vector) or ||e||^2 for the squared norm",
+}
+"""Hints for functions a reader may expect that the language writes as mathematics."""
+
 class ExprResolver:
     """Resolves expressions in one scope (data and variables declared before)."""
 
@@ -108,6 +117,7 @@ class ExprResolver:
             close = difflib.get_close_matches(node.func, FUNCTIONS, n=1, cutoff=0.5)
             hint = f"did you mean `{close[0]}`?" if close else "the functions are " + \
                 ", ".join(FUNCTIONS)
+            hint = _WRITTEN_AS.get(node.func, hint)
             raise self.scope.fail(M.UNKNOWN_FUNCTION, node.func_span, name=node.func, hint=hint)
         return getattr(self, f"_call_{node.func}")(node)
 

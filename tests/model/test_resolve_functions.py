@@ -68,3 +68,13 @@ def test_misspelt_function_gets_a_suggestion() -> None:
     diagnostics = load("minimize sum(sqr(x)) + tr(X) over x in R^n, X in S^n").diagnostics
     assert [d.rule for d in diagnostics] == ["unknown-function"]
     assert diagnostics[0].hint == "did you mean `sqrt`?"
+
+
+def test_function_the_language_writes_as_mathematics_gets_its_spelling() -> None:
+    from dualize.model import load
+
+    diagnostics = load("minimize sum(abs(x)) over x in R^n").diagnostics
+    assert [d.rule for d in diagnostics] == ["unknown-function"]
+    assert "|e|" in diagnostics[0].hint
+    diagnostics = load("minimize norm(x) over x in R^n").diagnostics
+    assert "||e||" in diagnostics[0].hint
