@@ -31,6 +31,7 @@ from dualize.model.expr import (
     Number,
     Ones,
     Power,
+    Scale,
     SumAll,
     Symbol,
     Transpose,
@@ -51,6 +52,8 @@ class Atom:
     arg: Expr
     p: str = "2"
     body: Expr | None = None
+    weight: Expr | None = None
+    """For abs and hinge: nonnegative data weights w in sum(w .* phi(arg)), else None."""
 
 
 @dataclass(frozen=True)
@@ -103,14 +106,38 @@ def _shaped(coef: Expr, e: Expr) -> Atom | None:
         return Atom(coef, "abs", e.arg)
     if isinstance(e, Extremum) and e.kind == "max" and _is_zero(e.right):
         return Atom(coef, "hinge", e.left)
-    inner = _summed(e)
+    weighted = _weighted(e)
+    weight, inner = weighted if weighted is not None else (None, _summed(e))
     if inner is None:
         return None
     if isinstance(inner, Apply) and inner.func == "abs":
-        return Atom(coef, "abs", inner.arg)
+        return Atom(coef, "abs", inner.arg, weight=weight)
     if isinstance(inner, Extremum) and inner.kind == "max" and _is_zero(inner.right):
-        return Atom(coef, "hinge", inner.left)
+        return Atom(coef, "hinge", inner.left, weight=weight)
     return None
+
+
+def _weighted(e: Expr) -> tuple[Expr, Expr] | None:
+    """(w, E) when e is w'E or sum(w .* E) with w data known nonnegative."""
+    from dualize.model.expr import Hadamard
+
+    pair = None
+    summed = _summed(e)
+    if isinstance(summed, Hadamard):
+        pair = (summed.left, summed.right)
+        if not _nonneg_data(pair[0]):
+            pair = (summed.right, summed.left)
+    elif isinstance(e, MatMul) and len(e.factors) == 2 and isinstance(e.factors[0], Transpose):
+        pair = (e.factors[0].arg, e.factors[1])  # w'E, or E'w as the normal form writes it
+        if not _nonneg_data(pair[0]):
+            pair = (e.factors[1], e.factors[0].arg)
+    if pair is None or not _nonneg_data(pair[0]) or pair[0].shape != pair[1].shape:
+        return None
+    return pair
+
+
+def _nonneg_data(w: Expr) -> bool:
+    return isinstance(w, Symbol) and w.role == "data" and bool(w.facts & {"nonneg", "pos"})
 
 
 def _is_zero(e: Expr) -> bool:
@@ -203,7 +230,7 @@ def with_argument(atom: Atom, u: Symbol) -> Atom:
     from dualize.model.expr import substitute
 
     if atom.kind != "separable" or atom.body is None:
-        return Atom(atom.coef, atom.kind, u, atom.p)
+        return Atom(atom.coef, atom.kind, u, atom.p, weight=atom.weight)
     place = Symbol(PLACE.name, "auxiliary", atom.arg.shape)
     body = substitute(atom.body, {place: u}) if depends_on(atom.body, {PLACE.name}) else \
         substitute(atom.body, {atom.arg: u})
@@ -248,12 +275,23 @@ def _square(atom: Atom, s: Expr, u: Expr) -> Infimum:
 
 def _hinge(atom: Atom, s: Expr, u: Expr) -> Infimum:
     zero = b.zeros(s.shape)
+    if atom.weight is not None:
+        c = b.scale(atom.coef, atom.weight)
+        return Infimum(b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
+                       "sum(c w .* max(u, 0)) - s'u is bounded below exactly when "
+                       "0 <= s <= c w, with infimum 0")
     c = b.broadcast(atom.coef, s.shape)
     return Infimum(b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
                    "c max(u, 0) - s u is bounded below exactly when 0 <= s <= c, with infimum 0")
 
 
 def _abs(atom: Atom, s: Expr, u: Expr) -> Infimum:
+    if atom.weight is not None:
+        unsigned = s.arg if isinstance(s, Scale) and isinstance(s.factor, Number) and \
+            s.factor.value == -1 else s  # |-s| = |s|
+        return Infimum(b.num(0), ((Apply("abs", unsigned), "<=", b.scale(atom.coef, atom.weight)),),
+                       None, "sum(c w .* |u|) - s'u is bounded below exactly when "
+                       "|s| <= c w entry by entry, with infimum 0")
     lhs = Apply("abs", s) if s.shape.is_scalar else _norm_of(s, "inf")
     return Infimum(b.num(0), ((lhs, "<=", atom.coef),), None,
                    "c|u| - s u is bounded below exactly when |s| <= c, with infimum 0")
@@ -300,10 +338,10 @@ def atom_expression(atom: Atom) -> Expr:
         body: Expr = Norm(u, atom.p)  # type: ignore[arg-type]
     elif atom.kind == "square":
         body = b.power(Norm(u, "2"), sympy.Integer(2))
-    elif atom.kind == "hinge":
-        body = b.sum_all(Extremum("max", u, b.zeros(u.shape)))
-    elif atom.kind == "abs":
-        body = b.sum_all(Apply("abs", u))
+    elif atom.kind in ("hinge", "abs"):
+        inner: Expr = Extremum("max", u, b.zeros(u.shape)) if atom.kind == "hinge" else \
+            Apply("abs", u)
+        body = b.sum_all(inner) if atom.weight is None else b.inner(atom.weight, inner)
     elif atom.kind == "logsumexp":
         body = Apply("log", b.sum_all(Apply("exp", u)))
     else:

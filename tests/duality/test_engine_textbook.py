@@ -321,3 +321,30 @@ def test_convex_remainder_still_splits() -> None:
     d = _derive("data A in R^(m,n)\ndata y in R^m\ndata lam in R_++\n"
                 "minimize ||A*x - y||^2 + lam * ||x||_1\nover x in R^n")
     assert d.dual.closed_form
+
+
+WEIGHTED = "data A in R^(m,n)\ndata b in R^m\ndata w in R^n_++"
+
+
+def test_weighted_one_norm_dual_is_an_entrywise_box() -> None:
+    # The dual norm of sum(w .* |x|) with w > 0 is max |s_i| / w_i, so minimize
+    # sum(w .* |x|) s.t. Ax = b has the dual maximize -b'nu s.t. |A'nu| <= w entry by entry
+    # (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section A.1.6 and example
+    # 5.x on norm minimization, from memory).
+    for objective in ("sum(w .* |x|)", "w' * |x|"):
+        d = _derive(WEIGHTED + f"\nminimize {objective}\nover x in R^n\nsubject to\n"
+                    "  nu: A*x == b")
+        claim = _claim(WEIGHTED, "maximize -b' * nu\nover nu in R^m\nsubject to\n"
+                       "  |A' * nu| <= w")
+        _check(d, claim)
+
+
+def test_cost_weighted_hinge_gives_per_sample_boxes() -> None:
+    # A soft margin with per-sample costs c_i: the dual box is 0 <= z_i <= c_i (C. Cortes
+    # and V. Vapnik, Support-vector networks, 1995, with per-sample weights, from memory).
+    data = "data X in R^(m,n)\ndata y in R^m\ndata c in R^m_+"
+    d = _derive(data + "\nminimize 1/2 * ||v||^2 + sum(c .* max(1 - y .* (X*v), 0))\n"
+                "over v in R^n")
+    claim = _claim(data, "maximize sum(z) - 1/2 * z' * diag(y) * X * X' * diag(y) * z\n"
+                   "over z in R^m\nsubject to\n  z >= 0\n  z <= c")
+    _check(d, claim)
