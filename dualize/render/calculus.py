@@ -18,6 +18,7 @@ from dataclasses import dataclass
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.ops import is_zero
 from dualize.render.ir_rewrite import (
     LogSumExp,
     Softmax,
@@ -170,11 +171,7 @@ def _clipped(expr: ir.Expr) -> ir.Expr | None:
 
 
 def _is_zero(expr: ir.Expr) -> bool:
-    if isinstance(expr, ir.Zero):
-        return True
-    if isinstance(expr, ir.Broadcast):
-        return _is_zero(expr.arg)
-    return isinstance(expr, ir.Number) and expr.value == 0
+    return is_zero(expr.arg if isinstance(expr, ir.Broadcast) else expr)
 
 
 def _apply(expr: ir.Apply, target: _Target) -> ir.Expr:
