@@ -344,6 +344,9 @@ def _clean_chain(chain: tuple[Expr, ...]) -> tuple[Expr, ...]:
     for f in chain:
         if isinstance(f, Identity) and (out or len(chain) > 1):
             continue
+        if out and b.inverse_pair(out[-1], f):
+            out.pop()
+            continue
         if out and isinstance(f, Ones) and _is_ones_row(out[-1]):
             out.pop()
             out.append(Number(f.n))
@@ -355,6 +358,8 @@ def _clean_chain(chain: tuple[Expr, ...]) -> tuple[Expr, ...]:
             out[-1] = b.transpose(f.arg)
             continue
         out.append(f)
+    if not out and chain and not _chain_shape_is_scalar(chain):
+        return (Identity(chain[0].shape.rows),)
     return tuple(out)
 
 
