@@ -337,6 +337,9 @@ def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome | None:
         G = tidy(b.scale(b.num(sympy.Rational(1, 2)), b.add(G, b.transpose(G))))
     if domain.kind in ("free", "symmetric"):
         return _affine_condition(X, G, r, "=", "its coefficient vanishes")
+    if domain.kind in ("nonneg", "pos"):
+        return _affine_condition(X, G, r, ">=", "its coefficient is nonnegative entry by entry "
+                                 f"({X.name} ranges over the nonnegative matrices)")
     if domain.kind in ("psd", "pd"):
         c = zero_constraint(b.neg(G), "preceq", f"the Lagrangian is linear in {X.name} over the "
                             "semidefinite cone: its coefficient must be positive semidefinite")
