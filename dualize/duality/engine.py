@@ -76,7 +76,7 @@ def derive(problem: Problem) -> Derivation:
     recovery = _substituted(recovery, substitutions(more_steps))
     if problem.sense == "maximize":
         dual = _as_minimization(dual)
-    work.steps.append(Step("dual-problem", _dual_sentence(dual)))
+    work.steps.append(Step("dual-problem", _dual_sentence(dual, problem.sense)))
     kkt = conditions(problem, outcomes)
     notes = _notes(work, dual)
     return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
@@ -433,7 +433,7 @@ def _as_minimization(dual: DualProblem) -> DualProblem:
                        dual.constraints, dual.inner, dual.unbounded)
 
 
-def _dual_sentence(dual: DualProblem) -> str:
+def _dual_sentence(dual: DualProblem, sense: str = "minimize") -> str:
     if dual.unbounded:
         return ("The dual function is minus infinity for every choice of multipliers: the dual "
                 "gives no bound (the primal problem is unbounded below or its Lagrangian is).")
@@ -441,7 +441,28 @@ def _dual_sentence(dual: DualProblem) -> str:
         names = ", ".join(v.name for v in dual.inner)
         return (f"The dual problem, with the infimum over {names} kept because no rule "
                 "eliminates it in closed form.")
-    return "The dual problem collects the dual function and every condition for it to be finite."
+    text = "The dual problem collects the dual function and every condition for it to be finite."
+    return text + " " + finiteness_sentence(dual, sense) if dual.constraints else text
+
+
+def finiteness_sentence(dual: DualProblem, sense: str) -> str:
+    """Where the dual function is finite, and what its infinite cases say of the primal.
+
+    Outside the implicit constraints the infimum of the Lagrangian is minus infinity
+    (plus infinity for the supremum of a maximization); by weak duality an unbounded
+    dual proves the primal infeasible, and a dual with no feasible multiplier gives
+    no bound (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, sections 5.1.2
+    and 5.2.2, from memory).
+    """
+    if sense == "minimize":
+        return ("Outside these conditions the dual function is minus infinity. The dual is "
+                "unbounded above only if the primal is infeasible; if no multiplier "
+                "satisfies the conditions, the dual gives no bound and the primal is "
+                "unbounded below or infeasible.")
+    return ("Outside these conditions the dual function is plus infinity. The dual is "
+            "unbounded below only if the primal is infeasible; if no multiplier satisfies "
+            "the conditions, the dual gives no bound and the primal is unbounded above or "
+            "infeasible.")
 
 
 def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:

@@ -55,3 +55,17 @@ def test_weighted_entries_are_a_linear_functional() -> None:
     got = float(evaluate(d.dual.objective, values, {"m": 3, "n": 4}))
     want = values["u"] @ (values["D"] * values["E"]) @ values["v"]
     assert abs(got - want) <= 1e-9 * max(1.0, abs(want))
+
+
+def test_derivation_states_where_the_dual_function_is_finite() -> None:
+    # Outside the implicit constraints the dual function is minus infinity, and an
+    # unbounded dual proves the primal infeasible (weak duality; S. Boyd and
+    # L. Vandenberghe, Convex Optimization, 2004, sections 5.1.2 and 5.2.2, from memory).
+    d = _derive(TRANSPORT + "\nminimize sum(C .* X)\nover X in R^(m,n)\nsubject to\n"
+                "  supply: X * ones(n) == a\n  demand: X' * ones(m) == b\n  pos: X >= 0")
+    [last] = [s for s in d.steps if s.rule == "dual-problem"]
+    assert "minus infinity" in last.text
+    assert "unbounded above only if the primal is infeasible" in last.text
+    up = _derive("data c in R^n\nmaximize c' * x\nover x in R^n\nsubject to\n  cap: x <= 1")
+    [last] = [s for s in up.steps if s.rule == "dual-problem"]
+    assert "plus infinity" in last.text and "unbounded below only if" in last.text
