@@ -12,8 +12,8 @@ import pytest
 from dualize.duality import derive
 from dualize.errors import DualizeError
 from dualize.model import load
-from dualize.render.python_code import python_names
-from dualize.render.solver import render_solver
+from dualize.solvergen.python_code import python_names
+from dualize.solvergen.solver import render_solver
 from tests.solver.conftest import EXAMPLES, derivation_of
 
 SOLVABLE = [

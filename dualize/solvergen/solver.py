@@ -17,11 +17,11 @@ from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.caution import CAUTION
-from dualize.render.ir_rewrite import length
-from dualize.render.python_code import python_names
-from dualize.render.solver_emit import Emitter, Scope, function
-from dualize.render.solver_plan import Plan, is_conic, make_plan
-from dualize.render.solver_recover import (
+from dualize.solvergen.ir_rewrite import length
+from dualize.solvergen.python_code import python_names
+from dualize.solvergen.solver_emit import Emitter, Scope, function
+from dualize.solvergen.solver_plan import Plan, is_conic, make_plan
+from dualize.solvergen.solver_recover import (
     Rule,
     choose,
     lagrangian,
@@ -31,7 +31,7 @@ from dualize.render.solver_recover import (
     rule_text,
     unknowns,
 )
-from dualize.render.solver_text import docstring
+from dualize.solvergen.solver_text import docstring
 
 
 def render_solver(derivation: Derivation) -> str:

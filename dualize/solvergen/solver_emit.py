@@ -12,8 +12,8 @@ import json
 from dataclasses import dataclass
 
 from dualize.model import expr as ir
-from dualize.render.ir_rewrite import normalize
-from dualize.render.python_code import Constants, NumpyPrinter, bare
+from dualize.solvergen.ir_rewrite import normalize
+from dualize.solvergen.python_code import Constants, NumpyPrinter, bare
 
 
 @dataclass(frozen=True)
