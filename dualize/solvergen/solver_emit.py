@@ -57,7 +57,7 @@ class Emitter:
             elif name in self.scope.primal:
                 lines.append(f"{ident} = x[{json.dumps(name)}]")
         if any(by_ident.get(i) in self.scope.dual for i in used):
-            lines.insert(0, "_parts = _split(z, d)")
+            lines.insert(0, "_parts = _split(z, _dual_sizes(d), SCALARS)")
         return lines
 
 
