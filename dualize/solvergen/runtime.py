@@ -66,6 +66,15 @@ class InputError(Exception):
     """Bad instance data: reported in one line, exit status 2."""
 
 
+class NoFiniteDual(Exception):
+    """A method proved the dual has no finite optimum: ``kind`` is "unbounded" (the dual
+    grows without bound, so the primal is infeasible) or "infeasible" (no dual point)."""
+
+    def __init__(self, kind, message):
+        super().__init__(message)
+        self.kind = kind
+
+
 def _flat(value, size):
     return np.broadcast_to(np.asarray(value, dtype=float), (size,)).astype(float)
 

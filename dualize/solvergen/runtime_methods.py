@@ -8,6 +8,8 @@ imports above it serve linting and the unit tests only.  ``p`` is the module's `
 import numpy as np
 import scipy.optimize
 
+from dualize.solvergen.runtime import NoFiniteDual
+
 # ---- copied into the generated module from here ----
 
 
@@ -40,6 +42,8 @@ def _solve_linprog(p, d, z0, lo, hi, tol, max_iter):
         bounds=list(zip(lo, hi, strict=True)), method="highs",
         options={"maxiter": max_iter, "primal_feasibility_tolerance": max(tol, 1e-10)},
     )
+    if res.status in (2, 3):  # HiGHS proved the (negated) dual infeasible or unbounded
+        raise NoFiniteDual("infeasible" if res.status == 2 else "unbounded", str(res.message))
     z = res.x if res.x is not None else z0
     return z, res.status == 0, res.message
 
@@ -115,6 +119,9 @@ def _most_interior(p, z0, lo, hi, d):
         A_eq=None if a_eq is None else np.hstack([a_eq, np.zeros((a_eq.shape[0], 1))]),
         b_eq=b_eq, bounds=[(None, None)] * size + [(None, 1.0)], method="highs",
     )
+    if res.status == 2:  # t is free below, so only the constraints themselves can clash
+        raise NoFiniteDual("infeasible", "no multipliers meet the dual's bounds and linear "
+                           f"constraints ({res.message})")
     if res.status != 0 or res.x[size] <= 0:
         return None
     return res.x[:size]
