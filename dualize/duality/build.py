@@ -34,6 +34,7 @@ from dualize.model.expr import (
     Transpose,
     Zero,
 )
+from dualize.model.functions import lookup
 
 
 def num(value: int | sympy.Expr) -> Number:
@@ -345,11 +346,10 @@ def divide(a: Expr, b: Expr) -> Expr:
 
 
 def apply(func: str, e: Expr) -> Expr:
-    if func == "exp" and isinstance(e, Apply) and e.func == "log":
+    """func(e), with a function of the table and its inverse cancelled (exp(log u) = u)."""
+    if isinstance(e, Apply) and lookup(func).inverse == e.func:
         return e.arg
-    if func == "log" and isinstance(e, Apply) and e.func == "exp":
-        return e.arg
-    return Apply(func, e)  # type: ignore[arg-type]
+    return Apply(func, e)
 
 
 def minimum(a: Expr, b: Expr) -> Expr:
