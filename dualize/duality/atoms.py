@@ -35,10 +35,10 @@ from dualize.model.expr import (
     SumAll,
     Symbol,
     Transpose,
-    Zero,
     depends_on,
 )
 from dualize.model.functions import ABS, EXP, LOG
+from dualize.model.ops import is_zero
 
 DUAL_NORM = {"2": "2", "1": "inf", "inf": "1"}
 
@@ -105,7 +105,7 @@ def _shaped(coef: Expr, e: Expr) -> Atom | None:
             return Atom(coef, "logsumexp", inner.arg)
     if isinstance(e, Apply) and e.func == ABS.name and e.shape.is_scalar:
         return Atom(coef, "abs", e.arg)
-    if isinstance(e, Extremum) and e.kind == "max" and _is_zero(e.right):
+    if isinstance(e, Extremum) and e.kind == "max" and is_zero(e.right):
         return Atom(coef, "hinge", e.left)
     weighted = _weighted(e)
     weight, inner = weighted if weighted is not None else (None, _summed(e))
@@ -113,7 +113,7 @@ def _shaped(coef: Expr, e: Expr) -> Atom | None:
         return None
     if isinstance(inner, Apply) and inner.func == ABS.name:
         return Atom(coef, "abs", inner.arg, weight=weight)
-    if isinstance(inner, Extremum) and inner.kind == "max" and _is_zero(inner.right):
+    if isinstance(inner, Extremum) and inner.kind == "max" and is_zero(inner.right):
         return Atom(coef, "hinge", inner.left, weight=weight)
     return None
 
@@ -139,10 +139,6 @@ def _weighted(e: Expr) -> tuple[Expr, Expr] | None:
 
 def _nonneg_data(w: Expr) -> bool:
     return isinstance(w, Symbol) and w.role == "data" and bool(w.facts & {"nonneg", "pos"})
-
-
-def _is_zero(e: Expr) -> bool:
-    return isinstance(e, Zero) or (isinstance(e, Number) and e.value == 0)
 
 
 def _summed(e: Expr) -> Expr | None:

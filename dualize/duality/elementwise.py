@@ -34,8 +34,10 @@ from dualize.model.expr import (
     depends_on,
 )
 from dualize.model.functions import EXP, SQRT, TABLE, lookup
+from dualize.model.relations import Comparison
 
 Relation = tuple[Expr, str, Expr]
+"""lhs, relation, rhs; the relation may be strict (">", "<") until the caller closes it."""
 ASSUMPTIONS = {"pos": "positive", "nonneg": "nonnegative", "integer": "integer"}
 
 
@@ -325,14 +327,15 @@ def lift_interval(
 
     The IR has no strict relations, so an open end is reported with the
     relation "<" or ">" and the caller decides how to state it (a dual usually
-    keeps the closure and notes the open end).  A single point gives "==";
+    keeps the closure and notes the open end).  A single point gives "==" (the
+    language's comparison);
     the whole line gives no relation at all.
     """
     place = _Place(sympy.Dummy("s"), arg, arg.shape, data or {})
     if domain == sympy.S.Reals:
         return []
     if isinstance(domain, sympy.FiniteSet) and len(domain.args) == 1:
-        return [(arg, "==", _bound(domain.args[0], place))]
+        return [(arg, Comparison.EQ, _bound(domain.args[0], place))]
     if not isinstance(domain, sympy.Interval):
         raise LiftError(f"the domain {domain} is not an interval or a point")
     out: list[Relation] = []

@@ -21,7 +21,7 @@ from dualize.render import structure as st
 from dualize.render.names import latex_name
 
 RELATIONS: dict[str, str] = {
-    "=": "=", "==": "=", "<=": r"\leq", ">=": r"\geq", "succeq": r"\succeq",
+    "=": "=", "<=": r"\leq", ">=": r"\geq", "succeq": r"\succeq",
     "preceq": r"\preceq", "in": r"\in", "!=": r"\neq",
 }
 _TALL = (r"\frac", r"\tfrac", "bmatrix")

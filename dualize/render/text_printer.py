@@ -19,7 +19,7 @@ from dualize.render import structure as st
 from dualize.render.names import text_name
 
 RELATIONS: dict[str, str] = {
-    "=": "=", "==": "=", "<=": "≤", ">=": "≥", "succeq": "⪰", "preceq": "⪯", "in": "∈",
+    "=": "=", "<=": "≤", ">=": "≥", "succeq": "⪰", "preceq": "⪯", "in": "∈",
 }
 _SUPERSCRIPTS = dict(zip("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻", strict=True))
 _VULGAR: dict[tuple[int, int], str] = {
