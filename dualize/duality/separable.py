@@ -81,6 +81,15 @@ def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # typ
         raise NoClosedForm(f"no conjugate found within {CONJUGATE_SECONDS:.0f} s") from None
 
 
+def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
+    """Where phi is continuous; a function in pieces (Huber's) is continuous on R when
+    each piece is, which sympy's domain finder cannot tell."""
+    if isinstance(phi, sympy.Piecewise):
+        parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
+        return sympy.Intersection(*parts) if parts else sympy.S.Reals
+    return continuous_domain(phi, t, sympy.S.Reals)
+
+
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s."""
     interval = _interval(domain)
@@ -93,7 +102,7 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
     if f is None:
         return None
     phi = to_sympy(atom.coef, Scope()) * f
-    natural = continuous_domain(phi, t, sympy.S.Reals)
+    natural = _natural_domain(phi, t)
     region = natural.intersect(interval)
     if not isinstance(region, sympy.Interval):
         return None
