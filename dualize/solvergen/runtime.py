@@ -9,10 +9,12 @@ linted module with unit tests of its own.  The imports above a marker serve lint
 and the tests only.
 """
 
+import contextlib
 import json
 from dataclasses import dataclass, field
 
 import numpy as np
+import scipy.sparse
 
 # ---- copied into the generated module from here ----
 
@@ -24,6 +26,13 @@ CERTIFY = GAP_TOL
 """A minimizer of the Lagrangian is kept as x only when it passes the same two tests."""
 MAX_DEPTH = 32
 """The deepest nesting of lists an instance file may hold (a matrix needs two)."""
+BLAS_THREADS = 1
+"""BLAS threads for the solve.  The module's products are matrix-vector or thin
+(m x r with r small), where extra threads only add synchronisation, and on a busy
+machine they can cost a thousand times the product itself.  Run as a script the
+module sets OPENBLAS_NUM_THREADS (and the OpenMP and MKL ones) to 1 before numpy
+loads, unless already set; imported, it holds BLAS to this many threads during
+``solve`` when threadpoolctl is installed, and leaves the caller's setting otherwise."""
 
 
 @dataclass(frozen=True)
@@ -62,6 +71,15 @@ class Spec:
     caution: str = ""
 
 
+def _blas_threads():
+    """A context holding BLAS to BLAS_THREADS threads (a no-op without threadpoolctl)."""
+    try:
+        import threadpoolctl
+    except ImportError:
+        return contextlib.nullcontext()
+    return threadpoolctl.threadpool_limits(limits=BLAS_THREADS, user_api="blas")
+
+
 class InputError(Exception):
     """Bad instance data: reported in one line, exit status 2."""
 
@@ -84,6 +102,13 @@ def _block(value, rows, cols):
     if value.size == 1 and rows * cols != 1:
         return np.broadcast_to(value.reshape(()), (rows, cols)).astype(float)
     return value.reshape(rows, cols)
+
+
+def _sparse_block(value, rows, cols):
+    """``_block`` for a Jacobian that may be sparse: a scipy sparse array either way."""
+    if scipy.sparse.issparse(value):
+        return scipy.sparse.csr_array(value.reshape((rows, cols)))
+    return scipy.sparse.csr_array(_block(value, rows, cols))
 
 
 def _split(z, sizes, scalars):

@@ -6,6 +6,7 @@ imports above it serve linting and the unit tests only.
 
 import numpy as np
 import scipy.optimize
+import scipy.sparse
 
 from dualize.solvergen.runtime import CERTIFY
 from dualize.solvergen.runtime_methods import _start, _walled
@@ -44,9 +45,9 @@ def _fill_by_linear_program(p, x, d):
     eq = [(j, -v) for relation, v, j in rows if relation == "="]
     bounds = [(lo, hi) for _, size, lo, hi in variables for _ in range(size)]
     res = scipy.optimize.linprog(
-        c, A_ub=np.vstack([j for j, _ in ub]) if ub else None,
+        c, A_ub=scipy.sparse.vstack([j for j, _ in ub], format="csr") if ub else None,
         b_ub=np.concatenate([b for _, b in ub]) if ub else None,
-        A_eq=np.vstack([j for j, _ in eq]) if eq else None,
+        A_eq=scipy.sparse.vstack([j for j, _ in eq], format="csr") if eq else None,
         b_eq=np.concatenate([b for _, b in eq]) if eq else None,
         bounds=bounds, method="highs",
     )
