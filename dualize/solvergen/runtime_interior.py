@@ -7,7 +7,12 @@ imports above it serve linting and the unit tests only.
 import numpy as np
 import scipy.linalg
 
-from dualize.solvergen.runtime_methods import _linear_parts, _solve_augmented, _solve_slsqp
+from dualize.solvergen.runtime_methods import (
+    _keep_multipliers,
+    _linear_parts,
+    _solve_augmented,
+    _solve_slsqp,
+)
 
 # ---- copied into the generated module from here ----
 
@@ -189,6 +194,7 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
     it happened.
     """
     objective, gradient, hessian, a, b, z, lo, hi = _with_slacks(p, d, z0, lo, hi)
+    extra = len(z) - len(z0)
     low, up = np.isfinite(lo), np.isfinite(hi)
     wl, wu = low.astype(float), up.astype(float)
     y = np.zeros(0 if a is None else len(b))
@@ -204,6 +210,9 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
                 and np.abs(primal_res).max(initial=0.0) <= tol * target
                 and np.isfinite(objective(z))
                 and mu * count <= tol * (1.0 + abs(objective(z)))):
+            equalities = 0 if a is None else len(b) - extra
+            _keep_multipliers(p, z[:len(z0)], d, y[equalities:], y[:equalities],
+                              (wl[:len(z0)], wu[:len(z0)]))
             return z[:len(z0)], True, "interior point: residuals and complementarity below " \
                 "the tolerance"
         if not (np.all(it.sl > 0) and np.all(it.su > 0) and np.all(np.isfinite(dual_res))):
