@@ -20,7 +20,7 @@ import sympy
 from dualize.model import expr as ir
 from dualize.model.functions import lookup
 from dualize.model.ops import is_zero
-from dualize.render.ir_rewrite import (
+from dualize.solvergen.ir_rewrite import (
     LogSumExp,
     Softmax,
     is_scalar,

@@ -31,8 +31,8 @@ from dualize.analysis.public import curvature, sign
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.functions import ABS
-from dualize.render.calculus import NotDifferentiable, jacobian
-from dualize.render.ir_rewrite import is_scalar, is_vector_like, length
+from dualize.solvergen.calculus import NotDifferentiable, jacobian
+from dualize.solvergen.ir_rewrite import is_scalar, is_vector_like, length
 
 Part = tuple[ir.Expr, str, ir.Expr]
 """A constraint ``lhs relation rhs``, relation one of ``<=``, ``>=``, ``=``."""

@@ -23,7 +23,7 @@ from sympy.printing.printer import Printer
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.functions import LOG, lookup
-from dualize.render.ir_rewrite import LogSumExp, Softmax, is_scalar, is_vector_like
+from dualize.solvergen.ir_rewrite import LogSumExp, Softmax, is_scalar, is_vector_like
 
 RESERVED = frozenset({"np", "scipy", "json", "sys", "d", "z", "x", "p", "c", "math"})
 """Names the generated module uses itself; user names equal to these get a suffix."""

@@ -35,10 +35,10 @@ from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.functions import lookup
 from dualize.model.problem import Variable
-from dualize.render.calculus import NotDifferentiable, gradient, jacobian
-from dualize.render.ir_rewrite import length, normalize
-from dualize.render.solver_emit import Emitter, function
-from dualize.render.solver_lift import MINUS, Lift, Part, Subject, epigraph_lift
+from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
+from dualize.solvergen.ir_rewrite import length, normalize
+from dualize.solvergen.solver_emit import Emitter, function
+from dualize.solvergen.solver_lift import MINUS, Lift, Part, Subject, epigraph_lift
 
 PRIMAL = Subject("_epi", "primal", "the unrecovered variables", "",
                  "the recovery lifts convex piecewise-linear terms only")
