@@ -8,8 +8,9 @@ module keeps each outcome in a user cache folder so that a second process
 reads it back instead of deriving it again.  Each entry is keyed by the kind
 of step and the exact sympy input (``key_of``).
 
-- Where: ``$DUALIZE_CACHE_DIR`` if set, else ``$XDG_CACHE_HOME/dualize``, else
-  ``~/.cache/dualize``; ``DUALIZE_CACHE=off`` turns the cache off.
+- Where: the ``derivation`` folder of the user cache (``dualize.disk_cache``:
+  ``$DUALIZE_CACHE_DIR``, ``$XDG_CACHE_HOME/dualize`` or ``~/.cache/dualize``;
+  ``DUALIZE_CACHE=off`` turns it off).
 - Versioned: an entry records a stamp made of the cache format, the sympy
   version and a hash of the engine's source files, so an entry written by other
   code is ignored and rebuilt; so is an entry that does not parse.
@@ -25,17 +26,15 @@ from __future__ import annotations
 
 import functools
 import hashlib
-import json
-import os
-import tempfile
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
 import sympy
 
+from dualize import disk_cache
+
 FORMAT = 1
-MAX_BYTES = 1_000_000
 _SOURCES = ("conjugate.py", "conjugate_check.py", "separable.py", "derivation_cache.py",
             "elementwise.py", "simplify.py", "scalar.py")
 
@@ -44,15 +43,7 @@ class Unstorable(Exception):  # noqa: N818 - a plain outcome: this value is not 
     """A value outside the whitelist (or one that does not read back identically)."""
 
 
-def cache_dir() -> Path | None:
-    """The folder of conjugate entries, or None when the cache is turned off."""
-    if os.environ.get("DUALIZE_CACHE", "").lower() in ("off", "0", "no"):
-        return None
-    explicit = os.environ.get("DUALIZE_CACHE_DIR")
-    if explicit:
-        return Path(explicit) / "derivation"
-    base = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
-    return Path(base) / "dualize" / "derivation"
+SECTION = "derivation"
 
 
 @functools.lru_cache(maxsize=1)
@@ -70,45 +61,12 @@ def stamp() -> str:
 
 def lookup(key: str) -> Any | None:
     """The stored payload for ``key`` (a JSON value), or None on a miss or a bad entry."""
-    path = _path(key)
-    if path is None:
-        return None
-    try:
-        if path.stat().st_size > MAX_BYTES:
-            return None
-        entry = json.loads(path.read_text(encoding="utf-8"))
-    except (OSError, ValueError, RecursionError):
-        return None
-    if not isinstance(entry, dict) or entry.get("stamp") != stamp() or entry.get("key") != key:
-        return None
-    return entry.get("payload")
+    return disk_cache.lookup(SECTION, key, stamp())
 
 
 def store(key: str, payload: Any) -> None:
-    """Write the entry atomically; a folder that cannot be written is skipped silently."""
-    path = _path(key)
-    if path is None:
-        return
-    text = json.dumps({"stamp": stamp(), "key": key, "payload": payload}, sort_keys=True)
-    try:
-        path.parent.mkdir(parents=True, exist_ok=True)
-        fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=".tmp-", suffix=".json")
-        try:
-            with os.fdopen(fd, "w", encoding="utf-8") as handle:
-                handle.write(text)
-            os.replace(tmp, path)
-        except BaseException:
-            Path(tmp).unlink(missing_ok=True)
-            raise
-    except OSError:
-        return
-
-
-def _path(key: str) -> Path | None:
-    folder = cache_dir()
-    if folder is None:
-        return None
-    return folder / (hashlib.sha256(key.encode()).hexdigest() + ".json")
+    """Write the entry atomically (see ``dualize.disk_cache``)."""
+    disk_cache.store(SECTION, key, stamp(), payload)
 
 
 def key_of(kind: str, *parts: sympy.Basic) -> str:
