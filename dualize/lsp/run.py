@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import logging
 import sys
 from typing import NoReturn
 
@@ -17,10 +16,10 @@ def serve(time_limit: float) -> NoReturn:
     import os
 
     from dualize.lsp.budget import Limits
+    from dualize.lsp.protocol import log_to_stderr
     from dualize.lsp.server import build
 
-    logging.basicConfig(stream=sys.stderr, level=logging.WARNING,
-                        format="dualize serve: %(levelname)s: %(message)s")
+    log_to_stderr()
     server = build(Limits.from_total(time_limit), _version())
     code = 1
     try:

@@ -22,6 +22,7 @@ from dualize.errors import DualizeError
 from dualize.lsp import actions, convert, fixes, hover, navigate
 from dualize.lsp.budget import Limits
 from dualize.lsp.positions import TextMap
+from dualize.lsp.protocol import ProblemProtocol
 from dualize.lsp.state import Snapshot
 from dualize.lsp.tasks import Work
 
@@ -39,7 +40,7 @@ class ProblemServer(LanguageServer):
     """pygls's server with dualize's state: worker pools, snapshots, time limits."""
 
     def __init__(self, limits: Limits, version: str) -> None:
-        super().__init__("dualize", version,
+        super().__init__("dualize", version, protocol_cls=ProblemProtocol,
                          text_document_sync_kind=lsp.TextDocumentSyncKind.Incremental)
         self.limits = limits
         self.work = Work()
