@@ -20,7 +20,7 @@ from dualize.model.expr import symbols_of
 from dualize.model.problem import Constraint, Problem, Variable
 
 KIND_WORD = {"ineq": "inequality", "eq": "equality", "psd": "semidefinite constraint"}
-SET_WORD = {"nonneg": "nonnegative", "nonpos": "nonpositive", "free": "free (any sign)",
+SET_WORD = {"nonneg": "nonnegative", "nonpos": "nonpositive", "free": "free, any sign",
             "psd": "positive semidefinite", "symmetric": "symmetric"}
 DOMAIN_WORD = {
     "free": "free: the inner minimization runs over every value",
@@ -96,8 +96,8 @@ def constraint_hover(c: Constraint, derivation: Derivation | None,
         return "\n".join(lines)
     multiplier = next((m for m in derivation.multipliers if m.name == c.multiplier.name), None)
     if multiplier is not None:
-        lines.append(f"multiplier `{multiplier.name}` ∈ `{_set_text(multiplier)}` "
-                     f"({SET_WORD.get(multiplier.set, multiplier.set)})")
+        lines.append(f"multiplier `{multiplier.name}` ∈ `{_set_text(multiplier)}`: "
+                     f"{SET_WORD.get(multiplier.set, multiplier.set)}")
     lines += ["", *_dual_constraints(c.multiplier.name, derivation)]
     return "\n".join(lines)
 
@@ -124,10 +124,12 @@ def _dual_constraints(name: str, derivation: Derivation) -> list[str]:
     word = re.compile(rf"(?<![\w]){re.escape(name)}(?![\w])")
     found = [c for c in derivation.dual.constraints
              if _mentions(c, name) or word.search(c.reason)]
-    kept = any(v.name == name for v in derivation.dual.variables)
+    kept = next((v for v in derivation.dual.variables if v.name == name), None)
     if not found:
-        tail = "" if kept else " (it was eliminated from the dual)"
-        return [f"It produces no dual constraint besides its sign condition{tail}."]
+        if kept is None:
+            return ["It produces no dual constraint (it was eliminated from the dual)."]
+        return ["It produces no dual constraint of its own" +
+                ("." if kept.set == "free" else "; only its set is a condition on it.")]
     out = ["dual constraints it produces:"]
     for c in found:
         out.append(f"- `{text_expr(c.lhs)} {text_relation(c.relation)} {text_expr(c.rhs)}`"
