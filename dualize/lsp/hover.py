@@ -18,6 +18,7 @@ from dualize.lsp.lookup import Mention, constraint_at, labelled_constraint, ment
 from dualize.lsp.state import Snapshot
 from dualize.model.expr import symbols_of
 from dualize.model.problem import Constraint, Problem, Variable
+from dualize.model.relations import Comparison
 
 KIND_WORD = {"ineq": "inequality", "eq": "equality", "psd": "semidefinite constraint"}
 SET_WORD = {"nonneg": "nonnegative", "nonpos": "nonpositive", "free": "free, any sign",
@@ -89,7 +90,8 @@ def constraint_hover(c: Constraint, derivation: Derivation | None,
     from dualize.render.text import text_expr, text_relation
 
     lines = [f"**constraint `{c.label}`** ({KIND_WORD[c.kind]})", "",
-             f"`{text_expr(c.lhs)} {text_relation(c.relation)} {text_expr(c.rhs)}`", ""]
+             f"`{text_expr(c.lhs)} {text_relation(Comparison(c.relation).relation)} "
+             f"{text_expr(c.rhs)}`", ""]
     if derivation is None:
         lines.append(f"multiplier `{c.multiplier.name}`: {_expected_set(c)}")
         lines += ["", pending or "The dual is not available: the problem has errors."]
