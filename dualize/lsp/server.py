@@ -72,8 +72,14 @@ class ProblemServer(LanguageServer):
         await asyncio.sleep(delay)
         try:
             snap = await self.current(uri)
-        except JsonRpcException:
+        except RequestFailed as err:  # reading the text ran out of time: say so
+            doc = self.workspace.text_documents.get(unquote(uri))
+            self.text_document_publish_diagnostics(lsp.PublishDiagnosticsParams(
+                uri, [convert.notice(f"dualize: {err.message}; no findings are shown")],
+                doc.version if doc is not None else None))
             return
+        except JsonRpcException:
+            return  # closed in the meantime
         self._show_config_error(snap)
         try:
             done = await self.work.analysed(snap, self.limits.lint)

@@ -81,13 +81,16 @@ def test_quick_fixes_rewrite_the_hinted_text(tmp_path: Path) -> None:
         actions = await s.client.text_document_code_action_async(lsp.CodeActionParams(
             _doc(uri), whole, lsp.CodeActionContext(diagnostics=found)))
         fixes = [a for a in actions if a.kind == lsp.CodeActionKind.QuickFix]
-        fixed = TYPOS
+        fixed, changes = TYPOS, []
         for action in sorted(fixes, key=lambda a: a.edit.changes[uri][0].range.start.line,
                              reverse=True):
             [edit] = action.edit.changes[uri]
             fixed = apply(fixed, edit)
+            changes.append(lsp.TextDocumentContentChangePartial(edit.range, edit.new_text))
         assert "sum(|x - a|)" in fixed and "c: x ./ d <= 1" in fixed
-        s.replace(uri, fixed, 2)
+        # the editor applies the edits and sends them as incremental changes
+        s.client.text_document_did_change(lsp.DidChangeTextDocumentParams(
+            lsp.VersionedTextDocumentIdentifier(uri=uri, version=2), changes))
         after = await s.diagnostics(uri, version=2)
         assert not [d for d in after if d.severity == lsp.DiagnosticSeverity.Error]
         assert await s.stop() == 0

@@ -78,3 +78,24 @@ def test_open_change_hover_derive_shutdown(tmp_path: Path) -> None:
         assert await s.stop() == 0
 
     run(scenario)
+
+
+def test_rapid_changes_are_debounced_to_the_last_version() -> None:
+    """Typing sends a change per keystroke; findings are published for the text the
+    user stopped at, not for every keystroke on the way (common practice)."""
+    uri = "untitled:typing"
+    steps = ["minimize x", "minimize x^", "minimize x^2", "minimize x^2 over",
+             "minimize x^2 over x in R\n"]
+
+    async def scenario(s: Session) -> None:
+        s.open(uri, "")
+        await s.diagnostics(uri, version=1)
+        for version, text in enumerate(steps, start=2):
+            s.replace(uri, text, version)
+        last = await s.diagnostics(uri, version=len(steps) + 1)
+        assert not matching(last, severity=lsp.DiagnosticSeverity.Error)
+        seen = {p.version for p in s.published[uri]}
+        assert seen == {1, len(steps) + 1}
+        assert await s.stop() == 0
+
+    run(scenario)
