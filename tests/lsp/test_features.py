@@ -119,3 +119,23 @@ def test_write_latex_beside_the_file(tmp_path: Path) -> None:
                           timeout=120, check=True)
     assert written == same.stdout  # the same text as the command line writes
     assert sorted(p.name for p in tmp_path.iterdir()) == ["margin.prob", "margin.tex"]
+
+
+def test_project_settings_choose_the_findings(tmp_path: Path) -> None:
+    """[tool.dualize] of the pyproject.toml above the file applies, as for `dualize lint`."""
+    (tmp_path / "pyproject.toml").write_text('[tool.dualize]\nignore = ["unused"]\n',
+                                             encoding="utf-8")
+    folder = tmp_path / "models"
+    folder.mkdir()
+    text = "data q in R\nminimize x^2 over x in R\n"
+    uri = uri_of(folder / "settings.prob")
+
+    async def scenario(s: Session) -> None:
+        s.open(uri, text)
+        assert await s.diagnostics(uri, version=1) == []
+        s.open("untitled:same", text)  # no project: the defaults report the unused data
+        found = await s.diagnostics("untitled:same", version=1)
+        assert [d.code for d in found] == ["unused-data"]
+        assert await s.stop() == 0
+
+    run(scenario)
