@@ -11,6 +11,7 @@ open, or one that runs out of time, gets a protocol error, never a crash.
 from __future__ import annotations
 
 import asyncio
+import logging
 from typing import Any
 from urllib.parse import unquote
 
@@ -46,6 +47,12 @@ class ProblemServer(LanguageServer):
         self.work = Work()
         self.pending: dict[str, asyncio.Task[None]] = {}
         self.shown: set[str] = set()
+
+    def report_server_error(self, error: Exception, source: Any) -> None:
+        """A notification that could not be handled (a change to a document that was
+        never opened, say) is the client's slip: log it, do not alarm the user."""
+        logging.getLogger(__name__).warning("ignored a message that could not be handled: "
+                                            "%s: %s", type(error).__name__, error)
 
     def text_map(self, snap: Snapshot) -> TextMap:
         return TextMap(snap.text, str(self.workspace.position_encoding or "utf-16"))
@@ -174,7 +181,10 @@ def _questions(server: ProblemServer) -> None:
         code_action_kinds=[lsp.CodeActionKind.QuickFix, lsp.CodeActionKind.Source]))
     async def act(ls: ProblemServer, params: lsp.CodeActionParams) -> list[lsp.CodeAction]:
         snap = await ls.current(params.text_document.uri)
-        return _quick_fixes(ls, snap, params.range) + _source_actions(snap)
+        found = _quick_fixes(ls, snap, params.range) + _source_actions(snap)
+        only = params.context.only
+        return [a for a in found if not only or any(str(a.kind).startswith(str(k))
+                                                     for k in only)]
 
 
 async def _hover(ls: ProblemServer, params: lsp.HoverParams) -> lsp.Hover | None:

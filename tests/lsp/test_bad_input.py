@@ -108,6 +108,13 @@ def test_malformed_messages_do_not_end_the_server() -> None:
                            "params": {}}).encode()),
         _frame(json.dumps({"jsonrpc": "2.0", "id": 3, "method": "textDocument/hover",
                            "params": {"textDocument": 5}}).encode()),
+        _frame(json.dumps({"jsonrpc": "2.0", "method": "textDocument/didChange", "params": {
+            "textDocument": {"uri": "file:///never/opened.prob", "version": 2},
+            "contentChanges": [{"text": "minimize x over x in R"}]}}).encode()),
+        _frame(json.dumps({"jsonrpc": "2.0", "method": "textDocument/didClose", "params": {
+            "textDocument": {"uri": "untitled:never-opened"}}}).encode()),
+        _frame(json.dumps({"jsonrpc": "2.0", "id": 5, "method": "workspace/executeCommand",
+                           "params": {"command": "no.such.command"}}).encode()),
         _frame(json.dumps({"jsonrpc": "2.0", "id": 4, "method": "shutdown"}).encode()),
         _frame(json.dumps({"jsonrpc": "2.0", "method": "exit"}).encode()),
     ]
@@ -120,6 +127,8 @@ def test_malformed_messages_do_not_end_the_server() -> None:
     assert "capabilities" in by_id[1]["result"]
     assert by_id[2]["error"]["code"] == -32601  # method not found
     assert by_id[3]["error"]["code"] == INVALID_PARAMS
+    assert by_id[5]["error"]["code"] == INVALID_PARAMS
     assert by_id[4]["result"] is None
     assert done.returncode == 0
     assert b"Traceback" not in done.stdout + done.stderr
+    assert b"window/showMessage" not in done.stdout  # a client's slip is logged, not shown
