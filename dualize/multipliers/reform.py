@@ -189,12 +189,13 @@ def _sibling(path: str, form: str) -> str:
 
 def _pair(given: str, penalized: Problem, constrained: Problem, weight: str, bound: str,
           label: str, r_text: str, f_text: str) -> F.Pair:
-    conditions = _conditions(constrained, label)
+    conditions = _conditions(constrained, label, weight, bound)
     return F.Pair(given, constrained.sense, weight, bound, label, r_text, f_text,
                   penalized.source, constrained.source, penalized, constrained, conditions)
 
 
-def _conditions(constrained: Problem, label: str) -> tuple[tuple[str, str], ...]:
+def _conditions(constrained: Problem, label: str, weight: str,
+                bound_name: str) -> tuple[tuple[str, str], ...]:
     """Each condition of the equivalence and what the analysis says of it."""
     from dualize.analysis.convexity import variable_signs
     from dualize.analysis.public import curvature
@@ -207,9 +208,11 @@ def _conditions(constrained: Problem, label: str) -> tuple[tuple[str, str], ...]
     return (
         (f"f is {want}", _status(f_curv, want)),
         ("r is convex", _status(r_curv, "convex")),
-        ("t lies above the smallest value of r over the other constraints (Slater's "
-         "condition for the bound)", "to be checked on an instance (dualize trade-off)"),
-        ("w is the optimal multiplier of the bound r(x) <= t", "the relation between w and t"),
+        (f"{bound_name} lies above the smallest value of r over the other constraints "
+         "(Slater's condition for the bound)", "to be checked on an instance (dualize "
+         "trade-off)"),
+        (f"{weight} is the optimal multiplier of the bound {label}", "the relation between "
+         f"{weight} and {bound_name}"),
     )
 
 
