@@ -8,7 +8,7 @@ whatever side it was written on: ``a'x <= b`` becomes ``a'x <= b + u`` and
 ``x >= l`` becomes ``x >= l - u``.  The shifts are cvxpy parameters, so the
 problem is canonicalized once and each re-solve only changes numbers.
 
-The solve asks Clarabel for tight tolerances (1e-10) so that finite differences
+The solve asks Clarabel for tight tolerances (1e-10, else 1e-9) so that finite differences
 of optimal values and multipliers compared across solves stay meaningful, and
 falls back to the reference's own solve sequence when that fails.
 """
@@ -23,8 +23,7 @@ import numpy as np
 from dualize.model.problem import Problem
 from dualize.numeric.instance import Instance
 
-TIGHT = {"tol_gap_abs": 1e-10, "tol_gap_rel": 1e-10, "tol_feas": 1e-10,
-         "max_iter": 400}
+TIGHT = (1e-10, 1e-9)  # Clarabel's gap and feasibility tolerances, tried in turn
 
 
 @dataclass(frozen=True)
@@ -109,12 +108,14 @@ def _run(prob: Any) -> str:
 
     from dualize.numeric.reference import run_solver
 
-    try:
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore")
-            prob.solve(solver=cp.CLARABEL, **TIGHT)
+    for tol in TIGHT:
+        try:
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore")
+                prob.solve(solver=cp.CLARABEL, tol_gap_abs=tol, tol_gap_rel=tol, tol_feas=tol,
+                           max_iter=400)
+        except (cp.error.SolverError, ValueError, ArithmeticError):
+            continue
         if prob.status == "optimal":
             return "optimal"
-    except (cp.error.SolverError, ValueError, ArithmeticError):
-        pass
     return run_solver(prob)
