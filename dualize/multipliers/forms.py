@@ -57,6 +57,11 @@ class Pair:
 
         return pair_markdown(self)
 
+    def _repr_html_(self) -> str:
+        from dualize.multipliers.path_print import pair_html
+
+        return pair_html(self)
+
 
 class FormError(DualizeError):
     """The problem has no weighted term or bound of the kind asked (exit code 2)."""

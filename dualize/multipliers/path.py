@@ -65,14 +65,19 @@ class Curve:
         return curve_markdown(self)
 
     def _repr_html_(self) -> str:
-        from dualize.multipliers.printing import markdown_table_html
+        from dualize.multipliers.path_print import curve_html
 
-        return markdown_table_html(self._repr_markdown_())
+        return curve_html(self)
 
     def _repr_svg_(self) -> str:
         from dualize.multipliers.plot import curve_svg
 
         return curve_svg(self)
+
+    def _repr_png_(self) -> bytes:
+        from dualize.multipliers.plot import curve_png
+
+        return curve_png(self)
 
 
 class Forms:

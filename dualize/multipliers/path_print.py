@@ -68,6 +68,14 @@ def curve_markdown(curve: Curve) -> str:
     return "\n".join(lines) + "\n"
 
 
+def curve_html(curve: Curve) -> str:
+    from dualize.multipliers.printing import html_page
+
+    head = [f"Trade-off between {curve.pair.weight} and {curve.pair.bound} on "
+            f"{curve.instance}", relation(curve.pair), *conditions(curve.pair)]
+    return html_page(head, table(curve), _lines(curve) + [CAUTION])
+
+
 def curve_latex(curve: Curve, standalone: bool = False) -> str:
     from dualize.multipliers.latex import escape, tabular, wrap
 
@@ -127,6 +135,15 @@ def pair_markdown(pair: Pair) -> str:
              *[f"- {c}" for c in conditions(pair)], "", "```", pair.other_text.rstrip("\n"),
              "```", "", f"*{CAUTION}*"]
     return "\n".join(lines) + "\n"
+
+
+def pair_html(pair: Pair) -> str:
+    import html
+
+    from dualize.multipliers.printing import html_page
+
+    page = html_page([relation(pair), *conditions(pair)], [], [])
+    return page + f"<pre>{html.escape(pair.other_text)}</pre><p>{html.escape(CAUTION)}</p>"
 
 
 def pair_latex(pair: Pair, standalone: bool = False) -> str:

@@ -14,11 +14,13 @@ from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from dualize.multipliers.path import Curve
+    from dualize.multipliers.sensitivity import Sensitivity
 
 HASH_SALT = "dualize-trade-off"
 
 
-def _figure(curve: Curve) -> Any:
+def _pyplot() -> Any:
+    """pyplot on the Agg backend with the settings that make files reproducible."""
     import matplotlib
 
     matplotlib.use("Agg", force=True)
@@ -26,6 +28,11 @@ def _figure(curve: Curve) -> Any:
 
     plt.rcParams["svg.hashsalt"] = HASH_SALT
     plt.rcParams["svg.fonttype"] = "path"
+    return plt
+
+
+def _figure(curve: Curve) -> Any:
+    plt = _pyplot()
     good = [p for p in curve.points if p.status in ("agrees", "edge")]
     pair = curve.pair
     fig, (left, right) = plt.subplots(1, 2, figsize=(9, 3.6))
@@ -51,10 +58,8 @@ def _short(text: str, limit: int = 48) -> str:
     return text if len(text) <= limit else text[:limit - 3] + "..."
 
 
-def _save(curve: Curve, fmt: str) -> bytes:
-    import matplotlib.pyplot as plt
-
-    fig = _figure(curve)
+def _save(fig: Any, fmt: str) -> bytes:
+    plt = _pyplot()
     buffer = io.BytesIO()
     metadata = {"Date": None} if fmt == "svg" else {"Software": None}
     try:
@@ -65,12 +70,35 @@ def _save(curve: Curve, fmt: str) -> bytes:
 
 
 def curve_svg(curve: Curve) -> str:
-    return _save(curve, "svg").decode("utf-8")
+    return _save(_figure(curve), "svg").decode("utf-8")
 
 
 def curve_png(curve: Curve) -> bytes:
-    return _save(curve, "png")
+    return _save(_figure(curve), "png")
 
 
-def finite(value: float) -> bool:
-    return math.isfinite(value)
+def _prices_figure(report: Sensitivity) -> Any:
+    """One bar per entry: the multiplier's rate; a kink's one-sided rates as a bracket."""
+    plt = _pyplot()
+    rows = report.rows
+    fig, axis = plt.subplots(figsize=(max(4.0, 0.55 * len(rows) + 1.5), 3.4))
+    xs = list(range(len(rows)))
+    axis.bar(xs, [r.rate for r in rows], color=["C0" if r.binds else "C7" for r in rows])
+    for x, r in zip(xs, rows, strict=True):
+        if r.check in ("kink", "edge") and math.isfinite(r.left) and math.isfinite(r.right):
+            axis.plot([x, x], [r.left, r.right], color="C3", marker="_", markersize=12)
+    axis.axhline(0, color="black", linewidth=0.6)
+    axis.set_xticks(xs, [r.name for r in rows], rotation=60, ha="right", fontsize=8)
+    axis.set_ylabel("dp*/du (rate)")
+    axis.set_title("rates by entry (grey: not binding; red: one-sided rates at a kink)",
+                   fontsize=9)
+    fig.tight_layout()
+    return fig
+
+
+def prices_svg(report: Sensitivity) -> str:
+    return _save(_prices_figure(report), "svg").decode("utf-8")
+
+
+def prices_png(report: Sensitivity) -> bytes:
+    return _save(_prices_figure(report), "png")

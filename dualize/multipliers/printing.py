@@ -142,9 +142,25 @@ def _md_row(cells: list[str]) -> str:
     return "| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |"
 
 
-def markdown_table_html(markdown: str) -> str:
-    """A notebook's HTML view: the Markdown in a preformatted block (escaped)."""
-    return f"<pre>{html.escape(markdown)}</pre>"
+def html_table(rows: list[list[str]]) -> str:
+    """Rows as an HTML table (every cell escaped), the first row as the header."""
+    head = "".join(f"<th>{html.escape(c)}</th>" for c in rows[0])
+    body = "".join("<tr>" + "".join(f"<td>{html.escape(c)}</td>" for c in r) + "</tr>"
+                   for r in rows[1:])
+    return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
+
+
+def html_page(lines: list[str], rows: list[list[str]], after: list[str]) -> str:
+    """A notebook's HTML view: sentences, the table, sentences (all escaped)."""
+    paragraphs = "".join(f"<p>{html.escape(line)}</p>" for line in lines if line)
+    tail = "".join(f"<p>{html.escape(line)}</p>" for line in after if line)
+    return paragraphs + (html_table(rows) if len(rows) > 1 else "") + tail
+
+
+def sensitivity_html(report: Sensitivity) -> str:
+    notes = [f"{r.name}: {r.note}" for r in report.rows if r.note]
+    return html_page(_header(report), table_rows(report),
+                     notes + [bound_sentence(report), CAUTION])
 
 
 def sensitivity_json(report: Sensitivity) -> str:

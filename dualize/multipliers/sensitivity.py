@@ -90,9 +90,15 @@ class Sensitivity:
         return sensitivity_markdown(self)
 
     def _repr_html_(self) -> str:
-        from dualize.multipliers.printing import markdown_table_html
+        from dualize.multipliers.printing import sensitivity_html
 
-        return markdown_table_html(self._repr_markdown_())
+        return sensitivity_html(self)
+
+    def _repr_svg_(self) -> str | None:
+        """The rates as bars (None, so a notebook shows no picture, when nothing is priced)."""
+        from dualize.multipliers.plot import prices_svg
+
+        return prices_svg(self) if self.rows else None
 
 
 def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT,
