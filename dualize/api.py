@@ -49,16 +49,29 @@ def derive(source: str | Path | Problem) -> Derivation:
 def write_atomically(path: str, text: str) -> None:
     """Write ``text`` to ``path`` so that a failure leaves no partial file and an
     existing file untouched: a temporary file in the same folder, then a rename."""
+    write_bytes_atomically(path, text.encode("utf-8"))
+
+
+def write_bytes_atomically(path: str, data: bytes) -> None:
+    """``write_atomically`` for any content (a PNG picture). The file gets the mode a
+    newly created file would get (the temporary file's private 0600 is not kept)."""
     folder = os.path.dirname(os.path.abspath(path))
     fd, tmp = tempfile.mkstemp(prefix=".dualize-", dir=folder)
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
-            handle.write(text)
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
+        os.chmod(tmp, 0o666 & ~_umask())
         os.replace(tmp, path)
     except BaseException:
         if os.path.exists(tmp):
             os.unlink(tmp)
         raise
+
+
+def _umask() -> int:
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
 
 
 def render(derivation: Derivation, fmt: str, analysis: object | None,
@@ -79,20 +92,6 @@ def render(derivation: Derivation, fmt: str, analysis: object | None,
     from dualize.render.text import render_text
 
     return render_text(derivation, analysis, color=color)  # type: ignore[arg-type]
-
-
-def write_bytes_atomically(path: str, data: bytes) -> None:
-    """``write_atomically`` for binary content (a PNG picture)."""
-    folder = os.path.dirname(os.path.abspath(path))
-    fd, tmp = tempfile.mkstemp(prefix=".dualize-", dir=folder)
-    try:
-        with os.fdopen(fd, "wb") as handle:
-            handle.write(data)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
 
 
 def _instance_of(problem: Problem, data: object) -> object:

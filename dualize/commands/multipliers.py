@@ -58,8 +58,12 @@ def _emit(text: str, output: str | None) -> None:
               help="Check the rates of at most this many constraint entries.")
 @click.option("--time-limit", type=click.FloatRange(min=1), default=300, show_default=True,
               help="Seconds for the re-solves; entries left are reported unchecked.")
+@click.option("--svg", "svg_path", type=click.Path(), default=None,
+              help="Also draw the rates as bars, SVG (deterministic).")
+@click.option("--png", "png_path", type=click.Path(), default=None,
+              help="Also draw the rates as bars, PNG.")
 def prices_command(file: str, data: str | None, fmt: str, output: str | None, limit: int,
-                   time_limit: float) -> None:
+                   time_limit: float, svg_path: str | None, png_path: str | None) -> None:
     """Price every constraint of FILE on an instance.
 
     For each constraint entry: the optimal multiplier, whether it binds, the local
@@ -79,7 +83,19 @@ def prices_command(file: str, data: str | None, fmt: str, output: str | None, li
         report = prices(problem, _instance(file, data, problem), limit=limit,
                         seconds=time_limit)
         _emit(render_sensitivity(report, fmt), output)
+        if report.rows:
+            _bars(report, svg_path, png_path)
     sys.exit(1 if report.failed_checks() or not report.rows else 0)
+
+
+def _bars(report: Any, svg_path: str | None, png_path: str | None) -> None:
+    from dualize.api import write_atomically, write_bytes_atomically
+    from dualize.multipliers.plot import prices_png, prices_svg
+
+    if svg_path is not None:
+        write_atomically(svg_path, prices_svg(report))
+    if png_path is not None:
+        write_bytes_atomically(png_path, prices_png(report))
 
 
 @click.command("reform")

@@ -43,7 +43,8 @@ def table(curve: Curve) -> list[list[str]]:
 def _lines(curve: Curve) -> list[str]:
     swept = "weight" if curve.given == "weight" else "bound"
     out = [f"Each {swept} is matched by solving its form; each point is checked by solving "
-           f"the other form at the matched value (agreement within 1e-5 relative).",
+           f"the other form at the matched value (weights agree within 1e-4 relative, bounds "
+           "and optimal values within 1e-5).",
            f"Smallest value of r over the other constraints: {num(curve.smallest_r)}."]
     out += [f"{p.status} at {curve.pair.weight} = {num(p.weight)}, {curve.pair.bound} = "
             f"{num(p.bound)}: {p.note}" for p in curve.points if p.note][:8]
