@@ -90,10 +90,15 @@ def _values(pair: Any, instance: Any, at_weight: float | None, at_bound: float |
 
 
 def _from_instance(pair: Any, instance: Any) -> tuple[str, list[float]]:
+    """The instance's weight or bound, else a bound written as a number in the file."""
     for key, name in (("weights", pair.weight), ("bounds", pair.bound)):
         value = instance.values.get(name)
         if value is not None:
             return key, [float(value)]
+    try:
+        return "bounds", [float(pair.bound)]
+    except ValueError:
+        pass
     raise DualizeError("the instance has no value for the weight or the bound: give "
                        "--at-weight, --at-bound or a sweep", exit_code=2)
 

@@ -153,7 +153,7 @@ def parsed(problem: Problem) -> Document:
 
 def problem_text(comment: str, title: str, data: list[str], sense: str, objective: str,
                  over: str, constraints: list[str]) -> str:
-    lines = [f"# {comment}", f'title "{_quote(title)}"', ""] + data
+    lines = [f"# {' '.join(comment.split())}", f'title "{_quote(title)}"', ""] + data
     lines += ["", f"{sense} {objective}", f"over {over}"]
     if constraints:
         lines += ["subject to", *constraints]
@@ -161,7 +161,7 @@ def problem_text(comment: str, title: str, data: list[str], sense: str, objectiv
 
 
 def _quote(text: str) -> str:
-    return text.replace('"', "'")
+    return " ".join(text.replace('"', "'").split())
 
 
 def reread(text: str, path: str, what: str) -> Problem:

@@ -88,6 +88,7 @@ class Forms:
     """Both forms posed once on one instance; each solve only changes ``w`` or ``t``."""
 
     def __init__(self, pair: Pair, instance: Instance) -> None:
+        pair = _with_data_bound(pair)
         self.pair, self.instance = pair, instance
         base = {k: v for k, v in instance.values.items() if k not in (pair.weight, pair.bound)}
         self._pen = _Scalar(pair.penalized, instance, base, pair.weight)
@@ -107,6 +108,16 @@ class Forms:
         r = float(evaluate(self.bound_fn, values, self.instance.dims))
         f = float(evaluate(self.pair.constrained.objective, values, self.instance.dims))
         return r, f
+
+
+def _with_data_bound(pair: Pair) -> Pair:
+    """A pair whose bound ``t`` is data, so that it can vary: a bound written as a number
+    or an expression (``r(x) <= 2``) is rewritten from the penalized form."""
+    if pair.bound in {d.name for d in pair.constrained.data}:
+        return pair
+    from dualize.multipliers.reform import other_form
+
+    return other_form(pair.penalized, weight=pair.weight)
 
 
 class _Scalar:

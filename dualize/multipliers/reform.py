@@ -8,7 +8,7 @@ from dualize.syntax import ast
 
 
 def other_form(problem: Problem, weight: str | None = None, bound: str | None = None,
-               new_name: str | None = None, new_label: str = "bound") -> F.Pair:
+               new_name: str | None = None, new_label: str | None = None) -> F.Pair:
     """The pair of forms of ``problem``.
 
     ``weight`` names the data weight of a penalized problem; ``bound`` the label
@@ -17,6 +17,7 @@ def other_form(problem: Problem, weight: str | None = None, bound: str | None = 
     """
     doc = F.parsed(problem)
     w_name, t_name = new_name or _free(problem, "w"), new_name or _free(problem, "t")
+    new_label = new_label or _free(problem, "bound", {t_name})
     if bound is not None:
         return _from_constrained(problem, doc, bound, w_name)
     if weight is not None:
@@ -95,9 +96,9 @@ def _taken(problem: Problem) -> set[str]:
             | {c.label for c in problem.constraints} | {str(d) for d in problem.dims})
 
 
-def _free(problem: Problem, stem: str) -> str:
+def _free(problem: Problem, stem: str, also: set[str] | None = None) -> str:
     """``stem``, else ``stem1``, ``stem2``, ...: the first name the problem does not use."""
-    taken, k = _taken(problem), 0
+    taken, k = _taken(problem) | (also or set()), 0
     while (f"{stem}{k}" if k else stem) in taken:
         k += 1
     return f"{stem}{k}" if k else stem
