@@ -16,6 +16,8 @@ import click
 from dualize.errors import DualizeError
 
 FORMATS = click.Choice(["text", "markdown", "latex", "json"])
+STANDALONE = click.option("--standalone", is_flag=True,
+                          help="LaTeX: a complete document for pdflatex.")
 
 
 def _problem(file: str, outcome: str) -> Any:
@@ -58,12 +60,14 @@ def _emit(text: str, output: str | None) -> None:
               help="Check the rates of at most this many constraint entries.")
 @click.option("--time-limit", type=click.FloatRange(min=1), default=300, show_default=True,
               help="Seconds for the re-solves; entries left are reported unchecked.")
+@STANDALONE
 @click.option("--svg", "svg_path", type=click.Path(), default=None,
               help="Also draw the rates as bars, SVG (deterministic).")
 @click.option("--png", "png_path", type=click.Path(), default=None,
               help="Also draw the rates as bars, PNG.")
 def prices_command(file: str, data: str | None, fmt: str, output: str | None, limit: int,
-                   time_limit: float, svg_path: str | None, png_path: str | None) -> None:
+                   time_limit: float, standalone: bool, svg_path: str | None,
+                   png_path: str | None) -> None:
     """Price every constraint of FILE on an instance.
 
     For each constraint entry: the optimal multiplier, whether it binds, the local
@@ -82,7 +86,7 @@ def prices_command(file: str, data: str | None, fmt: str, output: str | None, li
         problem = _problem(file, "nothing was priced")
         report = prices(problem, _instance(file, data, problem), limit=limit,
                         seconds=time_limit)
-        _emit(render_sensitivity(report, fmt), output)
+        _emit(render_sensitivity(report, fmt, standalone), output)
         if report.rows:
             _bars(report, svg_path, png_path)
     sys.exit(1 if report.failed_checks() or not report.rows else 0)
@@ -108,10 +112,11 @@ def _bars(report: Any, svg_path: str | None, png_path: str | None) -> None:
               help="The name of the new bound t or weight w [default: t or w, made unique].")
 @click.option("--format", "fmt", type=FORMATS, default="text", show_default=True,
               help="The output format of the statement.")
+@STANDALONE
 @click.option("-o", "--output", type=click.Path(), default=None,
               help="Write the other form as a problem file (.prob, atomically).")
 def reform_command(file: str, weight: str | None, bound: str | None, name: str | None,
-                   fmt: str, output: str | None) -> None:
+                   fmt: str, standalone: bool, output: str | None) -> None:
     """Write the other form of FILE: penalized <-> constrained.
 
     From minimize f + w r (w a scalar data weight in R_+ or R_++) the constrained form
@@ -130,4 +135,4 @@ def reform_command(file: str, weight: str | None, bound: str | None, name: str |
                           name=name)
         if output is not None:
             write_atomically(output, pair.other_text)
-        _emit(render_pair(pair, fmt), None)
+        _emit(render_pair(pair, fmt, standalone), None)

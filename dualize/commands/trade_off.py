@@ -11,7 +11,7 @@ from typing import Any
 
 import click
 
-from dualize.commands.multipliers import FORMATS, _emit, _instance, _problem
+from dualize.commands.multipliers import FORMATS, STANDALONE, _emit, _instance, _problem
 from dualize.errors import DualizeError
 
 
@@ -33,6 +33,7 @@ from dualize.errors import DualizeError
               help="The curve over N evenly spaced bounds from LO to HI.")
 @click.option("--format", "fmt", type=FORMATS, default="text", show_default=True,
               help="The output format of the table.")
+@STANDALONE
 @click.option("-o", "--output", type=click.Path(), default=None,
               help="Write the table to this file (atomically) instead of standard output.")
 @click.option("--csv", "csv_path", type=click.Path(), default=None,
@@ -44,8 +45,8 @@ from dualize.errors import DualizeError
 def trade_off_command(file: str, data: str | None, weight: str | None, bound: str | None,
                       at_weight: float | None, at_bound: float | None,
                       sweep_weights: str | None, sweep_bounds: str | None, fmt: str,
-                      output: str | None, csv_path: str | None, svg_path: str | None,
-                      png_path: str | None) -> None:
+                      standalone: bool, output: str | None, csv_path: str | None,
+                      svg_path: str | None, png_path: str | None) -> None:
     """Match the weight w of FILE's penalized form with the bound t of its constrained form.
 
     Give one of --at-weight, --at-bound, --sweep-weights, --sweep-bounds; without one,
@@ -65,7 +66,7 @@ def trade_off_command(file: str, data: str | None, weight: str | None, bound: st
                                 sweep_bounds)
         with _bar(len(values)) as tick:
             curve = trade_off(pair, instance, **{given: values}, tick=tick)
-        _emit(render_curve(curve, fmt), output)
+        _emit(render_curve(curve, fmt, standalone), output)
         _pictures(curve, csv_path, svg_path, png_path)
     sys.exit(1 if curve.failed() or curve.problems else 0)
 

@@ -116,9 +116,10 @@ def curve_csv(curve: Curve) -> str:
     return "\n".join(rows) + "\n"
 
 
-def render_curve(curve: Curve, fmt: str) -> str:
-    return {"text": curve_text, "markdown": curve_markdown, "latex": curve_latex,
-            "json": curve_json}[fmt](curve)
+def render_curve(curve: Curve, fmt: str, standalone: bool = False) -> str:
+    if fmt == "latex":
+        return curve_latex(curve, standalone)
+    return {"text": curve_text, "markdown": curve_markdown, "json": curve_json}[fmt](curve)
 
 
 def pair_text(pair: Pair) -> str:
@@ -168,6 +169,7 @@ def pair_json(pair: Pair) -> str:
     return json.dumps(data, indent=2, ensure_ascii=False)
 
 
-def render_pair(pair: Pair, fmt: str) -> str:
-    return {"text": pair_text, "markdown": pair_markdown, "latex": pair_latex,
-            "json": pair_json}[fmt](pair)
+def render_pair(pair: Pair, fmt: str, standalone: bool = False) -> str:
+    if fmt == "latex":
+        return pair_latex(pair, standalone)
+    return {"text": pair_text, "markdown": pair_markdown, "json": pair_json}[fmt](pair)

@@ -193,13 +193,12 @@ def _j(value: float) -> float | None:
     return 0.0 if value == 0 else float(f"{value:.12g}")
 
 
-def sensitivity_latex(report: Sensitivity) -> str:
-    from dualize.multipliers.latex import sensitivity_latex as _latex
+def render_sensitivity(report: Sensitivity, fmt: str, standalone: bool = False) -> str:
+    """The report in ``fmt`` (text, markdown, latex or json); ``standalone`` LaTeX
+    is a complete document."""
+    if fmt == "latex":
+        from dualize.multipliers.latex import sensitivity_latex
 
-    return _latex(report)
-
-
-def render_sensitivity(report: Sensitivity, fmt: str) -> str:
-    """The report in ``fmt`` (text, markdown, latex or json)."""
+        return sensitivity_latex(report, standalone)
     return {"text": sensitivity_text, "markdown": sensitivity_markdown,
-            "latex": sensitivity_latex, "json": sensitivity_json}[fmt](report)
+            "json": sensitivity_json}[fmt](report)

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import json
 import os
+import shutil
 import subprocess
 import sys
 from pathlib import Path
@@ -146,3 +147,63 @@ def test_svg_is_byte_identical_across_runs(tmp_path: Path) -> None:
     second = _svg_in_a_process(tmp_path / "b.svg")
     assert first == second
     assert b"<dc:date>" not in first
+
+
+@pytest.mark.skipif(shutil.which("pdflatex") is None, reason="pdflatex missing")
+@pytest.mark.parametrize("command", [
+    ["prices", str(EXAMPLES / "pipe_leaks_l1.prob")],
+    ["reform", str(EXAMPLES / "orchard_mean_variance.prob")],
+    ["trade-off", str(EXAMPLES / "spectrum_lasso.prob"), "--sweep-weights", "0.1:10:3"],
+])
+def test_standalone_latex_compiles(tmp_path: Path, command: list[str]) -> None:
+    """pdflatex accepts the document (common practice: a document that compiles)."""
+    code, out, _ = run(*command, "--format", "latex", "--standalone")
+    assert code == 0
+    (tmp_path / "doc.tex").write_text(out)
+    done = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error",
+                           "doc.tex"], cwd=tmp_path, capture_output=True, timeout=120)
+    assert done.returncode == 0, done.stdout[-2000:]
+
+
+def test_reform_a_numeric_bound_and_a_taken_label(tmp_path: Path) -> None:
+    source = tmp_path / "budget.prob"
+    source.write_text("data A in R^(m,n)\ndata y in R^m\ndata t in R_+\n"
+                      "minimize ||A*x - y||^2 + t * ||x||_1  # t weighs the 1-norm\n"
+                      "over x in R^n\nsubject to\n  bound: sum(x) <= 3\n")
+    code, out, _ = run("reform", str(source), "--weight", "t", "--format", "json")
+    assert code == 0
+    other = json.loads(out)["other_form"]
+    assert "bound1: ||x||_1 <= t1" in other and "data t1 in R" in other
+    written = tmp_path / "budget_bound.prob"
+    written.write_text(other)
+    assert load_file(written).problem is not None
+    code, out, _ = run("reform", str(written), "--bound", "bound", "--format", "json")
+    assert code == 0 and "w * sum(x)" in json.loads(out)["other_form"]
+
+
+@pytest.mark.parametrize("constraint,needle", [
+    ("  lo, box: 0 <= sum(x) <= 1", "one scalar relation"),
+    ("  box: x <= 1", "one scalar relation"),
+    ("  box: sum(x) == 1", "<= or >="),
+])
+def test_reform_refuses_what_is_not_a_bound(tmp_path: Path, constraint: str,
+                                            needle: str) -> None:
+    source = tmp_path / "p.prob"
+    source.write_text(f"data c in R^n\nminimize c' * x\nover x in R^n\nsubject to\n"
+                      f"{constraint}\n")
+    code, _, err = run("reform", str(source), "--bound", "box")
+    assert code == 2 and needle in err
+
+
+def test_trade_off_at_a_bound_written_as_a_number(tmp_path: Path) -> None:
+    source = tmp_path / "l1.prob"
+    source.write_text("data A in R^(m,n)\ndata y in R^m\nminimize ||A*x - y||^2\n"
+                      "over x in R^n\nsubject to\n  l1: ||x||_1 <= 1.5\n")
+    data = json.loads((EXAMPLES / "spectrum_lasso.json").read_text())
+    data.pop("lambda")
+    (tmp_path / "l1.json").write_text(json.dumps(data))
+    code, out, _ = run("trade-off", str(source), "--format", "json")
+    assert code == 0
+    point = json.loads(out)["points"][0]
+    # the bound 1.5 and the weight 0.938548 match the lasso's sweep (test_forms_closed_form)
+    assert point["bound"] == pytest.approx(1.5) and point["status"] == "agrees"
