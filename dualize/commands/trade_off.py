@@ -6,6 +6,7 @@ a check disagrees, a solve fails or the curve is not monotone, 2 for bad input.
 
 from __future__ import annotations
 
+import math
 import sys
 from typing import Any
 
@@ -81,8 +82,11 @@ def _values(pair: Any, instance: Any, at_weight: float | None, at_bound: float |
         raise DualizeError("give one of --at-weight, --at-bound, --sweep-weights, "
                            "--sweep-bounds", exit_code=2)
     if at_weight is not None or at_bound is not None:
-        value = at_weight if at_weight is not None else at_bound
-        return ("weights" if at_weight is not None else "bounds"), [float(value)]  # type: ignore[arg-type]
+        value = float(at_weight if at_weight is not None else at_bound)  # type: ignore[arg-type]
+        if not math.isfinite(value) or (at_weight is not None and value < 0):
+            raise DualizeError("the weight must be a finite number >= 0 and the bound a "
+                               "finite number", exit_code=2)
+        return ("weights" if at_weight is not None else "bounds"), [value]
     if sweep_weights is not None:
         return "weights", grid(sweep_weights, "weight")
     if sweep_bounds is not None:

@@ -98,7 +98,9 @@ def binds(entry: Entry, gap: float) -> bool:
 
 def multiplier_entry(entry: Entry, multipliers: dict[str, np.ndarray]) -> float:
     """The entry's multiplier; the trace of a matrix inequality's multiplier."""
-    value = np.asarray(multipliers.get(entry.constraint.label, 0.0), dtype=float)
+    value = np.asarray(multipliers.get(entry.constraint.label, np.nan), dtype=float)
+    if value.size == 1 and not np.isfinite(value).all():
+        return float("nan")
     if entry.index is None:
         return float(np.trace(np.atleast_2d(value)))
     return float(np.reshape(value, _shape2(value, entry))[entry.index])

@@ -88,6 +88,8 @@ def bound_sentence(report: Sensitivity) -> str:
 def _not_established(report: Sensitivity) -> str:
     if report.verdict != "guaranteed":
         return f"strong duality is not established ({report.verdict}: {report.verdict_reason})"
+    if report.status == "optimal":
+        return "the solver returned no multiplier for some constraint"
     return (f"the reference solve's status is {report.status}, so the multiplier is not known "
             "to be optimal")
 

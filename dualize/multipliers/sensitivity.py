@@ -75,7 +75,8 @@ class Sensitivity:
     @property
     def established(self) -> bool:
         """Strong duality proved and an optimal multiplier in hand: the bound holds."""
-        return self.verdict == "guaranteed" and self.status == "optimal" and not self.refusal
+        return (self.verdict == "guaranteed" and self.status == "optimal" and not self.refusal
+                and all(np.isfinite(r.multiplier) for r in self.rows))
 
     @property
     def minimize(self) -> bool:
@@ -116,8 +117,9 @@ def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT
     posed = Posed(problem, instance)
     if not posed.convex():
         return Sensitivity(status="unsupported", value=float("nan"), refusal=(
-            "the problem is not certifiably convex on this instance, so no solve gives a "
-            "global optimum and a multiplier to read"), **base)
+            "the numeric reference cannot pose the problem in a form its curvature rules "
+            "certify as convex (DCP), so no solve here is known to be global and no "
+            "optimal multiplier can be read"), **base)
     start = posed.solve()
     if not start.solved:
         return Sensitivity(status=start.status, value=float("nan"), refusal=(
@@ -146,7 +148,9 @@ def _rows(posed: Posed, start: Point, limit: int, until: float) -> list[Rate]:
         gap = E.slack(entry, problem, instance, start.x)
         row = Rate(entry.name, entry.constraint.label, entry.constraint.relation, lam, gap,
                    E.binds(entry, gap), sign * lam)
-        if k >= limit:
+        if not np.isfinite(lam):
+            row = _replace(row, note="not checked: the solver returned no multiplier")
+        elif k >= limit:
             row = _replace(row, note=f"not checked: only the first {limit} entries are")
         elif time.monotonic() > until:
             row = _replace(row, note="not checked: the time limit was reached")

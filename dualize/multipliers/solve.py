@@ -71,8 +71,11 @@ class Posed:
 
 
 def _dual(constraint: Any) -> np.ndarray:
+    """The constraint's multiplier; nan (never a made-up zero) when the solver gave none."""
     value = constraint.dual_value
-    return np.asarray(0.0 if value is None else value, dtype=float)
+    if value is None:
+        return np.full(constraint.shape, np.nan)
+    return np.asarray(value, dtype=float)
 
 
 def _pose(problem: Problem, instance: Instance) -> tuple[Any, dict, dict, dict]:

@@ -126,7 +126,8 @@ def test_trade_off_at_the_instances_weight() -> None:
 
 @pytest.mark.parametrize("args", [["--sweep-weights", "1:0:5"], ["--sweep-weights", "x"],
                                   ["--sweep-bounds", "0:1:1"],
-                                  ["--at-weight", "1", "--at-bound", "1"]])
+                                  ["--at-weight", "1", "--at-bound", "1"],
+                                  ["--at-weight", "-1"], ["--at-bound", "nan"]])
 def test_trade_off_bad_ranges(args: list[str]) -> None:
     code, _, err = run("trade-off", str(EXAMPLES / "weighbridge_ridge.prob"), *args)
     assert code == 2 and "Traceback" not in err
