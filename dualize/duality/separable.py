@@ -88,6 +88,8 @@ def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # typ
 def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
     """Where phi is continuous; a function in pieces (Huber's) is continuous on R when
     each piece is, which sympy's domain finder cannot tell."""
+    from sympy.calculus.util import continuous_domain
+
     if isinstance(phi, sympy.Piecewise):
         parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
         return sympy.Intersection(*parts) if parts else sympy.S.Reals
