@@ -65,6 +65,8 @@ class Infimum:
     constraints: tuple[tuple[Expr, str, Expr], ...]
     minimizer: Expr | None
     statement: str
+    entries: Expr | None = None
+    """For a separable term: phi*(s) entry by entry (``value`` is minus its sum)."""
 
 
 def recognise(term: Term, variables: frozenset[str]) -> Atom | None:

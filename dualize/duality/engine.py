@@ -154,10 +154,10 @@ def _split(work: Work, atom: Atom) -> None:
 
 
 def _minimize_blocks(work: Work) -> dict[str, Outcome]:
-    outcomes: dict[str, Outcome] = {}
+    outcomes: dict[str, Outcome] = _perspective(work)
     coupled = {n for t in work.coupled for n in _vars_of(t, _primal_names(work))}
     for v in work.problem.variables:
-        if v.name in coupled:
+        if v.name in coupled or v.name in outcomes:
             continue
         outcomes[v.name] = _guarded_block(work, v)
     for u, atom, z in work.aux_blocks:
@@ -169,6 +169,43 @@ def _minimize_blocks(work: Work) -> dict[str, Outcome]:
     if work.coupled:
         outcomes["(coupled)"] = Outcome(rebuild(work.coupled, SCALAR), inner=True)
     return outcomes
+
+
+def _perspective(work: Work) -> dict[str, Outcome]:
+    """The relative entropy of two variables, minimized jointly (``perspective``), when it
+    is the only coupling and both variables otherwise enter linearly."""
+    from dualize.duality.perspective import entropy_atom, pair_outcome, relative_entropy_pair
+    from dualize.duality.scalar import Scope, to_sympy
+
+    if len(work.coupled) != 1:
+        return {}
+    variables = {v.name: v for v in work.problem.variables}
+    found = relative_entropy_pair(work.coupled[0], variables)
+    if found is None or to_sympy(found[0], Scope()).is_positive is not True:
+        return {}
+    coef, u, v = found
+    lu, lv = _linear_part(work, u), _linear_part(work, v)
+    if lu is None or lv is None:
+        return {}
+    inf = separable_infimum(entropy_atom(coef, u.symbol), tidy(b.neg(lu[0])), u.symbol,
+                            u.domain)
+    if inf is None or inf.entries is None:
+        return {}
+    cons, steps, recs = pair_outcome(u.symbol, v.symbol, lu[0], lv[0], inf.entries,
+                                     inf.constraints, inf.statement)
+    work.coupled = []
+    return {u.name: Outcome(tidy(b.add(lu[1], lv[1])), cons, recs[0], steps),
+            v.name: Outcome(b.num(0), recovery=recs[1])}
+
+
+def _linear_part(work: Work, v: Variable) -> tuple[Expr, Expr] | None:
+    """(g, r) with the variable's own terms g'x + r, or None when they are not affine."""
+    terms = work.by_var.get(v.name, [])
+    q = quadratic(rebuild(terms, SCALAR), v.symbol) if terms else Quadratic(None, None, None)
+    if q is None or q.Q is not None:
+        return None
+    g = q.g if q.g is not None else b.zeros(v.symbol.shape)
+    return tidy(g), q.r if q.r is not None else b.num(0)
 
 
 def _guarded_block(work: Work, v: Variable) -> Outcome:

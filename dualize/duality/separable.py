@@ -124,7 +124,7 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
     statement = (f"the term is separable, sum_i phi({var.name}_i) with phi(t) = {phi}; its "
                  f"conjugate is phi*(s) = {shown} (derived by the "
                  "Legendre transform and checked numerically)")
-    return Infimum(b.neg(total), constraints, minimizer, statement)
+    return Infimum(b.neg(total), constraints, minimizer, statement, entries)
 
 
 Found = tuple[Conjugate, sympy.Expr] | None

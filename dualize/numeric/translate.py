@@ -173,6 +173,9 @@ def _neg_entropy(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
             return -ctx.cp.entr(ctx(a))
         if isinstance(b, ir.Apply) and b.func == LOG.name and _same(b.arg, _negated(a)):
             return ctx.cp.entr(ctx(b.arg))  # a log(-a) = -(-a) log(-a) = entr(-a)
+        if (isinstance(b, ir.Apply) and b.func == LOG.name and isinstance(b.arg, ir.Divide)
+                and _same(b.arg.left, a) and b.arg.right.shape == a.shape):
+            return ctx.cp.rel_entr(ctx(a), ctx(b.arg.right))  # a log(a/q), jointly convex
     return None
 
 
