@@ -19,6 +19,7 @@ from dualize.duality import build as b
 from dualize.duality.atoms import Atom, atom_expression, infimum, recognise, with_argument
 from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
 from dualize.duality.definite import definiteness
+from dualize.duality.kernel_form import kernel_notes
 from dualize.duality.kkt import conditions
 from dualize.duality.lagrangian import lagrangian, multipliers
 from dualize.duality.linear import Quadratic, hessian, quadratic, trace_linear
@@ -78,7 +79,7 @@ def derive(problem: Problem) -> Derivation:
         dual = _as_minimization(dual)
     work.steps.append(Step("dual-problem", _dual_sentence(dual, problem.sense)))
     kkt = conditions(problem, outcomes)
-    notes = _notes(work, dual)
+    notes = _notes(work, dual) + tuple(kernel_notes(dual, recovery))
     return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
                       kkt, tuple(recovery), notes)
 
