@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import sympy
 
 from dualize.duality import build as b
-from dualize.duality.normal import Term, rebuild
+from dualize.duality.normal import Term, expand, rebuild, tidy
 from dualize.duality.scalar import Scope, to_sympy
 from dualize.model.expr import (
     Apply,
@@ -346,6 +346,9 @@ def _norm_of(s: Expr, p: str) -> Expr:
         factor = -s.factor.value
         inner = Norm(s.arg, p)  # type: ignore[arg-type]
         return inner if factor == 1 else b.scale(Number(factor), inner)
+    terms = expand(s)
+    if terms and all(t.coef < 0 for t in terms):  # ||-A'l - c|| = ||A'l + c||
+        return Norm(tidy(b.neg(s)), p)  # type: ignore[arg-type]
     return Norm(s, p)  # type: ignore[arg-type]
 
 
