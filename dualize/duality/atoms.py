@@ -281,6 +281,30 @@ def _norm(atom: Atom, s: Expr, u: Expr) -> Infimum:
     )
 
 
+def orthant_norm(atom: Atom, s: Expr) -> Infimum | None:
+    """inf over u >= 0 of c||u||_p - s'u = 0 when ||max(s, 0)||_q <= c, else minus infinity.
+
+    On the orthant s'u <= max(s, 0)'u <= ||max(s, 0)||_q ||u||_p, so the infimum is 0
+    (at u = 0) when the dual norm of the positive part is at most c; otherwise the
+    maximizer of max(s, 0)'u over the unit ball, nonnegative since p-norms are absolute,
+    makes the expression fall without bound.  For p = 1 the condition is s <= c entry
+    by entry.
+    """
+    if atom.kind != "norm" or s.shape.is_scalar:
+        return None
+    q = DUAL_NORM[atom.p]
+    if atom.p == "1":
+        cons = (s, "<=", b.broadcast(atom.coef, s.shape))
+        said = "s <= c entry by entry"
+    else:
+        cons = (Norm(b.maximum(s, b.zeros(s.shape)), q), "<=", atom.coef)  # type: ignore[arg-type]
+        said = f"||max(s, 0)||_{q} <= c"
+    return Infimum(b.num(0), (cons,), None,
+                   f"over the nonnegative orthant the infimum of c||u||_{atom.p} - s'u is 0 "
+                   f"when {said} (the dual norm of the positive part of s), and minus "
+                   "infinity otherwise")
+
+
 def _square(atom: Atom, s: Expr, u: Expr) -> Infimum:
     c = atom.coef
     value = b.scale(b.scale(b.num(-1), b.power(b.scale(b.num(4), c), sympy.Integer(-1))),

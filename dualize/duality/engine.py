@@ -16,7 +16,14 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from dualize.duality import build as b
-from dualize.duality.atoms import Atom, atom_expression, infimum, recognise, with_argument
+from dualize.duality.atoms import (
+    Atom,
+    atom_expression,
+    infimum,
+    orthant_norm,
+    recognise,
+    with_argument,
+)
 from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
 from dualize.duality.definite import definiteness
 from dualize.duality.kernel_form import kernel_notes
@@ -408,7 +415,8 @@ def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
     if atom.kind == "separable":
         inf = separable_infimum(atom, s, x, domain)
     else:
-        inf = infimum(atom, s, x) if domain.kind == "free" else None
+        inf = infimum(atom, s, x) if domain.kind == "free" else (
+            orthant_norm(atom, s) if domain.kind in ("nonneg", "pos") else None)
     if inf is None:
         kept = b.add(atom_expression(atom), b.neg(b.inner(s, x)), r)
         return Outcome(tidy(kept), inner=True, steps=[Step(

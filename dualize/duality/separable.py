@@ -90,10 +90,15 @@ def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
     each piece is, which sympy's domain finder cannot tell."""
     from sympy.calculus.util import continuous_domain
 
-    if isinstance(phi, sympy.Piecewise):
-        parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
-        return sympy.Intersection(*parts) if parts else sympy.S.Reals
-    return continuous_domain(phi, t, sympy.S.Reals)
+    if phi.has(sympy.Piecewise):
+        phi = sympy.piecewise_fold(phi)
+    try:
+        if isinstance(phi, sympy.Piecewise):
+            parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
+            return sympy.Intersection(*parts) if parts else sympy.S.Reals
+        return continuous_domain(phi, t, sympy.S.Reals)
+    except (NotImplementedError, ValueError, TypeError):
+        return sympy.S.EmptySet  # no domain sympy can state: no closed form is claimed
 
 
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
