@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import json
 import tomllib
+import unicodedata
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -88,7 +89,19 @@ def _load_mapping(path: Path) -> dict[str, object]:
         raise InstanceError(f"{path}: not a valid instance file: nested too deeply") from None
     if not isinstance(raw, dict):
         raise InstanceError(f"{path}: an instance file must map names to values")
-    return raw
+    return _normalized_keys(raw, path)
+
+
+def _normalized_keys(raw: dict[str, object], path: Path) -> dict[str, object]:
+    """Keys compared as the problem's names are: after NFKC normalization."""
+    out: dict[str, object] = {}
+    for key, value in raw.items():
+        name = unicodedata.normalize("NFKC", key)
+        if name in out:
+            raise InstanceError(f"{path}: the name '{name}' is given twice (keys equal "
+                                "after Unicode normalization)")
+        out[name] = value
+    return out
 
 
 def _to_array(raw: dict[str, object], decl: DataDecl, path: Path) -> np.ndarray:

@@ -11,13 +11,12 @@ identifiers.
 
 from __future__ import annotations
 
-import json
-
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.caution import CAUTION
 from dualize.render.ir_rewrite import length
+from dualize.render.pynames import literal
 from dualize.render.python_code import python_names
 from dualize.render.solver_emit import Emitter, Scope, function
 from dualize.render.solver_plan import Plan, is_conic, make_plan
@@ -159,7 +158,7 @@ def _recovery(emitter: Emitter, derivation: Derivation) -> str:
         if rec.formula is not None:
             code, reads = emitter.code(rec.formula)
             used |= reads
-            body.append(f"x[{json.dumps(rec.variable)}] = {code}")
+            body.append(f"x[{literal(rec.variable)}] = {code}")
     body.append("return x")
     return function(emitter, "def _recover(z, d):", body, used)
 
@@ -184,7 +183,7 @@ def _prepare(emitter: Emitter) -> str:
         reads |= {u for u in used if not u.startswith("_k")}
         body.append(f"{name} = {code}")
     names = [n for n, _, _ in emitter.constants.entries]
-    body.append("return {" + ", ".join(f"{json.dumps(n)}: {n}" for n in names) + "}")
+    body.append("return {" + ", ".join(f"{literal(n)}: {n}" for n in names) + "}")
     return function(emitter, "def _prepare(d):", body, reads)
 
 
@@ -194,8 +193,8 @@ def _declarations(derivation: Derivation, scope: Scope) -> str:
     for decl in derivation.problem.data:
         shape = decl.symbol.shape
         facts = sorted(decl.symbol.facts)
-        rows.append(f"    ({json.dumps(decl.name)}, {_size_spec(shape.rows)}, "
-                    f"{_size_spec(shape.cols)}, {json.dumps(facts)}),")
+        rows.append(f"    ({literal(decl.name)}, {_size_spec(shape.rows)}, "
+                    f"{_size_spec(shape.cols)}, {literal(facts)}),")
     return "DATA = [\n" + "\n".join(rows) + "\n]" if rows else "DATA = []"
 
 
@@ -204,7 +203,7 @@ def _size_spec(size: object) -> str:
     if text.isdigit():
         return text
     if text.isidentifier():
-        return json.dumps(text)
+        return literal(text)
     raise DualizeError(f"cannot generate a solver: a data size {text} is not a plain name", 2)
 
 
@@ -215,14 +214,14 @@ def _tables(
     dual = derivation.dual
     return {
         "declarations": _declarations(derivation, scope),
-        "dims": json.dumps(sorted(str(s) for s in problem.dims)),
-        "dual_names": json.dumps([v.name for v in dual.variables]),
+        "dims": literal(sorted(str(s) for s in problem.dims)),
+        "dual_names": literal([v.name for v in dual.variables]),
         "dual_scalar": repr([v.symbol.shape.is_scalar for v in dual.variables]),
         "auxiliary_scalar": repr([s.shape.is_scalar for s in auxiliary]),
-        "primal_names": json.dumps([v.name for v in problem.variables]),
+        "primal_names": literal([v.name for v in problem.variables]),
         "primal_scalar": repr([v.symbol.shape.is_scalar for v in problem.variables]),
-        "dual_sense": json.dumps(dual.sense),
-        "primal_sense": json.dumps(problem.sense),
+        "dual_sense": literal(dual.sense),
+        "primal_sense": literal(problem.sense),
     }
 
 
@@ -250,11 +249,11 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
     return fill(
         "solver.py.j2",
         docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
-        method=json.dumps(plan.method),
+        method=literal(plan.method),
         constant_hessian=repr(plan.constant_hessian),
-        caution=json.dumps(CAUTION),
+        caution=literal(CAUTION),
         conic=False,
-        missing=json.dumps(dict(sorted(missing.items()))),
+        missing=literal(dict(sorted(missing.items()))),
         lagrangian=repr(rule.kind == "lagrangian"),
         functions="\n\n\n".join(functions),
         **_tables(derivation, scope, plan.auxiliary),
@@ -268,9 +267,9 @@ def _render_conic(derivation: Derivation, scope: Scope) -> str:
     return fill(
         "solver.py.j2",
         docstring=docstring(derivation, "conic", reason, {}),
-        method=json.dumps("conic"),
+        method=literal("conic"),
         constant_hessian="False",
-        caution=json.dumps(CAUTION),
+        caution=literal(CAUTION),
         conic=True,
         missing="{}",
         lagrangian="False",
