@@ -35,7 +35,14 @@ def ident(token: object) -> str:
     everywhere, and a second declaration of it is a located duplicate, never two names
     that a generated Python module would silently merge.
     """
-    return unicodedata.normalize("NFKC", str(token))
+    text = str(token)
+    normal = unicodedata.normalize("NFKC", text)
+    return normal if NAME.fullmatch(normal) else text
+
+
+NAME = re.compile(r"(?![ᵀ])[^\W\d_](?:(?![ᵀ])[^\W_]|_(?!\+))*")
+"""The grammar's NAME: a normalized spelling that is no longer a name (``²`` is ``2``)
+keeps its own spelling, so its diagnostics stay what they were."""
 
 
 class BuildError(Exception):
