@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import os
-import tempfile
 from pathlib import Path
 
 from dualize.diagnostics import Diagnostic
@@ -47,18 +45,11 @@ def derive(source: str | Path | Problem) -> Derivation:
 
 
 def write_atomically(path: str, text: str) -> None:
-    """Write ``text`` to ``path`` so that a failure leaves no partial file and an
-    existing file untouched: a temporary file in the same folder, then a rename."""
-    folder = os.path.dirname(os.path.abspath(path))
-    fd, tmp = tempfile.mkstemp(prefix=".dualize-", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
-            handle.write(text)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
+    """Write ``text`` to ``path`` (``-`` is standard output) so that a failure leaves no
+    partial file and an existing file untouched; the rules are in ``dualize.outfile``."""
+    from dualize.outfile import write_output
+
+    write_output(path, text)
 
 
 def render(derivation: Derivation, fmt: str, analysis: object | None,

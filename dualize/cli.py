@@ -36,6 +36,7 @@ class DualizeGroup(click.Group):
     """A click group that turns every failure into one line and an exit code."""
 
     def invoke(self, ctx: click.Context) -> object:
+        _exit_on_terminate()
         try:
             return super().invoke(ctx)
         except DualizeError as err:
@@ -47,6 +48,24 @@ class DualizeGroup(click.Group):
             click.echo(f"internal error: {type(err).__name__}: {err}", err=True)
             ctx.exit(EXIT_INTERNAL)
         return None
+
+
+def _exit_on_terminate() -> None:
+    """SIGTERM (and SIGHUP) end the run through ``SystemExit``, as Ctrl-C does through
+    ``KeyboardInterrupt``, so that ``finally`` blocks run: a temporary output file is
+    removed, never left beside its target.  Only here, at the command line."""
+    import signal
+    import threading
+
+    if threading.current_thread() is not threading.main_thread():
+        return
+
+    def terminate(signum: int, frame: object) -> None:
+        raise SystemExit(128 + signum)
+
+    for name in ("SIGTERM", "SIGHUP"):
+        if hasattr(signal, name):
+            signal.signal(getattr(signal, name), terminate)
 
 
 def _print_version(ctx: click.Context, param: click.Parameter, value: bool) -> None:

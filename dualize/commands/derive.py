@@ -15,7 +15,7 @@ from dualize.errors import DualizeError
 @click.option("--format", "fmt", type=click.Choice(["text", "latex", "markdown", "json"]),
               default="text", show_default=True, help="The output format.")
 @click.option("-o", "--output", type=click.Path(), default=None,
-              help="Write to this file (atomically) instead of standard output.")
+              help="Write to this file, atomically (- is standard output).")
 @click.option("--standalone", is_flag=True, help="LaTeX: a complete document for pdflatex.")
 @click.option("--data", type=click.Path(), default=None,
               help="An instance (JSON or TOML): strong duality is decided on these values.")
@@ -34,7 +34,7 @@ def derive_command(file: str, fmt: str, output: str | None, standalone: bool,
         derivation = derive(problem)
         values = _instance_values(data, problem)
         analysis = analyze(problem, values)
-        color = output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
+        color = output in (None, "-") and sys.stdout.isatty() and "NO_COLOR" not in os.environ
         text = render(derivation, fmt, analysis, standalone=standalone, color=color)
         if output is None:
             click.echo(text, nl=not text.endswith("\n"))

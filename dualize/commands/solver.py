@@ -12,7 +12,7 @@ from dualize.errors import DualizeError
 @click.command("solver")
 @click.argument("file", type=click.Path())
 @click.option("-o", "--output", type=click.Path(), required=True,
-              help="The Python module to write (atomically).")
+              help="The Python module to write (atomically; - is standard output).")
 def solver_command(file: str, output: str) -> None:
     """Write a Python module (numpy and scipy only) that solves the dual of FILE on an
     instance, recovers the primal solution and reports the duality gap."""
