@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from dualize.deadline import Deadline
 from dualize.diagnostics import Diagnostic
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
@@ -38,10 +39,11 @@ def load_problem(source: str | Path | Problem) -> Problem:
     return loaded.problem
 
 
-def derive(source: str | Path | Problem) -> Derivation:
-    from dualize.duality import derive as _derive
+def derive(source: str | Path | Problem, deadline: Deadline | None = None) -> Derivation:
+    """The derivation of ``source``; past ``deadline`` unfinished steps are kept and noted."""
+    from dualize.duality.engine import derive as _derive
 
-    return _derive(load_problem(source))
+    return _derive(load_problem(source), deadline)
 
 
 def write_atomically(path: str, text: str) -> None:

@@ -9,15 +9,12 @@ supremum of the dual unchanged.
 
 from __future__ import annotations
 
-import contextlib
 import functools
-import signal
-import threading
-from collections.abc import Iterator
 
 import sympy
 from sympy.calculus.util import continuous_domain
 
+from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
 from dualize.duality.atoms import Atom, Infimum
 from dualize.duality.conjugate import NoClosedForm, conjugate
@@ -41,47 +38,22 @@ def _interval(domain: Domain) -> sympy.Interval | None:
     return None
 
 
-# sympy's solver can take minutes on some transcendental equations; past this budget
-# the infimum is kept (reported as such) rather than the command hanging.
-CONJUGATE_SECONDS = 20.0
-
-
-class _OutOfTime(Exception):  # noqa: N818 - private control flow
-    pass
-
-
-@contextlib.contextmanager
-def _time_limit(seconds: float) -> Iterator[None]:
-    """A wall-clock limit by SIGALRM, where signals can be used (the main thread)."""
-    if threading.current_thread() is not threading.main_thread() or not hasattr(
-            signal, "setitimer"):
-        yield
-        return
-
-    def expire(signum: int, frame: object) -> None:
-        raise _OutOfTime
-
-    previous = signal.signal(signal.SIGALRM, expire)
-    signal.setitimer(signal.ITIMER_REAL, seconds)
-    try:
-        yield
-    finally:
-        signal.setitimer(signal.ITIMER_REAL, 0)
-        signal.signal(signal.SIGALRM, previous)
+# sympy's solver can take minutes on some transcendental equations; one conjugate gets
+# at most this share of the run's deadline before it starts (a started solve is bounded
+# by the size guards of ``conjugate``, not interrupted).
+MIN_SECONDS_FOR_CONJUGATE = 0.5
 
 
 @functools.lru_cache(maxsize=512)
 def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # type: ignore[no-untyped-def]
     """Conjugates are derived and checked once per function and domain."""
-    try:
-        with _time_limit(CONJUGATE_SECONDS):
-            return conjugate(phi, t, region)
-    except _OutOfTime:
-        raise NoClosedForm(f"no conjugate found within {CONJUGATE_SECONDS:.0f} s") from None
+    return conjugate(phi, t, region)
 
 
-def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
-    """-sum(phi*(s)) with the domain of phi* as constraints on s."""
+def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
+                      deadline: Deadline | None = None) -> Infimum | None:
+    """-sum(phi*(s)) with the domain of phi* as constraints on s; past ``deadline`` the
+    conjugate is not attempted (``DeadlineExceeded`` names the step)."""
     interval = _interval(domain)
     if interval is None or atom.body is None:
         return None
@@ -96,6 +68,9 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
     region = natural.intersect(interval)
     if not isinstance(region, sympy.Interval):
         return None
+    if deadline is not None and deadline.remaining() < MIN_SECONDS_FOR_CONJUGATE:
+        raise DeadlineExceeded(f"deriving the conjugate of phi(t) = {_short(phi)}",
+                               deadline.seconds or 0.0)
     try:
         conj = _conjugate(phi, t, region)
     except NoClosedForm:
@@ -113,3 +88,8 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
                  f"conjugate is phi*(s) = {sympy.simplify(conj.value)} (derived by the "
                  "Legendre transform and checked numerically)")
     return Infimum(b.neg(total), constraints, minimizer, statement)
+
+
+def _short(phi: sympy.Expr) -> str:
+    text = str(phi)
+    return text if len(text) <= 60 else text[:57] + "..."
