@@ -33,11 +33,14 @@ from dualize.errors import DualizeError
 EXIT_BAD_OUTPUT = 2
 
 
-def write_output(path: str, text: str) -> None:
-    """Write ``text`` (UTF-8, ``\\n`` line ends) to ``path`` by the rules above."""
+def write_output(path: str, text: str | bytes) -> None:
+    """Write ``text`` (a string as UTF-8, or bytes as they are) to ``path`` by the rules
+    above."""
+    data = text.encode("utf-8") if isinstance(text, str) else text
     if path == "-":
-        sys.stdout.write(text)
         sys.stdout.flush()
+        sys.stdout.buffer.write(data)
+        sys.stdout.buffer.flush()
         return
     target = os.path.realpath(path) if os.path.islink(path) else path
     try:
@@ -47,12 +50,12 @@ def write_output(path: str, text: str) -> None:
     except OSError as err:
         raise _error(path, err) from None
     if info is not None and not stat.S_ISREG(info.st_mode):
-        _write_special(path, target, info.st_mode, text)
+        _write_special(path, target, info.st_mode, data)
         return
-    _replace(path, target, text, info)
+    _replace(path, target, data, info)
 
 
-def _write_special(path: str, target: str, mode: int, text: str) -> None:
+def _write_special(path: str, target: str, mode: int, data: bytes) -> None:
     """A FIFO or character device is written in place; anything else is refused."""
     if stat.S_ISDIR(mode):
         raise DualizeError(f"cannot write {path}: it is a folder; give a file name", 2)
@@ -70,13 +73,13 @@ def _write_special(path: str, target: str, mode: int, text: str) -> None:
         raise _error(path, err) from None
     os.set_blocking(fd, True)
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
-            handle.write(text)
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
     except OSError as err:
         raise _error(path, err) from None
 
 
-def _replace(path: str, target: str, text: str, info: os.stat_result | None) -> None:
+def _replace(path: str, target: str, data: bytes, info: os.stat_result | None) -> None:
     """Temporary file in the target's folder, its mode set, then an atomic rename."""
     folder = os.path.dirname(os.path.abspath(target))
     if not os.path.isdir(folder):
@@ -87,8 +90,8 @@ def _replace(path: str, target: str, text: str, info: os.stat_result | None) -> 
     except OSError as err:
         raise _error(path, err) from None
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
-            handle.write(text)
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
             _set_mode(handle.fileno(), info)
         os.replace(tmp, target)
     except BaseException as err:

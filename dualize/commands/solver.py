@@ -21,7 +21,7 @@ def solver_command(file: str, output: str, time_limit: float) -> None:
     from dualize.api import write_atomically
     from dualize.commands.common import deadline_of, load_problem, user_errors
     from dualize.duality import derive
-    from dualize.render.solver import render_solver
+    from dualize.solvergen.solver import render_solver
 
     with user_errors():
         if not os.path.isfile(file):

@@ -11,7 +11,7 @@ import numpy as np
 from scipy.optimize import linprog
 
 from dualize.model import load
-from dualize.render.pynames import comment_text, literal, python_names
+from dualize.solvergen.pynames import comment_text, literal, python_names
 from tests.reliability.helpers import dualize, env
 
 ASTRAL = "\U00020000"  # a CJK letter outside the Basic Multilingual Plane, unchanged by NFKC

@@ -1,0 +1,312 @@
+"""Generate a standalone Python module that solves a derived dual on user data.
+
+``render_solver(derivation)`` prints every numeric function of the module from
+the symbolic results (objective, gradient, constraint Jacobians, recovery
+formulas, the primal objective and constraints) with our numpy printer and binds
+them in a ``Spec``; a jinja2 template lays those strings out after the runtime,
+the source of ``runtime*.py`` copied verbatim (input checking, the methods, the
+report).  The module needs only numpy and scipy, reads data by string key and
+pastes no user text except validated identifiers.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from dualize.duality.result import Derivation
+from dualize.errors import DualizeError
+from dualize.model import expr as ir
+from dualize.render.caution import CAUTION
+from dualize.solvergen.ir_rewrite import length
+from dualize.solvergen.pynames import literal
+from dualize.solvergen.python_code import python_names
+from dualize.solvergen.solver_emit import Emitter, Scope, function
+from dualize.solvergen.solver_plan import Plan, is_conic, make_plan
+from dualize.solvergen.solver_recover import (
+    Rule,
+    choose,
+    lagrangian,
+    lagrangian_domain,
+    missing_of,
+    restricted,
+    rule_text,
+    unknowns,
+)
+from dualize.solvergen.solver_text import docstring
+
+RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_recover", "runtime_report")
+"""The runtime modules, in the order their sources are copied into a generated module."""
+MARKER = "# ---- copied into the generated module from here ----\n"
+
+
+def runtime_source() -> str:
+    """The runtime's source as the generated module carries it: each module below its marker."""
+    folder = Path(__file__).resolve().parent
+    bodies = []
+    for name in RUNTIME:
+        _, marker, body = (folder / f"{name}.py").read_text(encoding="utf-8").partition(MARKER)
+        if not marker:
+            raise DualizeError(f"the runtime module {name}.py has lost its marker line", 3)
+        bodies.append(body.strip("\n"))
+    return "\n\n\n".join(bodies)
+
+
+def render_solver(derivation: Derivation) -> str:
+    """The source of a solver module for ``derivation``'s dual (see the module doc)."""
+    dual = derivation.dual
+    if dual.unbounded:
+        raise DualizeError("cannot generate a solver: the dual function is unbounded", 2)
+    if not dual.closed_form:
+        inner = ", ".join(v.name for v in dual.inner)
+        raise DualizeError(
+            "cannot generate a solver: the dual has no closed form (the Lagrangian is "
+            f"still minimized over {inner})", 2
+        )
+    if is_conic(dual):
+        return _render_conic(derivation, _scope(derivation))
+    plan = make_plan(dual)
+    rule = choose(derivation, missing_of(derivation))
+    return _render(derivation, plan, rule, _scope(derivation, plan.auxiliary, rule.auxiliary))
+
+
+def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = (),
+           primal_auxiliary: tuple[ir.Symbol, ...] = ()) -> Scope:
+    """The names in scope; the dual's epigraph variables follow the multipliers in ``z``,
+    the primal's (for recovering x as a linear program) sit in ``x``.
+
+    Their names start with an underscore, which ``python_names`` refuses for problem
+    names, so they are their own identifiers and cannot clash.
+    """
+    problem = derivation.problem
+    data = [d.name for d in problem.data] + [str(s) for s in problem.dims]
+    dual = [v.name for v in derivation.dual.variables]
+    primal = [v.name for v in problem.variables]
+    names = python_names(data + dual + primal)
+    names |= {s.name: s.name for s in (*auxiliary, *primal_auxiliary)}
+    return Scope(names, frozenset(data), tuple(dual + [s.name for s in auxiliary]),
+                 tuple(primal + [s.name for s in primal_auxiliary]))
+
+
+def _sizes(emitter: Emitter, symbols: list[ir.Symbol], head: str) -> str:
+    parts, used = [], set()
+    for symbol in symbols:
+        code, reads = emitter.size(length(symbol.shape))
+        parts.append(code)
+        used |= reads
+    return function(emitter, head, [f"return [{', '.join(parts)}]"], used)
+
+
+def _objective(emitter: Emitter, plan: Plan) -> str:
+    code, used = emitter.code(plan.objective)
+    return function(emitter, "def _objective(z, d):", [f"return float({code})"], used)
+
+
+def _gradient(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    pieces, used = [], set()
+    for grad, symbol in zip(plan.gradients, symbols, strict=True):
+        code, reads = emitter.code(grad)
+        size, sreads = emitter.size(length(symbol.shape))
+        pieces.append(f"_flat({code}, {size})")
+        used |= reads | sreads
+    body = [f"return np.concatenate([{', '.join([*pieces, 'np.zeros(0)'])}])"]
+    return function(emitter, "def _gradient(z, d):", body, used)
+
+
+def _hessian(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    """``_hessian(z, d)``: the Hessian of the objective, as one dense matrix.
+
+    A constant Hessian is printed in place, not hoisted into ``_prepare``, so that
+    it is formed only when no low-rank factor replaces it.
+    """
+    if plan.hessian is None:
+        return "def _hessian(z, d):\n    return None"
+    rows, used = [], set()
+    for row, left in zip(plan.hessian, symbols, strict=True):
+        blocks = []
+        for block, right in zip(row, symbols, strict=True):
+            code, reads = emitter.code(block, hoist=not plan.constant_hessian)
+            height, hreads = emitter.size(length(left.shape))
+            width, wreads = emitter.size(length(right.shape))
+            used |= reads | hreads | wreads
+            blocks.append(f"_block({code}, {height}, {width})")
+        rows.append(f"[{', '.join(blocks)}]")
+    body = [f"return np.block([{', '.join(rows)}])"]
+    return function(emitter, "def _hessian(z, d):", body, used)
+
+
+def _bounds(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    body, used = ["sizes = _dual_sizes(d)", "lo = [np.full(s, -np.inf) for s in sizes]",
+                  "hi = [np.full(s, np.inf) for s in sizes]"], set()
+    index = {s.name: i for i, s in enumerate(symbols)}
+    for bound in plan.bounds:
+        code, reads = emitter.code(bound.value)
+        used |= reads
+        i = index[bound.variable]
+        pick = "np.maximum" if bound.side == "lo" else "np.minimum"
+        body.append(f"{bound.side}[{i}] = {pick}({bound.side}[{i}], {code})")
+    body.append("return np.concatenate([*lo, np.zeros(0)]), np.concatenate([*hi, np.zeros(0)])")
+    return function(emitter, "def _bounds(d):", body, used)
+
+
+def _constraints(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    """``_constraints(z, d)``: a list of (relation, values, Jacobian) for the general ones."""
+    body, used = ["out = []"], set()
+    for general in plan.constraints:
+        value, reads = emitter.code(general.function)
+        rows, rreads = emitter.size(length(general.function.shape))
+        used |= reads | rreads
+        blocks = []
+        for jac, symbol in zip(general.jacobians, symbols, strict=True):
+            code, jreads = emitter.code(jac)
+            cols, creads = emitter.size(length(symbol.shape))
+            used |= jreads | creads
+            blocks.append(f"_block({code}, {rows}, {cols})")
+        body.append(
+            f"out.append(({general.relation!r}, _flat({value}, {rows}), "
+            f"np.hstack([{', '.join(blocks)}])))"
+        )
+    body.append("return out")
+    return function(emitter, "def _constraints(z, d):", body, used)
+
+
+def _recovery(emitter: Emitter, derivation: Derivation) -> str:
+    """``_recover(z, d)`` for the variables with a formula (the others: ``solver_recover``)."""
+    body, used = ["x = {}"], set()
+    for rec in derivation.recovery:
+        if rec.formula is not None:
+            code, reads = emitter.code(rec.formula)
+            used |= reads
+            body.append(f"x[{literal(rec.variable)}] = {code}")
+    body.append("return x")
+    return function(emitter, "def _recover(z, d):", body, used)
+
+
+def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
+    """``_primal(x, d)``: the primal objective and each constraint function, flattened."""
+    problem = derivation.problem
+    code, used = emitter.code(problem.objective)
+    body = [f"value = float({code})", "parts = []"]
+    for constraint in problem.constraints:
+        fcode, reads = emitter.code(constraint.function)
+        used |= reads
+        body.append(f"parts.append(({constraint.kind!r}, np.asarray({fcode}, dtype=float)))")
+    body.append("return value, parts")
+    return function(emitter, "def _primal(x, d):", body, used)
+
+
+def _prepare(emitter: Emitter) -> str:
+    """Constants are emitted last-registered last, so each sees the ones it reads."""
+    body, reads = [], set()
+    for name, code, used in emitter.constants.entries:
+        reads |= {u for u in used if not u.startswith("_k")}
+        body.append(f"{name} = {code}")
+    names = [n for n, _, _ in emitter.constants.entries]
+    body.append("return {" + ", ".join(f"{literal(n)}: {n}" for n in names) + "}")
+    return function(emitter, "def _prepare(d):", body, reads)
+
+
+def _declarations(derivation: Derivation, scope: Scope) -> str:
+    """DATA: (name, rows, cols, facts) with sizes as ints or dimension names."""
+    rows = []
+    for decl in derivation.problem.data:
+        shape = decl.symbol.shape
+        facts = sorted(decl.symbol.facts)
+        rows.append(f"    ({literal(decl.name)}, {_size_spec(shape.rows)}, "
+                    f"{_size_spec(shape.cols)}, {literal(facts)}),")
+    return "DATA = [\n" + "\n".join(rows) + "\n]" if rows else "DATA = []"
+
+
+def _size_spec(size: object) -> str:
+    text = str(size)
+    if text.isdigit():
+        return text
+    if text.isidentifier():
+        return literal(text)
+    raise DualizeError(f"cannot generate a solver: a data size {text} is not a plain name", 2)
+
+
+def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagrangian: bool,
+          constant_hessian: bool, printed: bool) -> list[tuple[str, str]]:
+    """The keyword arguments of the module's ``Spec``, as code."""
+    problem = derivation.problem
+    dual = derivation.dual
+    entries = [
+        ("method", literal(method)),
+        ("dual_names", literal([v.name for v in dual.variables])),
+        ("dual_sense", literal(dual.sense)),
+        ("primal_sense", literal(problem.sense)),
+        ("primal_names", literal([v.name for v in problem.variables])),
+        ("primal_scalar", repr([v.symbol.shape.is_scalar for v in problem.variables])),
+        ("scalars", "SCALARS"),
+        ("data", "DATA"),
+        ("dims", "DIMS"),
+        ("unrecovered", literal(dict(sorted(missing.items())))),
+        ("by_lagrangian", repr(by_lagrangian)),
+        ("constant_hessian", repr(constant_hessian)),
+        ("caution", literal(CAUTION)),
+    ]
+    if printed:
+        entries += [(name, f"_{code}") for name, code in _PRINTED]
+    return entries
+
+
+_PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "objective"),
+            ("gradient", "gradient"), ("hessian", "hessian"), ("bounds", "bounds"),
+            ("constraints", "constraints"), ("recover", "recover"), ("primal", "primal"),
+            ("unknowns", "unknowns"), ("restricted", "restricted"), ("lagrangian", "lagrangian"),
+            ("lagrangian_domain", "lagrangian_domain"))
+
+
+def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
+    dual = [v.symbol.shape.is_scalar for v in derivation.dual.variables]
+    return repr(dual + [s.shape.is_scalar for s in auxiliary])
+
+
+def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str:
+    from dualize.render.templating import fill
+
+    emitter = Emitter(scope)
+    symbols = [v.symbol for v in derivation.dual.variables] + list(plan.auxiliary)
+    missing = missing_of(derivation)
+    functions = [
+        _sizes(emitter, symbols, "def _dual_sizes(d):"),
+        _objective(emitter, plan),
+        _gradient(emitter, plan, symbols),
+        _hessian(emitter, plan, symbols),
+        _bounds(emitter, plan, symbols),
+        _constraints(emitter, plan, symbols),
+        _recovery(emitter, derivation),
+        _primal_parts(emitter, derivation),
+        unknowns(emitter, derivation),
+        restricted(emitter, derivation, rule),
+        lagrangian(emitter, derivation, rule),
+        lagrangian_domain(emitter, derivation, rule),
+    ]
+    functions.insert(0, _prepare(emitter))
+    return fill(
+        "solver.py.j2",
+        docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
+        runtime=runtime_source(),
+        declarations=_declarations(derivation, scope),
+        dims=literal(sorted(str(s) for s in derivation.problem.dims)),
+        scalars=_scalars(derivation, plan.auxiliary),
+        functions="\n\n\n".join(functions),
+        spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",
+                   plan.constant_hessian, True),
+    )
+
+
+def _render_conic(derivation: Derivation, scope: Scope) -> str:
+    from dualize.render.templating import fill
+
+    reason = "the dual has a semidefinite constraint; it needs a conic solver"
+    return fill(
+        "solver.py.j2",
+        docstring=docstring(derivation, "conic", reason, {}),
+        runtime=runtime_source(),
+        declarations=_declarations(derivation, scope),
+        dims=literal(sorted(str(s) for s in derivation.problem.dims)),
+        scalars=_scalars(derivation, ()),
+        functions="",
+        spec=_spec(derivation, "conic", {}, False, False, False),
+    )

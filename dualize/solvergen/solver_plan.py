@@ -1,0 +1,240 @@
+"""How a dual problem will be solved: bounds, remaining constraints, the method.
+
+The method follows the dual's structure, the reason a dual is worth solving:
+a linear dual goes to an LP solver; a dual whose only constraints are bounds
+(nonnegative multipliers, boxes left by eliminated slacks) to L-BFGS-B with
+the analytic gradient; a smooth dual with bounds and linear constraints (the
+soft-margin, entropy and barrier kinds) to a primal-dual interior-point method
+with Mehrotra's predictor-corrector (J. Nocedal and S. Wright, Numerical
+Optimization, 2nd ed., 2006, sections 16.6, 14.2 and 19.2) on the symbolic
+Hessian, factored as a low-rank Gram matrix when it is a constant one; a dual
+whose Hessian has no rule here, with bounds and linear equalities, to an
+augmented Lagrangian (same book, section 17.4) whose inner problems on the
+bounds go to the spectral projected gradient method (E. Birgin, J. Martinez,
+M. Raydan, SIAM J. Optim., 2000); anything else smooth to SLSQP with analytic
+Jacobians.  Max, min, absolute values and polyhedral norms of the multipliers
+are first replaced by epigraph variables (``solver_lift``), so a
+piecewise-linear dual becomes a linear program.  A semidefinite dual needs a
+conic solver, which the generated module says instead of guessing.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from typing import Literal
+
+import sympy
+
+from dualize.duality.result import DualConstraint, DualProblem
+from dualize.errors import DualizeError
+from dualize.model import expr as ir
+from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
+from dualize.solvergen.ir_rewrite import normalize
+from dualize.solvergen.solver_lift import Lift, epigraph_lift, known_sign
+
+Method = Literal["linprog", "lbfgsb", "interior", "augmented", "slsqp", "conic"]
+
+
+@dataclass(frozen=True)
+class Bound:
+    """``variable >= value`` (side ``lo``) or ``variable <= value`` (side ``hi``)."""
+
+    variable: str
+    side: Literal["lo", "hi"]
+    value: ir.Expr
+
+
+@dataclass(frozen=True)
+class General:
+    """A constraint ``function <= 0`` or ``function = 0`` with its Jacobian blocks."""
+
+    function: ir.Expr
+    relation: Literal["<=", "="]
+    jacobians: tuple[ir.Expr, ...]
+    affine: bool
+
+
+@dataclass(frozen=True)
+class Plan:
+    method: Method
+    reason: str
+    objective: ir.Expr
+    gradients: tuple[ir.Expr, ...]
+    bounds: tuple[Bound, ...]
+    constraints: tuple[General, ...]
+    auxiliary: tuple[ir.Symbol, ...] = ()
+    """Epigraph variables of the lift; they follow the multipliers and are never reported."""
+    hessian: tuple[tuple[ir.Expr, ...], ...] | None = None
+    constant_hessian: bool = False
+
+
+def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
+    return tuple(v.symbol for v in dual.variables)
+
+
+def is_conic(dual: DualProblem) -> bool:
+    """A semidefinite constraint or a matrix multiplier: beyond smooth solvers."""
+    if any(v.set in ("psd", "symmetric") for v in dual.variables):
+        return True
+    if any(not (v.symbol.shape.cols == 1) for v in dual.variables):
+        return True
+    return any(c.relation in ("succeq", "preceq") for c in dual.constraints)
+
+
+def make_plan(dual: DualProblem) -> Plan:
+    """The plan for a closed-form, non-conic dual; raises DualizeError when none fits."""
+    sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
+    objective = normalize(ir.Scale(sign, dual.objective))
+    parts = [part for constraint in dual.constraints for part in _expand(constraint)]
+    lift = epigraph_lift(objective, parts, {v.name for v in dual.variables})
+    variables = _multipliers(dual) + lift.auxiliary
+    names = {v.name for v in variables}
+    objective = normalize(lift.objective)
+    gradients = tuple(_differentiate(objective, v, "the dual objective") for v in variables)
+    bounds = [Bound(v.name, "lo", _zero()) for v in dual.variables if v.set == "nonneg"]
+    bounds += [Bound(v.name, "hi", _zero()) for v in dual.variables if v.set == "nonpos"]
+    general: list[General] = []
+    for part in lift.parts:
+        bound = _as_bound(part, names)
+        if bound:
+            bounds.extend(bound)
+        else:
+            general.append(_general(part, variables))
+    linear = not any(ir.depends_on(g, names) for g in gradients)
+    plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
+    if plan.method in ("augmented", "slsqp") and all(g.affine for g in general):
+        hessian = _hessian_blocks(gradients, variables)
+        if hessian is not None:
+            constant = not any(ir.depends_on(block, names) for row in hessian for block in row)
+            kind = "a quadratic" if constant else "a smooth convex"
+            reason = f"{kind} objective with bounds and linear constraints: a primal-dual " \
+                "interior-point method (Mehrotra predictor-corrector) on the analytic Hessian"
+            if constant:
+                reason += ", factored as a low-rank Gram matrix when it is one"
+            plan = replace(plan, method="interior", reason=reason, hessian=hessian,
+                           constant_hessian=constant)
+    return _lifted(plan, lift) if lift.auxiliary else plan
+
+
+def _hessian_blocks(
+    gradients: tuple[ir.Expr, ...], variables: tuple[ir.Symbol, ...]
+) -> tuple[tuple[ir.Expr, ...], ...] | None:
+    """The Hessian blocks d(gradient_i)/d(variable_j), or None where one has no rule."""
+    try:
+        return tuple(tuple(jacobian(g, v) for v in variables) for g in gradients)
+    except NotDifferentiable:
+        return None
+
+
+def _lifted(plan: Plan, lift: Lift) -> Plan:
+    """The plan with the epigraph variables and a reason that says why they are there."""
+    what = " and ".join(lift.lifted)
+    if plan.method == "linprog":
+        reason = f"the dual is a linear program after epigraph variables for {what} " \
+            "(piecewise linear, not smooth): HiGHS"
+    else:
+        reason = f"after epigraph variables for {what} (piecewise linear, not smooth), " \
+            + plan.reason
+    return replace(plan, reason=reason, auxiliary=lift.auxiliary)
+
+
+def _zero() -> ir.Expr:
+    return ir.Number(sympy.Integer(0))
+
+
+def _differentiate(expr: ir.Expr, var: ir.Symbol, what: str) -> ir.Expr:
+    try:
+        return gradient(expr, var)
+    except NotDifferentiable as err:
+        raise DualizeError(
+            f"cannot generate a solver: {what} is not smooth in {var.name} ({err}); "
+            "the generator handles smooth duals and linear programs", 2
+        ) from err
+
+
+def _expand(constraint: DualConstraint) -> list[tuple[ir.Expr, str, ir.Expr]]:
+    """Rewrite norm balls into smooth or linear pieces: ||u||_inf <= t is -t <= u <= t."""
+    lhs, rel, rhs = constraint.lhs, constraint.relation, constraint.rhs
+    if rel == "in":
+        raise DualizeError("cannot generate a solver: a set-membership constraint of the dual", 2)
+    if rel == ">=" and isinstance(rhs, ir.Norm):
+        lhs, rel, rhs = rhs, "<=", lhs
+    if rel == "<=" and isinstance(lhs, ir.Norm):
+        return _norm_ball(lhs, rhs)
+    return [(lhs, rel, rhs)]
+
+
+def _norm_ball(norm: ir.Norm, radius: ir.Expr) -> list[tuple[ir.Expr, str, ir.Expr]]:
+    arg = norm.arg
+    if norm.p == "inf":
+        wide = ir.Broadcast(radius, arg.shape)
+        return [(arg, "<=", wide), (ir.Scale(ir.Number(sympy.Integer(-1)), arg), "<=", wide)]
+    if norm.p == "2" and _known_nonneg(radius):
+        square = ir.MatMul((ir.Transpose(arg), arg))
+        return [(square, "<=", ir.Power(radius, sympy.Integer(2)))]
+    return [(norm, "<=", radius)]  # the 2-norm as it is; the 1-norm for the lift
+
+
+def _known_nonneg(expr: ir.Expr) -> bool:
+    return known_sign(expr) == 1
+
+
+def _as_bound(part: tuple[ir.Expr, str, ir.Expr], names: set[str]) -> list[Bound] | None:
+    lhs, rel, rhs = part
+    for var, other, side in ((lhs, rhs, rel), (rhs, lhs, _flip(rel))):
+        if isinstance(var, ir.Symbol) and var.name in names and not ir.depends_on(other, names):
+            if not (other.shape.is_scalar or other.shape == var.shape):
+                continue
+            value = other.arg if isinstance(other, ir.Broadcast) else other
+            sides = {"<=": ["hi"], ">=": ["lo"], "=": ["lo", "hi"]}[side]
+            return [Bound(var.name, s, value) for s in sides]  # type: ignore[arg-type]
+    return None
+
+
+def _flip(rel: str) -> str:
+    return {"<=": ">=", ">=": "<=", "=": "="}[rel]
+
+
+def _general(part: tuple[ir.Expr, str, ir.Expr], variables: tuple[ir.Symbol, ...]) -> General:
+    lhs, rel, rhs = part
+    minus = ir.Number(sympy.Integer(-1))
+    if rel == ">=":
+        function = ir.Add((rhs, ir.Scale(minus, lhs)))
+    else:
+        function = ir.Add((lhs, ir.Scale(minus, rhs)))
+    function = normalize(function)
+    try:
+        jacs = tuple(jacobian(function, v) for v in variables)
+    except NotDifferentiable as err:
+        raise DualizeError(
+            f"cannot generate a solver: a dual constraint is not smooth ({err})", 2
+        ) from err
+    names = {v.name for v in variables}
+    affine = not any(ir.depends_on(j, names) for j in jacs)
+    return General(function, "=" if rel == "=" else "<=", jacs, affine)
+
+
+def _choose(
+    objective: ir.Expr,
+    gradients: tuple[ir.Expr, ...],
+    bounds: tuple[Bound, ...],
+    general: tuple[General, ...],
+    linear: bool,
+) -> Plan:
+    affine = all(g.affine for g in general)
+    if linear and affine:
+        method: Method = "linprog"
+        reason = "the dual objective and constraints are linear: a linear program (HiGHS)"
+    elif not general:
+        method = "lbfgsb"
+        reason = "the only constraints are bounds on the multipliers: L-BFGS-B with the " \
+            "analytic gradient"
+    elif affine and all(g.relation == "=" for g in general):
+        method = "augmented"
+        reason = "bounds and linear equalities: an augmented Lagrangian (method of " \
+            "multipliers) whose inner problems on the bounds are solved by the spectral " \
+            "projected gradient method"
+    else:
+        method = "slsqp"
+        reason = "general smooth constraints: SLSQP with analytic Jacobians"
+    return Plan(method, reason, objective, gradients, bounds, general)
