@@ -37,6 +37,7 @@ class DualizeGroup(click.Group):
 
     def invoke(self, ctx: click.Context) -> object:
         _exit_on_terminate()
+        _allow_long_numbers()
         try:
             return super().invoke(ctx)
         except DualizeError as err:
@@ -48,6 +49,19 @@ class DualizeGroup(click.Group):
             click.echo(f"internal error: {type(err).__name__}: {err}", err=True)
             ctx.exit(EXIT_INTERNAL)
         return None
+
+
+PRINTED_DIGITS = 100_000
+
+
+def _allow_long_numbers() -> None:
+    """Python refuses to print integers of more than 4,300 digits (a guard against slow
+    conversions).  Numbers a problem may hold are limited when it is read (1,000 digits,
+    rule number-too-large); results built from them (a product of a few, a square) stay
+    far below this larger bound, so printing never stops on it."""
+    if hasattr(sys, "set_int_max_str_digits") and 0 < sys.get_int_max_str_digits() < (
+            PRINTED_DIGITS):
+        sys.set_int_max_str_digits(PRINTED_DIGITS)
 
 
 def _exit_on_terminate() -> None:
