@@ -68,6 +68,7 @@ class Spec:
     restricted: object = None
     lagrangian: object = None
     lagrangian_domain: object = None
+    cones: object = None
     caution: str = ""
 
 

@@ -20,6 +20,7 @@ from dualize.model import expr as ir
 from dualize.render.caution import CAUTION
 from dualize.solvergen.ir_rewrite import length
 from dualize.solvergen.python_code import python_names
+from dualize.solvergen.solver_conic import conic_plan
 from dualize.solvergen.solver_emit import Emitter, Scope, function
 from dualize.solvergen.solver_plan import Plan, is_conic, make_plan
 from dualize.solvergen.solver_recover import (
@@ -34,7 +35,8 @@ from dualize.solvergen.solver_recover import (
 )
 from dualize.solvergen.solver_text import docstring
 
-RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_recover", "runtime_report")
+RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_conic", "runtime_recover",
+           "runtime_report")
 """The runtime modules, in the order their sources are copied into a generated module."""
 MARKER = "# ---- copied into the generated module from here ----\n"
 
@@ -62,9 +64,7 @@ def render_solver(derivation: Derivation) -> str:
             "cannot generate a solver: the dual has no closed form (the Lagrangian is "
             f"still minimized over {inner})", 2
         )
-    if is_conic(dual):
-        return _render_conic(derivation, _scope(derivation))
-    plan = make_plan(dual)
+    plan = conic_plan(dual) if is_conic(dual) else make_plan(dual)
     rule = choose(derivation, missing_of(derivation))
     return _render(derivation, plan, rule, _scope(derivation, plan.auxiliary, rule.auxiliary))
 
@@ -194,6 +194,18 @@ def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
     return function(emitter, "def _primal(x, d):", body, used)
 
 
+def _cones(emitter: Emitter, plan: Plan) -> str:
+    """``_cones(z, d)``: the matrices that must be positive semidefinite (a conic dual)."""
+    body, used = ["out = []"], set()
+    for matrix in plan.cones:
+        code, reads = emitter.code(matrix)
+        size, sreads = emitter.size(matrix.shape.rows)
+        used |= reads | sreads
+        body.append(f"out.append(_block({code}, {size}, {size}))")
+    body.append("return out")
+    return function(emitter, "def _cones(z, d):", body, used)
+
+
 def _prepare(emitter: Emitter) -> str:
     """Constants are emitted last-registered last, so each sees the ones it reads."""
     body, reads = [], set()
@@ -254,7 +266,7 @@ _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "obje
             ("gradient", "gradient"), ("hessian", "hessian"), ("bounds", "bounds"),
             ("constraints", "constraints"), ("recover", "recover"), ("primal", "primal"),
             ("unknowns", "unknowns"), ("restricted", "restricted"), ("lagrangian", "lagrangian"),
-            ("lagrangian_domain", "lagrangian_domain"))
+            ("lagrangian_domain", "lagrangian_domain"), ("cones", "cones"))
 
 
 def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
@@ -281,6 +293,7 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         restricted(emitter, derivation, rule),
         lagrangian(emitter, derivation, rule),
         lagrangian_domain(emitter, derivation, rule),
+        _cones(emitter, plan),
     ]
     functions.insert(0, _prepare(emitter))
     return fill(
@@ -293,20 +306,4 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         functions="\n\n\n".join(functions),
         spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",
                    plan.constant_hessian, True),
-    )
-
-
-def _render_conic(derivation: Derivation, scope: Scope) -> str:
-    from dualize.render.templating import fill
-
-    reason = "the dual has a semidefinite constraint; it needs a conic solver"
-    return fill(
-        "solver.py.j2",
-        docstring=docstring(derivation, "conic", reason, {}),
-        runtime=runtime_source(),
-        declarations=_declarations(derivation, scope),
-        dims=json.dumps(sorted(str(s) for s in derivation.problem.dims)),
-        scalars=_scalars(derivation, ()),
-        functions="",
-        spec=_spec(derivation, "conic", {}, False, False, False),
     )

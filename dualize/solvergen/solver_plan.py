@@ -66,6 +66,8 @@ class Plan:
     """Epigraph variables of the lift; they follow the multipliers and are never reported."""
     hessian: tuple[tuple[ir.Expr, ...], ...] | None = None
     constant_hessian: bool = False
+    cones: tuple[ir.Expr, ...] = ()
+    """Matrices that must be positive semidefinite (affine in the multipliers)."""
 
 
 def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
