@@ -34,6 +34,8 @@ from dualize.model.expr import (
     Transpose,
     Zero,
 )
+from dualize.model.functions import lookup
+from dualize.model.ops import is_zero  # noqa: F401 - the one zero test, used as b.is_zero
 
 
 def num(value: int | sympy.Expr) -> Number:
@@ -42,10 +44,6 @@ def num(value: int | sympy.Expr) -> Number:
 
 def zeros(shape: Shape) -> Expr:
     return Number(sympy.Integer(0)) if shape.is_scalar else Zero(shape)
-
-
-def is_zero(e: Expr | None) -> bool:
-    return e is None or isinstance(e, Zero) or (isinstance(e, Number) and e.value == 0)
 
 
 def is_one(e: Expr) -> bool:
@@ -156,6 +154,9 @@ def _chain(chain: list[Expr]) -> Expr:
             out.pop()
             out.append(Number(f.shape.rows))
             continue
+        if out and inverse_pair(out[-1], f):
+            out.pop()
+            continue
         if out and isinstance(f, Ones) and isinstance(out[-1], Diag):
             out[-1] = out[-1].arg
             continue
@@ -176,6 +177,14 @@ def _chain(chain: list[Expr]) -> Expr:
     for n in numbers:
         body = scale(n, body)
     return body
+
+
+def inverse_pair(a: Expr, c: Expr) -> bool:
+    """Whether a c is an identity: M inv(M) or inv(M) M (M K^-1 K = M)."""
+    if isinstance(a, Diag) and isinstance(c, Diag):
+        return c.arg == power(a.arg, sympy.Integer(-1)) or a.arg == power(c.arg,
+                                                                          sympy.Integer(-1))
+    return c == Inverse(a) or a == Inverse(c)
 
 
 def _ones_pair(a: Expr, b: Expr) -> bool:
@@ -345,11 +354,10 @@ def divide(a: Expr, b: Expr) -> Expr:
 
 
 def apply(func: str, e: Expr) -> Expr:
-    if func == "exp" and isinstance(e, Apply) and e.func == "log":
+    """func(e), with a function of the table and its inverse cancelled (exp(log u) = u)."""
+    if isinstance(e, Apply) and lookup(func).inverse == e.func:
         return e.arg
-    if func == "log" and isinstance(e, Apply) and e.func == "exp":
-        return e.arg
-    return Apply(func, e)  # type: ignore[arg-type]
+    return Apply(func, e)
 
 
 def minimum(a: Expr, b: Expr) -> Expr:

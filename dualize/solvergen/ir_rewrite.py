@@ -15,6 +15,7 @@ from dataclasses import dataclass, replace
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.functions import EXP, LOG
 from dualize.model.ops import is_zero
 
 
@@ -294,7 +295,7 @@ def _apply(expr: ir.Apply) -> ir.Expr:
 def _log(expr: ir.Apply) -> ir.Expr:
     """log(sum(exp(u))) in either spelling becomes LogSumExp(u)."""
     arg = expr.arg
-    if expr.func != "log":
+    if expr.func != LOG.name:
         return expr
     inner = None
     if isinstance(arg, ir.SumAll):
@@ -305,7 +306,7 @@ def _log(expr: ir.Apply) -> ir.Expr:
             isinstance(head, ir.Transpose) and isinstance(head.arg, ir.Ones)
         ):
             inner = tail
-    if isinstance(inner, ir.Apply) and inner.func == "exp":
+    if isinstance(inner, ir.Apply) and inner.func == EXP.name:
         return LogSumExp(inner.arg)
     return expr
 

@@ -33,6 +33,7 @@ import sympy
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 from dualize.model.problem import Variable
 from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
 from dualize.solvergen.ir_rewrite import length, normalize
@@ -295,7 +296,7 @@ def _domain_arguments(expr: ir.Expr, names: set[str]) -> list[ir.Expr]:
     found: list[ir.Expr] = []
     for node in ir.walk(expr):
         arg = None
-        if isinstance(node, ir.Apply) and node.func in ("log", "sqrt"):
+        if isinstance(node, ir.Apply) and lookup(node.func).keep_positive:
             arg = node.arg
         elif isinstance(node, ir.Power) and not sympy.Rational(node.exponent).is_integer:
             arg = node.base
