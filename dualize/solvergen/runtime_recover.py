@@ -93,7 +93,8 @@ def _fill_by_linear_program(p, x, d):
         bounds=bounds, method="highs",
     )
     if res.status != 0:
-        return f"the linear program over the unrecovered variables failed: {res.message}"
+        return "the linear program over the unrecovered variables has no solution (HiGHS " \
+            f"status {res.status})"
     values = np.split(res.x, np.cumsum([size for _, size, _, _ in variables])[:-1])
     _place(p, x, [(name, size) for name, size, _, _ in variables], values)
     return None
