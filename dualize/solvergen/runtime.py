@@ -69,6 +69,7 @@ class Spec:
     lagrangian: object = None
     lagrangian_domain: object = None
     cones: object = None
+    hessian_diagonal: object = None
     caution: str = ""
 
 

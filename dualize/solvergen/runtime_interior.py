@@ -198,18 +198,7 @@ def _with_slacks(p, d, z0, lo, hi):
     a = np.vstack(rows) if rows else None
     b = None if a is None else np.concatenate([v for v in (b_eq, b_ub) if v is not None])
 
-    def widened(h):
-        return h if not extra else scipy.linalg.block_diag(h, np.zeros((extra, extra)))
-
-    fixed = None
-    if p.constant_hessian:
-        fixed = _structured_hessian(p, d, size, extra, lo, hi)
-        if fixed is None:
-            fixed = (widened(p.hessian(z0, d)), None, 0.0)
-
-    def hessian(z):
-        return fixed if fixed is not None else (widened(p.hessian(z[:size], d)), None, 0.0)
-
+    hessian = _hessian_function(p, d, z0, extra, lo, hi)
     def objective(z):
         return p.objective(z[:size], d)
 
@@ -222,6 +211,28 @@ def _with_slacks(p, d, z0, lo, hi):
         start = np.concatenate([z0, np.where(room > 1e-8, room, 1.0)])
     return (objective, gradient, hessian, a, b, start,
             np.concatenate([lo, np.zeros(extra)]), np.concatenate([hi, np.full(extra, np.inf)]))
+
+
+def _hessian_function(p, d, z0, extra, lo, hi):
+    """z -> (dense matrix or None, Gram factor or None, diagonal) on (z, slacks): the
+    diagonal printed for a structurally diagonal Hessian; a constant Hessian looked at
+    once (diagonal, low-rank Gram, else dense); otherwise the dense Hessian at z."""
+    size = len(z0)
+
+    def widened(h):
+        return h if not extra else scipy.linalg.block_diag(h, np.zeros((extra, extra)))
+
+    if p.hessian_diagonal is not None and p.hessian_diagonal(z0, d) is not None:
+        def diagonal(z):
+            values = np.concatenate([p.hessian_diagonal(z[:size], d), np.zeros(extra)])
+            return None, np.zeros((size + extra, 0)), values
+
+        return diagonal
+    if p.constant_hessian:
+        fixed = _structured_hessian(p, d, size, extra, lo, hi)
+        fixed = fixed if fixed is not None else (widened(p.hessian(z0, d)), None, 0.0)
+        return lambda z: fixed
+    return lambda z: (widened(p.hessian(z[:size], d)), None, 0.0)
 
 
 def _structured_hessian(p, d, size, extra, lo, hi):

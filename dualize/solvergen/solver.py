@@ -17,6 +17,7 @@ from pathlib import Path
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
+from dualize.model.ops import is_zero
 from dualize.render.caution import CAUTION
 from dualize.solvergen.ir_rewrite import length
 from dualize.solvergen.python_code import python_names
@@ -132,6 +133,45 @@ def _hessian(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         rows.append(f"[{', '.join(blocks)}]")
     body = [f"return np.block([{', '.join(rows)}])"]
     return function(emitter, "def _hessian(z, d):", body, used)
+
+
+def diagonal_of(expr: ir.Expr) -> ir.Expr | None:
+    """The vector v when ``expr`` is diag(v) by its structure (sums and scalings of diagonal
+    matrices, identities, zeros), else None."""
+    if isinstance(expr, ir.Diag):
+        return expr.arg
+    if isinstance(expr, ir.Identity):
+        return ir.Ones(expr.n)
+    if isinstance(expr, ir.Zero) and expr.shape.rows == expr.shape.cols:
+        return ir.Zero(ir.Shape(expr.shape.rows, 1))
+    if isinstance(expr, ir.Scale):
+        inner = diagonal_of(expr.arg)
+        return None if inner is None else ir.Scale(expr.factor, inner)
+    if isinstance(expr, ir.Add):
+        terms = [diagonal_of(t) for t in expr.terms]
+        return None if any(t is None for t in terms) else ir.Add(tuple(terms))  # type: ignore
+    return None
+
+
+def _hessian_diagonal(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    """``_hessian_diagonal(z, d)``: the Hessian's diagonal when the Hessian is diagonal by
+    its structure (zero blocks off the diagonal), so that no m x m matrix is formed."""
+    none = "def _hessian_diagonal(z, d):\n    return None"
+    if plan.hessian is None:
+        return none
+    pieces, used = [], set()
+    for i, (row, symbol) in enumerate(zip(plan.hessian, symbols, strict=True)):
+        if any(j != i and not is_zero(block) for j, block in enumerate(row)):
+            return none
+        vector = row[i] if symbol.shape.is_scalar else diagonal_of(row[i])
+        if vector is None:
+            return none
+        code, reads = emitter.code(vector, hoist=not plan.constant_hessian)
+        size, sreads = emitter.size(length(symbol.shape))
+        used |= reads | sreads
+        pieces.append(f"_flat({code}, {size})")
+    body = [f"return np.concatenate([{', '.join([*pieces, 'np.zeros(0)'])}])"]
+    return function(emitter, "def _hessian_diagonal(z, d):", body, used)
 
 
 def _bounds(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
@@ -266,7 +306,8 @@ _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "obje
             ("gradient", "gradient"), ("hessian", "hessian"), ("bounds", "bounds"),
             ("constraints", "constraints"), ("recover", "recover"), ("primal", "primal"),
             ("unknowns", "unknowns"), ("restricted", "restricted"), ("lagrangian", "lagrangian"),
-            ("lagrangian_domain", "lagrangian_domain"), ("cones", "cones"))
+            ("lagrangian_domain", "lagrangian_domain"), ("cones", "cones"),
+            ("hessian_diagonal", "hessian_diagonal"))
 
 
 def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
@@ -285,6 +326,7 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         _objective(emitter, plan),
         _gradient(emitter, plan, symbols),
         _hessian(emitter, plan, symbols),
+        _hessian_diagonal(emitter, plan, symbols),
         _bounds(emitter, plan, symbols),
         _constraints(emitter, plan, symbols),
         _recovery(emitter, derivation),
