@@ -21,12 +21,12 @@ from dualize.solvergen.runtime import (
 )
 from dualize.solvergen.runtime_conic import NeedsConicSolver, _solve_conic
 from dualize.solvergen.runtime_interior import _solve_interior
+from dualize.solvergen.runtime_lp import _solve_lp
 from dualize.solvergen.runtime_methods import (
     _domain_start,
     _finite_at,
     _solve_augmented,
     _solve_lbfgsb,
-    _solve_linprog,
     _solve_slsqp,
     _start,
 )
@@ -35,7 +35,7 @@ from dualize.solvergen.runtime_recover import _listed, _primal_report
 # ---- copied into the generated module from here ----
 
 SOLVERS = {
-    "linprog": _solve_linprog,
+    "linprog": _solve_lp,
     "lbfgsb": _solve_lbfgsb,
     "interior": _solve_interior,
     "augmented": _solve_augmented,

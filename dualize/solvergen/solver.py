@@ -36,8 +36,8 @@ from dualize.solvergen.solver_recover import (
 )
 from dualize.solvergen.solver_text import docstring
 
-RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_conic", "runtime_recover",
-           "runtime_report")
+RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_lp", "runtime_conic",
+           "runtime_recover", "runtime_report")
 """The runtime modules, in the order their sources are copied into a generated module."""
 MARKER = "# ---- copied into the generated module from here ----\n"
 
