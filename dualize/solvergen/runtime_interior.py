@@ -66,6 +66,8 @@ def _gram_factor(p, d, size, probes=48):
             good = np.abs(exact - factor @ (factor.T @ check)).max() <= 1e-8 * scale
             return factor if good else None
         probes *= 2
+        if 4 * probes > size:  # past a quarter of the size a dense factor is as cheap
+            return None
     return None
 
 
