@@ -284,18 +284,23 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
         weights = np.where(low, wl / it.sl, 0.0) + np.where(up, wu / it.su, 0.0)
         dense, factor, diagonal = hessian(z)
         solve = _kkt_solver(dense, factor, weights + diagonal, a)
-        dz, _, dwl, dwu = it.direction(solve, dual_res, primal_res, 0.0, 0.0)
-        predicted = it.gap_after(it.longest(dz, dwl, dwu), dz, dwl, dwu) / count
-        sigma = (max(predicted, 0.0) / mu) ** 3 if mu > 0 else 0.0
-        dz, dy, dwl, dwu = it.direction(solve, dual_res, primal_res,
-                                        sigma * mu - np.where(low, dz, 0.0) * dwl,
-                                        sigma * mu + np.where(up, dz, 0.0) * dwu)
+        dz, dy, dwl, dwu = _mehrotra(it, solve, dual_res, primal_res, mu, count)
         dy = np.zeros_like(y) if dy is None else dy
         step = _damped(objective, z, dz, 0.995 * it.longest(dz, dwl, dwu))
         if step == 0.0:
             return z[:len(z0)], False, "interior point: no step keeps the objective finite"
         z, y, wl, wu = z + step * dz, y + step * dy, wl + step * dwl, wu + step * dwu
     return z[:len(z0)], False, "interior point: iteration limit reached"
+
+
+def _mehrotra(it, solve, dual_res, primal_res, mu, count):
+    """The predictor step, then the corrector toward sigma mu with sigma = (mu_aff/mu)^3."""
+    dz, _, dwl, dwu = it.direction(solve, dual_res, primal_res, 0.0, 0.0)
+    predicted = it.gap_after(it.longest(dz, dwl, dwu), dz, dwl, dwu) / count
+    sigma = (max(predicted, 0.0) / mu) ** 3 if mu > 0 else 0.0
+    return it.direction(solve, dual_res, primal_res,
+                        sigma * mu - np.where(it.low, dz, 0.0) * dwl,
+                        sigma * mu + np.where(it.up, dz, 0.0) * dwu)
 
 
 def _damped(objective, z, dz, step):
