@@ -195,7 +195,8 @@ def _block(work: Work, v: Variable) -> Outcome:
     if not x.shape.is_scalar and not x.shape.is_vector:
         lin = trace_linear(rebuild(terms, SCALAR), x)
         if lin is None:
-            return _kept(v, terms, "the matrix variable enters other than linearly")
+            return _matrix_separable(work, v, terms) or _kept(
+                v, terms, "the matrix variable enters other than linearly")
         return matrix_block(x, v.domain, lin) or _kept(v, terms, _domain_why(v))
     atoms, polys, others = _classify(terms, x)
     if others:
@@ -224,6 +225,28 @@ def _block(work: Work, v: Variable) -> Outcome:
         _split_local(work, a, polys, x)
     polys = polys + [_square_poly(a, x) for a in bare]
     return _quadratic(v, polys) or _kept_quadratic(v, polys)
+
+
+def _matrix_separable(work: Work, v: Variable, terms: list[Term]) -> Outcome | None:
+    """inf over X of c sum(phi(X)) + <G, X> + r = r - c sum(phi*(-G/c)), entry by entry.
+
+    A matrix variable that enters through one separable building block of its own
+    entries (the entropy X .* log(X) of an entropic transport plan) and linearly
+    otherwise is minimized entry by entry, exactly like a vector.
+    """
+    x = v.symbol
+    names = frozenset({x.name})
+    atoms = [(t, recognise(t, names)) for t in terms]
+    own = [a for _, a in atoms if a is not None and a.kind == "separable" and a.arg == x]
+    rest = [t for t, a in atoms if a is None or a.kind != "separable" or a.arg != x]
+    if len(own) != 1:
+        return None
+    lin = trace_linear(rebuild(rest, SCALAR), x)
+    if lin is None:
+        return None
+    s = tidy(b.neg(lin.lin)) if lin.lin is not None else b.zeros(x.shape)
+    r = lin.const if lin.const is not None else b.num(0)
+    return _conjugate_outcome(x, own[0], s, r, v.domain, work)
 
 
 def _convex_remainder(polys: list[Quadratic], x: Symbol) -> bool:

@@ -85,6 +85,17 @@ def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # typ
         raise _TimedOut(f"no conjugate found within {CONJUGATE_SECONDS:.0f} s") from None
 
 
+def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
+    """Where phi is continuous; a function in pieces (Huber's) is continuous on R when
+    each piece is, which sympy's domain finder cannot tell."""
+    from sympy.calculus.util import continuous_domain
+
+    if isinstance(phi, sympy.Piecewise):
+        parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
+        return sympy.Intersection(*parts) if parts else sympy.S.Reals
+    return continuous_domain(phi, t, sympy.S.Reals)
+
+
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s."""
     interval = _interval(domain)
@@ -131,9 +142,7 @@ def _conjugate_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) ->
 
 
 def _derive_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
-    from sympy.calculus.util import continuous_domain
-
-    region = continuous_domain(phi, t, sympy.S.Reals).intersect(interval)
+    region = _natural_domain(phi, t).intersect(interval)
     if not isinstance(region, sympy.Interval):
         return None
     try:
