@@ -183,7 +183,7 @@ def _questions(server: ProblemServer) -> None:
         snap = await ls.current(params.text_document.uri)
         found = _quick_fixes(ls, snap, params.range) + _source_actions(snap)
         only = params.context.only
-        return [a for a in found if not only or any(str(a.kind).startswith(str(k))
+        return [a for a in found if not only or any(_kind(a.kind).startswith(_kind(k))
                                                      for k in only)]
 
 
@@ -222,6 +222,11 @@ def _quick_fixes(ls: ProblemServer, snap: Snapshot, wanted: lsp.Range) -> list[l
     return out
 
 
+def _kind(kind: object) -> str:
+    """A code action kind's text (``source``, ``quickfix``), enum or plain string."""
+    return str(getattr(kind, "value", kind))
+
+
 def _overlap(a: lsp.Range, b: lsp.Range) -> bool:
     def key(p: lsp.Position) -> tuple[int, int]:
         return p.line, p.character
@@ -232,10 +237,12 @@ def _overlap(a: lsp.Range, b: lsp.Range) -> bool:
 def _source_actions(snap: Snapshot) -> list[lsp.CodeAction]:
     if snap.loaded.problem is None:
         return []
-    derive = lsp.Command("Derive the Lagrange dual (Markdown)", DERIVE, [snap.uri])
+    derive = lsp.Command(title="Derive the Lagrange dual (Markdown)", command=DERIVE,
+                         arguments=[snap.uri])
     out = [lsp.CodeAction(derive.title, kind=lsp.CodeActionKind.Source, command=derive)]
     if snap.file is not None:
-        latex = lsp.Command("Write the dual's LaTeX beside the file", WRITE_LATEX, [snap.uri])
+        latex = lsp.Command(title="Write the dual's LaTeX beside the file", command=WRITE_LATEX,
+                            arguments=[snap.uri])
         out.append(lsp.CodeAction(latex.title, kind=lsp.CodeActionKind.Source, command=latex))
     return out
 

@@ -139,3 +139,28 @@ def test_project_settings_choose_the_findings(tmp_path: Path) -> None:
         assert await s.stop() == 0
 
     run(scenario)
+
+
+def test_code_actions_honour_the_requested_kinds(tmp_path: Path) -> None:
+    uri = uri_of(tmp_path / "typos.prob")
+
+    async def scenario(s: Session) -> None:
+        s.open(uri, TYPOS)
+        found = await s.diagnostics(uri, version=1)
+        whole = lsp.Range(lsp.Position(0, 0), lsp.Position(6, 0))
+        for only, kinds in ((["quickfix"], {"quickfix"}), (["source"], set()), (None,
+                                                                               {"quickfix"})):
+            actions = await s.client.text_document_code_action_async(lsp.CodeActionParams(
+                _doc(uri), whole, lsp.CodeActionContext(diagnostics=found, only=only)))
+            assert {str(getattr(a.kind, "value", a.kind)) for a in actions} == kinds
+        s.replace(uri, TYPOS.replace("abs(x - a)", "|x - a|").replace("x / d", "x ./ d"), 2)
+        await s.diagnostics(uri, version=2)
+        actions = await s.client.text_document_code_action_async(lsp.CodeActionParams(
+            _doc(uri), whole, lsp.CodeActionContext(diagnostics=[], only=["source"])))
+        # (pygls's client reads these answers as bare commands; the titles are what
+        # it keeps faithfully)
+        assert [a.title for a in actions] == ["Derive the Lagrange dual (Markdown)",
+                                              "Write the dual's LaTeX beside the file"]
+        assert await s.stop() == 0
+
+    run(scenario)
