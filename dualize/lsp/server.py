@@ -252,7 +252,12 @@ def _commands(server: ProblemServer) -> None:
     async def derive_dual(ls: ProblemServer, *args: Any) -> dict[str, str]:
         snap = await ls.current(_uri_argument(args))
         derived = await ls.derived(snap, ls.limits.derive)
-        return {"uri": snap.uri, "markdown": actions.markdown(derived)}
+        try:
+            text = await ls.work.run(ls.work.derive_pool, ls.limits.derive, actions.markdown,
+                                     derived)
+        except TimeoutError as err:
+            raise RequestFailed("rendering the derivation took too long") from err
+        return {"uri": snap.uri, "markdown": text}
 
     @server.command(WRITE_LATEX)
     async def write_latex(ls: ProblemServer, *args: Any) -> dict[str, str]:
