@@ -89,7 +89,7 @@ def _about_name(m: Mention, snap: Snapshot, problem: Problem | None,
         return f"**size `{m.name}`**\n\nA dimension symbol: a positive integer, given by " \
                "the instance's data shapes."
     if problem is None:
-        return None
+        return _declared(m, snap)
     if m.kind == "label":
         found = labelled_constraint(problem, m.name)
         return constraint_hover(found, derivation, pending) if found else None
@@ -101,6 +101,19 @@ def _about_name(m: Mention, snap: Snapshot, problem: Problem | None,
         return f"**data `{data.name}`** in `{data.set_text}`\n\nA parameter: its set " \
                "states facts the analysis may use (sign, symmetry, definiteness)."
     return None
+
+
+def _declared(m: Mention, snap: Snapshot) -> str | None:
+    """While the file has errors: the declaration as written, if the name has one."""
+    doc = snap.document
+    decls = {d.name: ("data", d) for d in doc.data} if doc else {}
+    decls.update({d.name: ("variable", d) for d in doc.variables} if doc else {})
+    if m.name not in decls:
+        return None
+    what, decl = decls[m.name]
+    written = snap.text[decl.span.start:decl.span.end]
+    return f"**{what} `{m.name}`** (`{written}`, line {decl.span.line})\n\nThe rest " \
+           "is shown once the file's errors are fixed."
 
 
 def function_hover(name: str) -> str | None:
