@@ -22,7 +22,7 @@ from pygls.lsp.server import LanguageServer
 from dualize.errors import DualizeError
 from dualize.lsp import actions, convert, fixes, hover, navigate
 from dualize.lsp.budget import Limits
-from dualize.lsp.positions import TextMap
+from dualize.lsp.positions import TextMap, encoding_name
 from dualize.lsp.protocol import ProblemProtocol
 from dualize.lsp.state import Snapshot
 from dualize.lsp.tasks import Work
@@ -55,7 +55,7 @@ class ProblemServer(LanguageServer):
                                             "%s: %s", type(error).__name__, error)
 
     def text_map(self, snap: Snapshot) -> TextMap:
-        return TextMap(snap.text, str(self.workspace.position_encoding or "utf-16"))
+        return TextMap(snap.text, encoding_name(self.workspace.position_encoding))
 
     async def current(self, uri: str) -> Snapshot:
         """The snapshot of the open document's current text (an error if it is not open)."""

@@ -30,6 +30,7 @@ def test_positions_count_utf16_code_units() -> None:
     assert utf16.position(1, 11) == lsp.Position(0, 11)
     assert TextMap(text, lsp.PositionEncodingKind.Utf32).position(1, 11) == lsp.Position(0, 10)
     assert TextMap(text, lsp.PositionEncodingKind.Utf8).position(1, 11) == lsp.Position(0, 13)
+    assert TextMap(text, "utf-8").position(1, 11) == lsp.Position(0, 13)
     assert utf16.offset(lsp.Position(0, 11)) == 10
     assert utf16.offset(lsp.Position(99, 0)) == len(text)
     span = Span(2, 10, 2, 11, 25, 26)
