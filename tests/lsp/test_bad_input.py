@@ -149,3 +149,13 @@ def test_positions_follow_the_encoding_the_client_offers() -> None:
             return found.range.start.character
 
         assert run(scenario, capabilities=capabilities) == column
+
+
+def test_a_vanished_client_ends_the_server() -> None:
+    """Standard input closing without `exit` (the editor died) ends the server with
+    exit code 1, as the protocol's `exit` without `shutdown` does."""
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    done = subprocess.run([sys.executable, "-m", "dualize", "serve"], input=b"",
+                          capture_output=True, env=env, timeout=60)
+    assert done.returncode == 1 and done.stdout == b""
+    assert b"Traceback" not in done.stderr
