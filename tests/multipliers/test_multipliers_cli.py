@@ -208,3 +208,26 @@ def test_trade_off_at_a_bound_written_as_a_number(tmp_path: Path) -> None:
     point = json.loads(out)["points"][0]
     # the bound 1.5 and the weight 0.938548 match the lasso's sweep (test_forms_closed_form)
     assert point["bound"] == pytest.approx(1.5) and point["status"] == "agrees"
+
+
+def test_the_written_form_is_derived_like_any_problem(tmp_path: Path) -> None:
+    """The constrained lasso written by reform has the dual of a norm-ball least squares
+    problem: derive must succeed on it and keep the bound's multiplier (Boyd and
+    Vandenberghe, 2004, section 5.1: one multiplier per constraint, here beside the one
+    the engine adds for the residual)."""
+    from dualize.duality import derive
+
+    out_file = tmp_path / "lasso_bound.prob"
+    assert run("reform", str(EXAMPLES / "spectrum_lasso.prob"), "-o", str(out_file))[0] == 0
+    problem = load_file(out_file).problem
+    assert problem is not None
+    derivation = derive(problem)
+    assert "bound" in [v.name for v in derivation.dual.variables]
+
+
+def test_a_weight_used_elsewhere_is_refused(tmp_path: Path) -> None:
+    source = tmp_path / "twice.prob"
+    source.write_text("data c in R^n\ndata w in R_+\nminimize c' * x + w * ||x||^2\n"
+                      "over x in R^n\nsubject to\n  cap: sum(x) <= w\n")
+    code, _, err = run("reform", str(source), "--weight", "w")
+    assert code == 2 and "appears elsewhere" in err
