@@ -132,7 +132,13 @@ class _Scalar:
 
     def solve(self, value: float) -> Point:
         inst = Instance(self.values(value), self.instance.dims, self.instance.source)
-        return Posed(self.problem, inst).solve()  # type: ignore[arg-type]
+        try:
+            posed = Posed(self.problem, inst)  # type: ignore[arg-type]
+        except (ValueError, TypeError, ArithmeticError):
+            return Point("unsupported", float("nan"), {}, {})
+        if not posed.convex():
+            return Point("not certifiably convex", float("nan"), {}, {})
+        return posed.solve()
 
 
 def smallest_r(forms: Forms) -> float:
