@@ -120,10 +120,11 @@ def test_parentheses_only_where_needed() -> None:
 
 
 def test_scalar_products_put_numbers_and_symbols_before_compound_factors() -> None:
-    # Common practice: "\tfrac{1}{4} \gamma^{-1} q^\top P q", not "(q^\top P q) ... \gamma^{-1}".
+    # Common practice: "\frac{1}{4\gamma} q^\top P q", not "(q^\top P q) ... \gamma^{-1}"
+    # (Boyd and Vandenberghe, Convex Optimization, 2004, sec. 5.1.5: "-(1/4) nu^T A A^T nu").
     gamma = ir.Symbol("gamma", "data", ir.SCALAR)
     node = ir.Scale(num("1/4"), ir.Scale(mm(T(q), P, q), ir.Inverse(gamma)))
-    assert latex_expr(node) == r"\tfrac{1}{4} \gamma^{-1} q^\top P q"
+    assert latex_expr(node) == r"\frac{1}{4 \gamma} q^\top P q"
     assert latex_expr(ir.Scale(mm(T(q), x), x)) == r"(q^\top x) x"
 
 
@@ -178,3 +179,15 @@ def test_sympy_dimension_sizes_print_through_sympy() -> None:
     assert latex_set("free", vec(n + 1)) == r"\mathbb{R}^{n + 1}"
     assert latex_expr(ir.Scale(t, x)) == "t x"
     assert latex_expr(s) == "s"
+
+
+def test_scalar_quotients_print_as_fractions_in_lowest_terms() -> None:
+    # Common practice: "\frac{3\lambda}{\lambda + 1}", never "6 \lambda (2 \lambda + 2)^{-1}".
+    lam = ir.Symbol("lambda", "multiplier", ir.SCALAR)
+    denominator = add(ir.Scale(num(2), lam), num(2))
+    node = ir.Scale(num(6), ir.Scale(lam, ir.Power(denominator, sympy.Integer(-1))))
+    assert latex_expr(node) == r"\frac{3 \lambda}{\lambda + 1}"
+    assert latex_expr(ir.Scale(num(-1), node)) == r"-\frac{3 \lambda}{\lambda + 1}"
+    half_inverse = ir.Scale(num("-1/2"), ir.Scale(ir.Inverse(lam), x))
+    assert latex_expr(half_inverse) == r"-\frac{1}{2 \lambda} x"
+    assert latex_expr(ir.Scale(num("1/2"), x)) == r"\tfrac{1}{2} x"
