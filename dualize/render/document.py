@@ -67,7 +67,7 @@ class Formatter(Protocol):
 
     def dual_set(self, variable: DualVariable) -> str: ...
 
-    def prose(self, text: str) -> str: ...
+    def prose(self, text: str, formulas: tuple[tuple[str, object], ...] = ()) -> str: ...
 
     def gradient(self, variable: str, of: str) -> str: ...
 
@@ -229,7 +229,7 @@ def equation_line(equation: Equation, fmt: Formatter, note: str = "") -> Line:
 
 
 def step_view(step: Step, fmt: Formatter) -> StepView:
-    return StepView(step.rule, fmt.prose(step.text),
+    return StepView(step.rule, fmt.prose(step.text, step.formulas),
                     tuple(equation_line(e, fmt) for e in step.equations))
 
 

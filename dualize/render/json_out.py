@@ -164,7 +164,12 @@ def equation_json(equation: Equation) -> dict[str, str]:
 
 
 def step_json(step: Step) -> dict[str, Any]:
-    return {"rule": step.rule, "text": step.text, "block": step.block,
+    """A step; its sentence in Unicode (``text``) and in LaTeX (``latex``)."""
+    from dualize.render.latex import LatexFormatter
+    from dualize.render.text import TextFormatter
+
+    return {"rule": step.rule, "text": TextFormatter().prose(step.text, step.formulas),
+            "latex": LatexFormatter().prose(step.text, step.formulas), "block": step.block,
             "equations": [equation_json(e) for e in step.equations]}
 
 

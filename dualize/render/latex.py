@@ -10,9 +10,8 @@ from __future__ import annotations
 import re
 from typing import Any
 
-from dualize.duality.result import Derivation, DualVariable
+from dualize.duality.result import Derivation
 from dualize.model import expr as ir
-from dualize.model.problem import Variable
 from dualize.render.document import (
     Analysis,
     DocumentView,
@@ -21,9 +20,9 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
+from dualize.render.formatter import TargetFormatter
 from dualize.render.latex_chars import math_symbol, text_character
-from dualize.render.latex_printer import IRLatexPrinter, latex_expr, latex_relation, latex_terms
-from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
+from dualize.render.latex_printer import RELATIONS, IRLatexPrinter, latex_expr
 from dualize.render.templating import fill
 
 __all__ = ["LatexFormatter", "latex_expr", "render_latex", "repr_latex"]
@@ -36,17 +35,9 @@ _SET_BASE: dict[str, tuple[str, str]] = {
 }
 
 
-def latex_prose(text: str) -> str:
-    """Plain sentences made safe for LaTeX; Greek names and math signs go to math mode."""
-    out = []
-    for kind, piece in prose_pieces(text):
-        if kind == "name":
-            out.append(f"${latex_name(piece)}$")
-        elif kind == "relation":
-            out.append(f"${latex_relation(PROSE_RELATIONS[piece])}$")
-        else:
-            out.append(_escape_text(piece))
-    return "".join(out)
+def latex_prose(text: str, formulas: tuple[tuple[str, object], ...] = ()) -> str:
+    """Plain sentences made safe for LaTeX; names, signs and marked formulas in math mode."""
+    return LatexFormatter().prose(text, formulas)
 
 
 def _escape_text(text: str) -> str:
@@ -93,34 +84,21 @@ def _bound(node: ir.Expr | None) -> str:
     return "?" if node is None else latex_expr(node)
 
 
-class LatexFormatter:
+class LatexFormatter(TargetFormatter):
     """The LaTeX spelling of every piece a document shows."""
 
-    def __init__(self, **settings: Any) -> None:
-        self.settings = settings
+    printer = IRLatexPrinter
+    relations = RELATIONS
 
-    def expr(self, node: ir.Expr) -> str:
-        return latex_expr(node, **self.settings)
+    def set_of(self, kind: str, shape: ir.Shape, lo: ir.Expr | None = None,
+               hi: ir.Expr | None = None) -> str:
+        return latex_set(kind, shape, lo, hi)
 
-    def relation(self, relation: str) -> str:
-        return latex_relation(relation)
+    def words(self, text: str) -> str:
+        return _escape_text(text)
 
-    def name(self, name: str) -> str:
-        return latex_name(name)
-
-    def domain(self, variable: Variable) -> str:
-        d = variable.domain
-        return latex_set(d.kind, variable.symbol.shape, d.lo, d.hi)
-
-    def dual_set(self, variable: DualVariable) -> str:
-        return latex_set("symmetric" if variable.set == "symmetric" else "free",
-                         variable.symbol.shape)
-
-    def prose(self, text: str) -> str:
-        return latex_prose(text)
-
-    def terms(self, node: ir.Expr) -> tuple[str, ...]:
-        return latex_terms(node, **self.settings)
+    def inline(self, math: str) -> str:
+        return f"${math}$"
 
     def gradient(self, variable: str, of: str) -> str:
         return rf"\nabla_{{{variable}}} {of}"

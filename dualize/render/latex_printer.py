@@ -23,7 +23,7 @@ from dualize.render.names import latex_name
 
 RELATIONS: dict[str, str] = {
     "=": "=", "==": "=", "<=": r"\leq", ">=": r"\geq", "succeq": r"\succeq",
-    "preceq": r"\preceq", "in": r"\in", "!=": r"\neq",
+    "preceq": r"\preceq", "in": r"\in", "!=": r"\neq", "<": "<", ">": ">",
 }
 _FUNCTIONS: dict[str, str] = {
     "exp": r"\exp", "log": r"\log", "max": r"\max", "min": r"\min",

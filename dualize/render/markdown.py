@@ -18,8 +18,6 @@ from dualize.render.document import (
     unbounded_sentence,
 )
 from dualize.render.latex import LatexFormatter, broken_rhs, problem_block
-from dualize.render.latex_printer import latex_relation
-from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
 from dualize.render.templating import fill
 
 __all__ = ["MarkdownFormatter", "render_markdown", "repr_markdown"]
@@ -27,24 +25,16 @@ __all__ = ["MarkdownFormatter", "render_markdown", "repr_markdown"]
 _MARKDOWN_SPECIAL = frozenset("\\*_`$[]#")
 
 
-def markdown_prose(text: str) -> str:
-    """Sentences with Markdown's special characters escaped and Greek names as inline math."""
-    out = []
-    for kind, piece in prose_pieces(text):
-        if kind == "name":
-            out.append(f"${latex_name(piece)}$")
-        elif kind == "relation":
-            out.append(f"${latex_relation(PROSE_RELATIONS[piece])}$")
-        else:
-            out.append("".join("\\" + c if c in _MARKDOWN_SPECIAL else c for c in piece))
-    return "".join(out)
-
-
 class MarkdownFormatter(LatexFormatter):
     """LaTeX mathematics with Markdown prose."""
 
-    def prose(self, text: str) -> str:
-        return markdown_prose(text)
+    def words(self, text: str) -> str:
+        return "".join("\\" + c if c in _MARKDOWN_SPECIAL else c for c in text)
+
+
+def markdown_prose(text: str) -> str:
+    """Sentences with Markdown's special characters escaped and mathematics inline."""
+    return MarkdownFormatter().prose(text)
 
 
 def display(body: str) -> str:

@@ -8,6 +8,7 @@ ones the LaTeX printer uses, so both targets say the same thing.
 
 from __future__ import annotations
 
+import re
 from typing import Any
 
 import sympy
@@ -20,6 +21,7 @@ from dualize.render.names import text_name
 
 RELATIONS: dict[str, str] = {
     "=": "=", "==": "=", "<=": "≤", ">=": "≥", "succeq": "⪰", "preceq": "⪯", "in": "∈",
+    "<": "<", ">": ">",
 }
 _SUPERSCRIPTS = dict(zip("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻", strict=True))
 _VULGAR: dict[tuple[int, int], str] = {
@@ -127,3 +129,16 @@ def text_expr(expr: ir.Expr, **settings: Any) -> str:
 def text_relation(relation: str) -> str:
     """The Unicode sign of a relation as the IR spells it."""
     return RELATIONS[relation]
+
+
+def unicode_scalar(value: sympy.Basic) -> str:
+    """An exact scalar function in one line of Unicode: ``s·log(s) - 1``, ``t²``."""
+    if isinstance(value, sympy.Equality):
+        return f"{unicode_scalar(value.lhs)} = {unicode_scalar(value.rhs)}"
+    if isinstance(value, sympy.core.function.AppliedUndef):
+        base, star, _ = value.func.__name__.partition("^*")
+        args = ", ".join(unicode_scalar(a) for a in value.args)
+        return f"{text_name(base)}{'*' if star else ''}({args})"
+    shown = StrPrinter({"order": "none"}).doprint(value)
+    shown = re.sub(r"\*\*(\d+)", lambda m: "".join(_SUPERSCRIPTS[c] for c in m.group(1)), shown)
+    return shown.replace("**", "^").replace("*", "·")

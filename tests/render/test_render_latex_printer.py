@@ -30,7 +30,9 @@ from render_builders import (
 )
 
 from dualize.model import expr as ir
+from dualize.duality.result import Equation
 from dualize.render.latex import latex_prose, latex_set
+from dualize.render.text import text_prose
 from dualize.render.latex_printer import IRLatexPrinter, latex_expr
 
 P = ir.Symbol("P", "data", ir.Shape(n, n), frozenset({"symmetric", "pd"}))
@@ -170,7 +172,7 @@ def test_unhandled_ir_node_raises() -> None:
 
 def test_prose_is_escaped_and_greek_names_become_math() -> None:
     assert latex_prose("Eliminating beta >= 0 gives 50% & more") == (
-        r"Eliminating $\beta$ $\geq$ 0 gives 50\% \& more")
+        r"Eliminating $\beta \geq 0$ gives 50\% \& more")
     assert latex_prose("x_i with α") == r"x\_i with $\alpha$"
     assert latex_prose("the alphabet") == "the alphabet"
 
@@ -191,3 +193,17 @@ def test_scalar_quotients_print_as_fractions_in_lowest_terms() -> None:
     half_inverse = ir.Scale(num("-1/2"), ir.Scale(ir.Inverse(lam), x))
     assert latex_expr(half_inverse) == r"-\frac{1}{2 \lambda} x"
     assert latex_expr(ir.Scale(num("1/2"), x)) == r"\tfrac{1}{2} x"
+
+
+def test_marked_formulas_in_sentences_are_printed_from_the_ir() -> None:
+    # Common practice: mathematics in running text is set in math mode, never as ASCII.
+    lam = ir.Symbol("lambda", "multiplier", ir.SCALAR)
+    term = ir.Add((ir.Norm(x, "2"), ir.Scale(num(-1), mm(T(s), x))))
+    said = latex_prose("Minimizing over $x$: the infimum of $#term$ is 0 where $#c$.",
+                       (("#term", term), ("#c", Equation(ir.Norm(s, "2"), "<=", lam))))
+    assert said == (r"Minimizing over $x$: the infimum of $\lVert x \rVert_{2} - s^\top x$ is 0 "
+                    r"where $\lVert s \rVert_{2} \leq \lambda$.")
+    t = sympy.Symbol("t", real=True)
+    phi = sympy.Eq(sympy.Function("phi")(t), t * sympy.log(t), evaluate=False)
+    assert "\\phi" in latex_prose("with $#phi$", (("#phi", phi),))
+    assert text_prose("with $#phi$", (("#phi", phi),)) == "with φ(t) = t·log(t)"
