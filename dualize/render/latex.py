@@ -7,11 +7,12 @@
 
 from __future__ import annotations
 
-import re
+import textwrap
 from typing import Any
 
 from dualize.duality.result import Derivation
 from dualize.model import expr as ir
+from dualize.render.caution import CAUTION
 from dualize.render.document import (
     Analysis,
     DocumentView,
@@ -21,6 +22,13 @@ from dualize.render.document import (
     unbounded_sentence,
 )
 from dualize.render.formatter import TargetFormatter
+from dualize.render.latex_breaks import (
+    DISPLAY_WIDTH,
+    INLINE_WIDTH,
+    broken,
+    displayed,
+    visible_width,
+)
 from dualize.render.latex_chars import math_symbol, text_character
 from dualize.render.latex_printer import RELATIONS, IRLatexPrinter, latex_expr
 from dualize.render.templating import fill
@@ -98,6 +106,9 @@ class LatexFormatter(TargetFormatter):
         return _escape_text(text)
 
     def inline(self, math: str) -> str:
+        """Inline mathematics; a formula too wide for a line is displayed instead."""
+        if visible_width(math) > INLINE_WIDTH:
+            return "\n" + displayed(math) + "\n"
         return f"${math}$"
 
     def gradient(self, variable: str, of: str) -> str:
@@ -109,7 +120,8 @@ def problem_block(view: ProblemView) -> str:
     over = r",\, ".join(view.over)
     sense = rf"\text{{{view.sense}}}"
     lead = rf"\underset{{{over}}}{{{sense}}}" if over else sense
-    rows = [rf"{lead} \quad & {_objective(view)}"]
+    objective = broken(_objective(view), first=visible_width(lead) + 4)
+    rows = [rf"{lead} \quad & {objective}"]
     for index, line in enumerate(view.lines):
         lead = r"\text{subject to} \quad " if index == 0 else ""
         rows.append(f"{lead}& {_relation_row(line)}{_tag(line)}")
@@ -145,32 +157,13 @@ def _align_row(line: Line) -> str:
     return f"{line.lhs} &{line.relation} {broken_rhs(line)}{_note(line)}"
 
 
-LINE_WIDTH = 64
+LINE_WIDTH = DISPLAY_WIDTH
 """Visible characters of mathematics that fit beside a left-hand side on a page."""
 
 
 def broken_rhs(line: Line) -> str:
-    """A long sum broken after whole terms onto continuation rows ``& \\quad + ...``."""
-    if visible_width(line.rhs) + visible_width(line.lhs) <= LINE_WIDTH or len(
-            line.rhs_terms) < 2:
-        return line.rhs
-    rows: list[list[str]] = [[]]
-    width = visible_width(line.lhs)
-    for term in line.rhs_terms:
-        if rows[-1] and width + visible_width(term) > LINE_WIDTH:
-            rows.append([])
-            width = 4
-        rows[-1].append(term)
-        width += visible_width(term) + 1
-    return " \\\\\n&\\quad ".join(" ".join(row) for row in rows)
-
-
-def visible_width(latex: str) -> int:
-    """A rough count of the characters a formula shows: commands count one, markup none."""
-    shown = re.sub(r"\\(left|right|quad|,|;|!)", "", latex)
-    shown = re.sub(r"\\(mathbf|mathrm|operatorname|text|tfrac|frac)", "", shown)
-    shown = re.sub(r"\\[A-Za-z]+", "x", shown)
-    return len(re.sub(r"[{}^_\s]", "", shown))
+    """A long right-hand side broken after whole terms onto rows ``& \\quad + ...``."""
+    return broken(line.rhs, first=visible_width(line.lhs))
 
 
 def _note(line: Line) -> str:
@@ -209,7 +202,13 @@ def render_latex(derivation: Derivation, analysis: Analysis | None = None,
     view = build_view(derivation, analysis, LatexFormatter())
     comment = f"Lagrange dual of {derivation.problem.path}; needs amsmath and amssymb."
     return fill("derivation.tex.j2", standalone=standalone, comment=comment,
-                **_context(view))
+                caution_comment=comment_lines(CAUTION), **_context(view))
+
+
+def comment_lines(text: str, width: int = 76) -> list[str]:
+    """The caution as the lines of a LaTeX comment block: kept with the file, silent on the
+    page, so a paper can include the fragment as it is."""
+    return textwrap.wrap("Caution: " + text.replace("%", r"\%"), width)
 
 
 def repr_latex(derivation: Derivation) -> str:

@@ -18,6 +18,7 @@ from dualize.render.document import (
     unbounded_sentence,
 )
 from dualize.render.latex import LatexFormatter, broken_rhs, problem_block
+from dualize.render.latex_breaks import CONTINUATION, INLINE_WIDTH, broken, visible_width
 from dualize.render.templating import fill
 
 __all__ = ["MarkdownFormatter", "render_markdown", "repr_markdown"]
@@ -30,6 +31,13 @@ class MarkdownFormatter(LatexFormatter):
 
     def words(self, text: str) -> str:
         return "".join("\\" + c if c in _MARKDOWN_SPECIAL else c for c in text)
+
+    def inline(self, math: str) -> str:
+        """Inline mathematics; a formula too wide for a line gets a ``$$`` block of its own."""
+        if visible_width(math) <= INLINE_WIDTH:
+            return f"${math}$"
+        rows = broken(math, joint=" \\\\\n&" + CONTINUATION)
+        return "\n\n" + display("\\begin{aligned}\n&" + rows + "\n\\end{aligned}") + "\n\n"
 
 
 def markdown_prose(text: str) -> str:

@@ -29,11 +29,11 @@ from render_builders import (
     y,
 )
 
-from dualize.model import expr as ir
 from dualize.duality.result import Equation
+from dualize.model import expr as ir
 from dualize.render.latex import latex_prose, latex_set
-from dualize.render.text import text_prose
 from dualize.render.latex_printer import IRLatexPrinter, latex_expr
+from dualize.render.text import text_prose
 
 P = ir.Symbol("P", "data", ir.Shape(n, n), frozenset({"symmetric", "pd"}))
 q = ir.Symbol("q", "data", vec(n))
