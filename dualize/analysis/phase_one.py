@@ -23,6 +23,7 @@ from dualize.analysis.layout import Layout, SizeUnknown, layout_for
 from dualize.analysis.report import Verdict
 from dualize.analysis.slater import STRICT_CLASSES
 from dualize.model import expr as E
+from dualize.model.functions import lookup
 from dualize.model.problem import Problem
 
 TOL = 1e-7
@@ -192,7 +193,7 @@ def _open_domain_arguments(problem: Problem) -> list[E.Expr]:
     found: dict[E.Expr, None] = {}
     for node in (n for e in exprs for n in E.walk(e)):
         arg = None
-        if isinstance(node, E.Apply) and node.func in ("log", "sqrt"):
+        if isinstance(node, E.Apply) and lookup(node.func).keep_positive:
             arg = node.arg
         elif isinstance(node, E.Power) and (node.exponent < 0 or node.exponent.q != 1):
             arg = node.base

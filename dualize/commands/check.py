@@ -94,7 +94,7 @@ def _read_claim(path: str) -> str:
 def _render(report: Any, fmt: str) -> str:
     import json
 
-    from dualize.render.check_report import check_dict, check_text
+    from dualize.checking.check_report import check_dict, check_text
 
     if fmt == "json":
         return json.dumps(check_dict(report), indent=2)

@@ -19,7 +19,7 @@ def solver_command(file: str, output: str) -> None:
     from dualize.api import write_atomically
     from dualize.commands.common import load_problem, user_errors
     from dualize.duality import derive
-    from dualize.render.solver import render_solver
+    from dualize.solvergen.solver import render_solver
 
     with user_errors():
         if not os.path.isfile(file):

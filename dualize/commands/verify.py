@@ -94,7 +94,7 @@ def _render(report: Any, derivation: Derivation, fmt: str) -> str:
     import json
 
     from dualize.analysis.convexity import analyse_convexity
-    from dualize.render.check_report import verify_dict, verify_text
+    from dualize.checking.check_report import verify_dict, verify_text
 
     convex = analyse_convexity(derivation.problem).convex
     if fmt == "json":

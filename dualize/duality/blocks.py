@@ -290,11 +290,10 @@ def _scaled_identity(x: Symbol, h: Expr, g: Expr, r: Expr, psd_known: bool) -> O
                                                         "the quadratic must be convex")]
     xstar = tidy(b.neg(b.scale(b.power(h, sympy.Integer(-1)), g)))
     text = (f"The Lagrangian is a quadratic in ${x.name}$ whose Hessian is $#h$ times the "
-            "identity, depending on the multipliers; where $#positive$ the gradient vanishes "
+            "identity, depending on the multipliers; where $#h$ is positive the gradient vanishes "
             "at the point below and the block contributes $#value$ (the dual keeps the "
             "closure $#closure$).")
-    said = _said(h=h, positive=Equation(h, ">", b.num(0)), value=value,  # type: ignore[arg-type]
-                 closure=Equation(h, ">=", b.num(0)))
+    said = _said(h=h, value=value, closure=Equation(h, ">=", b.num(0)))  # type: ignore[arg-type]
     return Outcome(value, constraints, Recovery(x.name, xstar), [Step(
         "minimize-quadratic-scaled-identity", text, (Equation(x, "=", xstar),), block=x.name,
         formulas=said)], smooth=True)

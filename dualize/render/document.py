@@ -25,6 +25,7 @@ from dualize.duality.result import (
     Step,
 )
 from dualize.model import expr as ir
+from dualize.model.ops import is_zero
 from dualize.model.problem import Constraint, Problem, Variable
 from dualize.render.caution import CAUTION
 from dualize.render.structure import split_sign
@@ -196,7 +197,7 @@ def primal_view(problem: Problem, fmt: Formatter) -> ProblemView:
 
 
 def constraint_line(constraint: Constraint, fmt: Formatter) -> Line:
-    relation = "=" if constraint.relation in ("==", "=") else constraint.relation
+    relation = constraint.relation.relation
     return Line(fmt.expr(constraint.lhs), fmt.relation(relation), fmt.expr(constraint.rhs),
                 tag=fmt.name(constraint.multiplier.name))
 
@@ -244,7 +245,7 @@ def signs_as_written(lhs: ir.Expr, relation: str,
     negative, magnitude = split_sign(lhs)
     if not negative:
         return lhs, relation, rhs
-    if _is_zero(rhs) or (isinstance(rhs, ir.Broadcast) and _is_zero(rhs.arg)):
+    if is_zero(rhs) or (isinstance(rhs, ir.Broadcast) and is_zero(rhs.arg)):
         return magnitude, _FLIPPED[relation], rhs
     rhs_negative, rhs_magnitude = split_sign(rhs)
     if rhs_negative:
@@ -293,12 +294,8 @@ def _set_line(variable: DualVariable, fmt: Formatter) -> Line:
 def _stated(variable: DualVariable, dual: DualProblem) -> bool:
     """True when a dual constraint already says ``variable (>=|<=|succeq) 0``."""
     relation = _DUAL_SET_RELATION.get(variable.set)
-    return any(c.lhs == variable.symbol and c.relation == relation and _is_zero(c.rhs)
+    return any(c.lhs == variable.symbol and c.relation == relation and is_zero(c.rhs)
                for c in dual.constraints)
-
-
-def _is_zero(node: ir.Expr) -> bool:
-    return isinstance(node, ir.Zero) or (isinstance(node, ir.Number) and node.value == 0)
 
 
 def unbounded_sentence(dual: ProblemView, minus_infinity: str, plus_infinity: str) -> str:

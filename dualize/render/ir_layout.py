@@ -15,6 +15,7 @@ from typing import Any
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.functions import Function, lookup
 from dualize.render import structure as st
 from dualize.render.fractions import as_quotient
 
@@ -55,6 +56,11 @@ class IRLayout:
         raise NotImplementedError
 
     def function(self, func: str, inner: str) -> str:  # pragma: no cover - overridden
+        """An operator the language spells as a function: max, min, diag, tr."""
+        raise NotImplementedError
+
+    def apply(self, function: Function, inner: str) -> str:  # pragma: no cover - overridden
+        """An elementwise function of the function table, in this target's form."""
         raise NotImplementedError
 
     def norm(self, inner: str, p: str) -> str:  # pragma: no cover - overridden
@@ -206,7 +212,7 @@ class IRLayout:
         return self.power(self.wrap(node.base, st.POSTFIX), sympy.Rational(node.exponent))
 
     def _print_ir_Apply(self, node: ir.Apply) -> str:  # noqa: N802
-        return self.function(node.func, self._print(node.arg))
+        return self.apply(lookup(node.func), self._print(node.arg))
 
     def _print_ir_Extremum(self, node: ir.Extremum) -> str:  # noqa: N802
         inner = f"{self._print(node.left)}, {self._print(node.right)}"

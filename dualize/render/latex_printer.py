@@ -16,6 +16,7 @@ import sympy
 from sympy.printing.latex import LatexPrinter
 
 from dualize.model import expr as ir
+from dualize.model.functions import Function
 from dualize.render import structure as st
 from dualize.render.fractions import as_quotient
 from dualize.render.ir_layout import IRLayout, printed_terms
@@ -26,7 +27,7 @@ RELATIONS: dict[str, str] = {
     "preceq": r"\preceq", "in": r"\in", "!=": r"\neq", "<": "<", ">": ">",
 }
 _FUNCTIONS: dict[str, str] = {
-    "exp": r"\exp", "log": r"\log", "max": r"\max", "min": r"\min",
+    "max": r"\max", "min": r"\min",
     "diag": r"\operatorname{diag}", "tr": r"\operatorname{tr}",
 }
 _ELEMENTWISE: dict[str, str] = {"product": r"\odot", "quotient": r"\oslash"}
@@ -74,11 +75,10 @@ class IRLatexPrinter(IRLayout, LatexPrinter):
         return f"{base}^{{{shown}}}"
 
     def function(self, func: str, inner: str) -> str:
-        if func == "sqrt":
-            return rf"\sqrt{{{inner}}}"
-        if func == "abs":
-            return rf"\lvert {inner} \rvert"
         return _FUNCTIONS.get(func, rf"\operatorname{{{func}}}") + paren(inner)
+
+    def apply(self, function: Function, inner: str) -> str:
+        return function.print_with(inner, function.latex, paren)
 
     def norm(self, inner: str, p: str) -> str:
         return rf"\lVert {inner} \rVert_{{{_NORM_SUBSCRIPTS[p]}}}"

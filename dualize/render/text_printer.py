@@ -15,6 +15,7 @@ import sympy
 from sympy.printing.str import StrPrinter
 
 from dualize.model import expr as ir
+from dualize.model.functions import Function
 from dualize.render import structure as st
 from dualize.render.ir_layout import IRLayout, printed_terms
 from dualize.render.names import text_name
@@ -89,9 +90,10 @@ class IRTextPrinter(IRLayout, StrPrinter):
         return f"{base}^({exponent.p}/{exponent.q})"
 
     def function(self, func: str, inner: str) -> str:
-        if func == "abs":
-            return f"|{inner}|"
-        return ("√" if func == "sqrt" else func) + f"({inner})"
+        return f"{func}({inner})"
+
+    def apply(self, function: Function, inner: str) -> str:
+        return function.print_with(inner, function.text, self.paren)
 
     def norm(self, inner: str, p: str) -> str:
         return f"‖{inner}‖{_NORM_SUBSCRIPTS[p]}"
