@@ -97,13 +97,8 @@ class LatexFormatter(TargetFormatter):
 
     printer = IRLatexPrinter
     relations = RELATIONS
-
-    def set_of(self, kind: str, shape: ir.Shape, lo: ir.Expr | None = None,
-               hi: ir.Expr | None = None) -> str:
-        return latex_set(kind, shape, lo, hi)
-
-    def words(self, text: str) -> str:
-        return _escape_text(text)
+    set_of = staticmethod(latex_set)
+    words = staticmethod(_escape_text)
 
     def inline(self, math: str) -> str:
         """Inline mathematics; a formula too wide for a line is displayed instead."""
@@ -145,10 +140,12 @@ def _tag(line: Line) -> str:
     return rf" && \quad \text{{({line.note})}}" if line.note else ""
 
 
-def align_block(lines: tuple[Line, ...]) -> str:
-    """Equations of one step, aligned at their relation signs."""
+def align_block(lines: tuple[Line, ...], environment: str = "align*") -> str:
+    """Equations of one step, aligned at their relation signs (``align*`` in a paper,
+    ``aligned`` inside a Markdown ``$$`` block)."""
     rows = [_align_row(line) for line in lines]
-    return "\\begin{align*}\n" + " \\\\\n".join(rows) + "\n\\end{align*}"
+    return (f"\\begin{{{environment}}}\n" + " \\\\\n".join(rows)
+            + f"\n\\end{{{environment}}}")
 
 
 def _align_row(line: Line) -> str:

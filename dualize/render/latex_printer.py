@@ -19,7 +19,7 @@ from dualize.model import expr as ir
 from dualize.model.functions import Function
 from dualize.render import structure as st
 from dualize.render.fractions import as_quotient
-from dualize.render.ir_layout import IRLayout, printed_terms
+from dualize.render.ir_layout import IRLayout
 from dualize.render.names import latex_name
 
 RELATIONS: dict[str, str] = {
@@ -128,11 +128,6 @@ def _juxtapose(pieces: list[str]) -> str:
 
 
 _WORD = re.compile(r"\\mathrm\{[^{}]*\}(_\{[^{}]*\})?$")
-
-
-def latex_terms(expr: ir.Expr, **settings: Any) -> tuple[str, ...]:
-    """A sum's printed terms with their signs, for line breaks."""
-    return printed_terms(IRLatexPrinter(settings), expr)
 
 
 def latex_expr(expr: ir.Expr, **settings: Any) -> str:

@@ -17,7 +17,7 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
-from dualize.render.latex import LatexFormatter, broken_rhs, problem_block
+from dualize.render.latex import LatexFormatter, align_block, problem_block
 from dualize.render.latex_breaks import CONTINUATION, INLINE_WIDTH, broken, visible_width
 from dualize.render.templating import fill
 
@@ -60,15 +60,7 @@ def _guard(line: str) -> str:
 
 def aligned(lines: tuple[Line, ...]) -> str:
     """Equations aligned at their relation signs, in an ``aligned`` environment."""
-    rows = [_row(line) for line in lines]
-    return "\\begin{aligned}\n" + " \\\\\n".join(rows) + "\n\\end{aligned}"
-
-
-def _row(line: Line) -> str:
-    if not line.relation:
-        return rf"& \text{{{line.note}}}"
-    return f"{line.lhs} &{line.relation} {broken_rhs(line)}" + (
-        rf" \quad \text{{({line.note})}}" if line.note else "")
+    return align_block(lines, "aligned")
 
 
 def _verdict_rows(view: DocumentView) -> list[str]:

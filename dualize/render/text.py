@@ -74,10 +74,7 @@ class TextFormatter(TargetFormatter):
 
     printer = IRTextPrinter
     relations = RELATIONS
-
-    def set_of(self, kind: str, shape: ir.Shape, lo: ir.Expr | None = None,
-               hi: ir.Expr | None = None) -> str:
-        return text_set(kind, shape, lo, hi)
+    set_of = staticmethod(text_set)
 
     def words(self, text: str) -> str:
         return text

@@ -17,7 +17,7 @@ from sympy.printing.str import StrPrinter
 from dualize.model import expr as ir
 from dualize.model.functions import Function
 from dualize.render import structure as st
-from dualize.render.ir_layout import IRLayout, printed_terms
+from dualize.render.ir_layout import IRLayout
 from dualize.render.names import text_name
 
 RELATIONS: dict[str, str] = {
@@ -116,11 +116,6 @@ def _juxtapose(pieces: list[str]) -> str:
         out += " · " if piece[:1] in _DIGITS else " "
         out += piece
     return out
-
-
-def text_terms(expr: ir.Expr, **settings: Any) -> tuple[str, ...]:
-    """A sum's printed terms with their signs, for line breaks."""
-    return printed_terms(IRTextPrinter(settings), expr)
 
 
 def text_expr(expr: ir.Expr, **settings: Any) -> str:
