@@ -33,6 +33,10 @@ def as_quotient(node: ir.Scale) -> Quotient | None:
     top: list[ir.Expr] = []
     bottom: list[ir.Expr] = []
     rest: list[ir.Expr] = [] if arg.shape.is_scalar else [arg]
+    while any(isinstance(i, ir.Divide) and i.shape.is_scalar for i in items):
+        quotient = next(i for i in items if isinstance(i, ir.Divide) and i.shape.is_scalar)
+        items.remove(quotient)
+        items += [quotient.left, ir.Power(quotient.right, sympy.Integer(-1))]
     for item in items:
         base = reciprocal_of(item)
         if base is not None:
