@@ -116,8 +116,8 @@ def _grad_head(x: Symbol) -> Head:
 
 
 def _undetermined(x: Symbol) -> str:
-    return (f"{x.name} enters the Lagrangian linearly, so minimizing it does not determine "
-            f"{x.name}; recover it from the KKT conditions: complementary slackness on the "
+    return (f"${x.name}$ enters the Lagrangian linearly, so minimizing it does not determine "
+            f"${x.name}$; recover it from the KKT conditions: complementary slackness on the "
             "constraints whose multipliers are strictly positive (for a support vector with "
             "a multiplier strictly inside its bounds, that constraint holds with equality)")
 
@@ -148,7 +148,7 @@ def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
         return _definite(x, H, g, r)
     if kind == "nd" and not _has_multiplier(H):
         return Outcome(b.num(0), unbounded=True, steps=[Step(
-            "unbounded", f"The Lagrangian is a concave quadratic in {x.name} whatever the "
+            "unbounded", f"The Lagrangian is a concave quadratic in ${x.name}$ whatever the "
             "multipliers: its infimum is minus infinity, so the dual function is minus "
             "infinity everywhere.", block=x.name)])
     return _semidefinite(x, H, g, r, kind)
@@ -247,7 +247,7 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
         text = (f"The Lagrangian is a quadratic form in ${x.name}$ with Hessian $#H$ "
                 f"{_kind_text(kind)}; its infimum is 0 when the Hessian is positive "
                 "semidefinite and minus infinity otherwise.")
-        return Outcome(r, constraints, Recovery(x.name, None, f"{x.name} lies in the null space "
+        return Outcome(r, constraints, Recovery(x.name, None, f"${x.name}$ lies in the null space "
                        "of the Hessian at the optimal multipliers"), [Step(
                            "minimize-quadratic-semidefinite", text, block=x.name,
                            formulas=_said(H=H))])
@@ -316,7 +316,8 @@ def _schur(x: Symbol, H: Expr, g: Expr, r: Expr) -> Outcome:
             f"epigraph variable ${t.name}$ exactly when the Schur complement below is positive "
             "semidefinite, a linear matrix inequality.")
     var = DualVariable(t, "free", f"epigraph of the infimum over {x.name}")
-    return Outcome(t, [c], Recovery(x.name, None, f"{x.name} = -H^+ g plus any null-space "
+    return Outcome(t, [c], Recovery(x.name, None, f"${x.name}$ is the pseudo-inverse solution of "
+                   "stationarity plus any null-space "
                    "direction of H at the optimal multipliers"), [Step(
                        "minimize-quadratic-schur", text,
                        (Equation(lmi, "succeq", b.zeros(lmi.shape)),),  # type: ignore[arg-type]
@@ -340,7 +341,7 @@ def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome | None:
     if domain.kind in ("psd", "pd"):
         c = zero_constraint(b.neg(G), "preceq", f"the Lagrangian is linear in {X.name} over the "
                             "semidefinite cone: its coefficient must be positive semidefinite")
-        text = (f"The Lagrangian is linear in {X.name}, which ranges over the semidefinite cone; "
+        text = (f"The Lagrangian is linear in ${X.name}$, which ranges over the semidefinite cone; "
                 "it is bounded below only where its coefficient is positive semidefinite.")
         return Outcome(r, [c], Recovery(X.name, None, _undetermined(X)), [Step(
             "minimize-affine-cone", text, block=X.name)])

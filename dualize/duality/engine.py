@@ -254,7 +254,7 @@ def _kept_quadratic(v: Variable, polys: list[Quadratic]) -> Outcome:
 
 
 def _domain_why(v: Variable) -> str:
-    return (f"no rule minimizes this Lagrangian over the domain of {v.name} "
+    return (f"no rule minimizes this Lagrangian over the domain of ${v.name}$ "
             f"({v.domain.kind}), which is not dualized")
 
 
@@ -360,7 +360,7 @@ def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
     value = tidy(b.add(r, inf.value))
     rec = Recovery(x.name, tidy(inf.minimizer) if inf.minimizer is not None else None,
                    "" if inf.minimizer is not None else
-                   f"{x.name} is a subgradient point of the {_kind_name(atom)} term; recover it "
+                   f"${x.name}$ is a subgradient point of the {_kind_name(atom)} term; recover it "
                    "from the KKT conditions")
     step = Step("conjugate", f"Minimizing over ${x.name}$: {inf.statement}. The block "
                 "contributes $#value$ to the dual function.",
@@ -435,9 +435,9 @@ def _dual_sentence(dual: DualProblem) -> str:
 def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:
     notes = []
     if work.aux_blocks:
-        notes.append("Auxiliary variables were introduced (u = affine argument of a building "
-                     "block); the dual is that of this equivalent reformulation, with the same "
-                     "optimal value and the same strong-duality conditions.")
+        notes.append("Auxiliary variables were introduced, each equal to the affine argument of a "
+                     "building block; the dual is that of this equivalent reformulation, with the "
+                     "same optimal value and the same strong-duality conditions.")
     if work.problem.sense == "maximize":
         notes.append("For a maximization the dual is a minimization whose value bounds the "
                      "primal optimum from above.")

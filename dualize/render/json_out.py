@@ -177,12 +177,19 @@ def kkt_json(condition: Condition) -> dict[str, Any]:
     """A condition; ``text`` and ``latex`` are null when only the note states it."""
     stated = ({"text": None, "latex": None} if condition.equation is None
               else equation_json(condition.equation))
-    return {"group": condition.group, **stated, "note": condition.note}
+    return {"group": condition.group, **stated, "note": _sentence(condition.note)}
 
 
 def recovery_json(recovery: Recovery) -> dict[str, Any]:
     formula = None if recovery.formula is None else math_pair(recovery.formula)
-    return {"variable": recovery.variable, "formula": formula, "note": recovery.note}
+    return {"variable": recovery.variable, "formula": formula, "note": _sentence(recovery.note)}
+
+
+def _sentence(sentence: str) -> str:
+    """An engine sentence with its marked names and signs in Unicode (``$x$`` -> ``x``)."""
+    from dualize.render.text import TextFormatter
+
+    return TextFormatter().prose(sentence)
 
 
 def diagnostic_json(d: Diagnostic) -> dict[str, Any]:
@@ -209,7 +216,7 @@ def derivation_json(derivation: Derivation, analysis: Analysis | None = None) ->
         "steps": [step_json(s) for s in derivation.steps],
         "kkt": [kkt_json(c) for c in derivation.kkt],
         "recovery": [recovery_json(r) for r in derivation.recovery],
-        "notes": list(derivation.notes),
+        "notes": [_sentence(n) for n in derivation.notes],
         "diagnostics": [diagnostic_json(d) for d in diagnostics],
         "caution": CAUTION,
     }
