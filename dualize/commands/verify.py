@@ -1,6 +1,7 @@
 """``dualize verify``: the derived dual against the primal, numerically.
 
-Exit codes: 0 when every instance shows a zero gap, 1 for a gap or a failed
+Exit codes: 0 when every instance shows a zero gap (or every instance is a pair of
+infinite optima that weak duality predicts: ``infinite-agree``), 1 for a gap or a failed
 check (a weak-duality violation, or no instance with two comparable values),
 2 for bad input (an unreadable problem, instance or option).
 """
@@ -21,6 +22,7 @@ from dualize.commands.common import (
     user_errors,
 )
 from dualize.errors import DualizeError
+from dualize.numeric.verify_words import CONSISTENT
 
 if TYPE_CHECKING:
     from dualize.duality.result import Derivation
@@ -47,7 +49,8 @@ def verify_command(file: str, data: str | None, count: int | None, seed: int, di
 
     Without --data or --random, the instance beside FILE (same name, .json or
     .toml) is used if there is one, else 3 random instances.  Exit status: 0 for
-    a zero gap everywhere, 1 for a gap or a failed check, 2 for bad input.
+    a zero gap everywhere or for infinite optima that agree (primal infeasible and
+    dual unbounded, or the reverse), 1 for a gap or a failed check, 2 for bad input.
     """
     with user_errors():
         if data is not None and count is not None:
@@ -59,7 +62,7 @@ def verify_command(file: str, data: str | None, count: int | None, seed: int, di
         derivation = derive(problem)
         report = run_verify(derivation, _jobs(derivation, file, data, count, seed), sizes)
         emit(_render(report, derivation, fmt))
-    sys.exit(0 if report.verdict == "zero-gap" else 1)
+    sys.exit(0 if report.verdict in ("zero-gap", CONSISTENT) else 1)
 
 
 def _jobs(derivation: Derivation, file: str, data: str | None, count: int | None,

@@ -216,6 +216,9 @@ def _diag(e: Diag) -> list[Term]:
 
 
 def _hadamard(e: Hadamard) -> list[Term]:
+    relative = _relative_entropy_with_data(e)
+    if relative is not None:
+        return _expand(relative)
     entropy = _entropy_form(e)
     if entropy is not None:
         return [Term(sympy.Integer(1), (), (entropy,))]
@@ -226,6 +229,26 @@ def _hadamard(e: Hadamard) -> list[Term]:
         for tr in _expand(e.right):
             out.extend(_hadamard_terms(tl, tr, e))
     return out
+
+
+def _relative_entropy_with_data(e: Hadamard) -> Expr | None:
+    """a .* log(a ./ q) = a .* log(a) - a .* log(q) for data q known positive.
+
+    With q > 0, a ./ q > 0 exactly when a > 0, so both sides have one domain; the
+    relative entropy to fixed positive weights is the negative entropy plus a
+    linear term (the entropy stays one building block).
+    """
+    from dualize.duality.scalar import known_sign
+    from dualize.model.expr import symbols_of
+
+    for a, f in ((e.left, e.right), (e.right, e.left)):
+        if not (isinstance(f, Apply) and f.func == "log" and isinstance(f.arg, Divide)):
+            continue
+        top, q = f.arg.left, f.arg.right
+        data = all(s.role == "data" for s in symbols_of(q))
+        if tidy(top) == tidy(a) and data and known_sign(q) == "pos" and q.shape == a.shape:
+            return b.sub(Hadamard(a, Apply("log", a)), Hadamard(a, Apply("log", q)))
+    return None
 
 
 def _entropy_form(e: Hadamard) -> Expr | None:
@@ -344,6 +367,9 @@ def _clean_chain(chain: tuple[Expr, ...]) -> tuple[Expr, ...]:
     for f in chain:
         if isinstance(f, Identity) and (out or len(chain) > 1):
             continue
+        if out and b.inverse_pair(out[-1], f):
+            out.pop()
+            continue
         if out and isinstance(f, Ones) and _is_ones_row(out[-1]):
             out.pop()
             out.append(Number(f.n))
@@ -355,6 +381,8 @@ def _clean_chain(chain: tuple[Expr, ...]) -> tuple[Expr, ...]:
             out[-1] = b.transpose(f.arg)
             continue
         out.append(f)
+    if not out and chain and not _chain_shape_is_scalar(chain):
+        return (Identity(chain[0].shape.rows),)
     return tuple(out)
 
 

@@ -182,7 +182,13 @@ def kkt_json(condition: Condition) -> dict[str, Any]:
 
 def recovery_json(recovery: Recovery) -> dict[str, Any]:
     formula = None if recovery.formula is None else math_pair(recovery.formula)
-    return {"variable": recovery.variable, "formula": formula, "note": _sentence(recovery.note)}
+    out = {"variable": recovery.variable, "formula": formula,
+           "note": _sentence(recovery.note)}
+    if recovery.relations:
+        out["relations"] = [{"lhs": math_pair(e.lhs), "relation": e.relation,
+                             "rhs": math_pair(e.rhs)} for e in recovery.relations
+                            if not isinstance(e.lhs, Head)]
+    return out
 
 
 def _sentence(sentence: str) -> str:
