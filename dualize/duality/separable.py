@@ -121,10 +121,21 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
         return None
     total = b.sum_all(entries) if not entries.shape.is_scalar else entries
     constraints = tuple((lhs, _CLOSED.get(rel, rel), rhs) for lhs, rel, rhs in relations)
-    statement = (f"the term is separable, sum_i phi({var.name}_i) with phi(t) = {phi}; its "
-                 f"conjugate is phi*(s) = {shown} (derived by the "
-                 "Legendre transform and checked numerically)")
-    return Infimum(b.neg(total), constraints, minimizer, statement)
+    statement = ("the term $#term$ is separable, with $#phi$ entry by entry; its conjugate, "
+                 "derived by the Legendre transform and checked numerically, is $#conj$")
+    return Infimum(b.neg(total), constraints, minimizer, statement,
+                   _formulas(atom, phi, t, shown, conj.s))
+
+
+def _formulas(atom: Atom, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,
+              s: sympy.Symbol) -> tuple[tuple[str, object], ...]:
+    """The separable term, its entry function and its conjugate, for the step's sentence."""
+    from dualize.duality.atoms import atom_expression
+
+    entry, conjugate_of = sympy.Function("phi"), sympy.Function("phi^*")
+    return (("#term", atom_expression(atom)),
+            ("#phi", sympy.Eq(entry(t), phi, evaluate=False)),
+            ("#conj", sympy.Eq(conjugate_of(s), conj, evaluate=False)))
 
 
 Found = tuple[Conjugate, sympy.Expr] | None
