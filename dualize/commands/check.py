@@ -1,8 +1,8 @@
 """``dualize check``: a dual written by hand against the derived one.
 
-Exit codes: 0 only for the verdict "equivalent"; 1 for every other verdict
-(not tight, invalid, infeasible or unbounded, undecided); 2 for bad input
-(an unreadable problem, claim, instance or option).
+Exit codes: 0 for the verdicts "equivalent" and "tight, not attained"; 1 for every
+other verdict (not tight, invalid, infeasible or unbounded, undecided); 2 for bad
+input (an unreadable problem, claim, instance or option).
 """
 
 from __future__ import annotations

@@ -51,10 +51,26 @@ def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # typ
     return conjugate(phi, t, region)
 
 
+<<<<<<< HEAD
+def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
+    """Where phi is continuous; a function in pieces (Huber's) is continuous on R when
+    each piece is, which sympy's domain finder cannot tell."""
+    from sympy.calculus.util import continuous_domain
+
+    if isinstance(phi, sympy.Piecewise):
+        parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
+        return sympy.Intersection(*parts) if parts else sympy.S.Reals
+    return continuous_domain(phi, t, sympy.S.Reals)
+
+
+def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
+    """-sum(phi*(s)) with the domain of phi* as constraints on s."""
+=======
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
                       deadline: Deadline | None = None) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s; past ``deadline`` the
     conjugate is not attempted (``DeadlineExceeded`` names the step)."""
+>>>>>>> reliability
     interval = _interval(domain)
     if interval is None or atom.body is None:
         return None
@@ -81,10 +97,21 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
         return None
     total = b.sum_all(entries) if not entries.shape.is_scalar else entries
     constraints = tuple((lhs, _CLOSED.get(rel, rel), rhs) for lhs, rel, rhs in relations)
-    statement = (f"the term is separable, sum_i phi({var.name}_i) with phi(t) = {phi}; its "
-                 f"conjugate is phi*(s) = {shown} (derived by the "
-                 "Legendre transform and checked numerically)")
-    return Infimum(b.neg(total), constraints, minimizer, statement)
+    statement = ("the term $#term$ is separable, with $#phi$ entry by entry; its conjugate, "
+                 "derived by the Legendre transform and checked numerically, is $#conj$")
+    return Infimum(b.neg(total), constraints, minimizer, statement,
+                   _formulas(atom, phi, t, shown, conj.s))
+
+
+def _formulas(atom: Atom, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,
+              s: sympy.Symbol) -> tuple[tuple[str, object], ...]:
+    """The separable term, its entry function and its conjugate, for the step's sentence."""
+    from dualize.duality.atoms import atom_expression
+
+    entry, conjugate_of = sympy.Function("phi"), sympy.Function("phi^*")
+    return (("#term", atom_expression(atom)),
+            ("#phi", sympy.Eq(entry(t), phi, evaluate=False)),
+            ("#conj", sympy.Eq(conjugate_of(s), conj, evaluate=False)))
 
 
 Found = tuple[Conjugate, sympy.Expr] | None
@@ -99,9 +126,7 @@ def _conjugate_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) ->
 
 
 def _derive_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
-    from sympy.calculus.util import continuous_domain
-
-    region = continuous_domain(phi, t, sympy.S.Reals).intersect(interval)
+    region = _natural_domain(phi, t).intersect(interval)
     if not isinstance(region, sympy.Interval):
         return None
     try:

@@ -17,8 +17,10 @@ from dualize.model import rules as M
 from dualize.model.expr import (
     Apply,
     Diag,
+    Divide,
     Expr,
     Extremum,
+    Hadamard,
     Identity,
     Inverse,
     Norm,
@@ -30,7 +32,7 @@ from dualize.model.expr import (
     symbols_of,
     walk,
 )
-from dualize.model.functions import ABS, BY_SPELLING, Function
+from dualize.model.functions import ABS, BY_SPELLING, LOG, Function
 from dualize.model.notation import rewrite_for
 from dualize.model.scope import FUNCTIONS, ResolveError, Scope
 from dualize.syntax import ast
@@ -174,6 +176,14 @@ class ExprResolver:
         left, right = (self(a) for a in self._args(node, 2))
         left, right = ops.conform(left, right, f"in {kind}(...)", self.scope, node.span)
         return Extremum(kind, left, right, span=node.span)  # type: ignore[arg-type]
+
+    def _call_relent(self, node: ast.Call) -> Expr:
+        """relent(u, v) = u .* log(u ./ v), the relative entropy entry by entry (a shorthand:
+        it resolves to that expression, whose curvature and conjugate the later stages
+        know; S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 3.1.5)."""
+        left, right = (self(a) for a in self._args(node, 2))
+        left, right = ops.conform(left, right, "in relent(...)", self.scope, node.span)
+        return Hadamard(left, Apply(LOG.name, Divide(left, right)), span=node.span)
 
     def _call_diag(self, node: ast.Call) -> Expr:
         arg = self._one(node)

@@ -29,6 +29,7 @@ from dualize.model.ops import is_zero
 from dualize.model.problem import Constraint, Problem, Variable
 from dualize.render import summary as S
 from dualize.render.caution import CAUTION
+from dualize.render.structure import split_sign
 
 KKT_ORDER = ("stationarity", "primal feasibility", "dual feasibility", "complementary slackness")
 _DUAL_SET_RELATION = {"nonneg": ">=", "nonpos": "<=", "psd": "succeq"}
@@ -69,7 +70,7 @@ class Formatter(Protocol):
 
     def dual_set(self, variable: DualVariable) -> str: ...
 
-    def prose(self, text: str) -> str: ...
+    def prose(self, text: str, formulas: tuple[tuple[str, object], ...] = ()) -> str: ...
 
     def gradient(self, variable: str, of: str) -> str: ...
 
@@ -231,6 +232,40 @@ def _head_name(name: str, fmt: Formatter) -> str:
 
 
 def equation_line(equation: Equation, fmt: Formatter, note: str = "") -> Line:
+<<<<<<< HEAD
+    lhs, relation, rhs = equation.lhs, equation.relation, equation.rhs
+    if not isinstance(lhs, Head):
+        lhs, relation, rhs = signs_as_written(lhs, relation, rhs)
+    left = head_text(lhs, fmt) if isinstance(lhs, Head) else fmt.expr(lhs)
+    return Line(left, fmt.relation(relation), fmt.expr(rhs),
+                note=fmt.prose(note) if note else "", rhs_terms=fmt.terms(rhs))
+
+
+_FLIPPED = {"=": "=", "<=": ">=", ">=": "<=", "<": ">", ">": "<", "succeq": "preceq",
+            "preceq": "succeq"}
+
+
+def signs_as_written(lhs: ir.Expr, relation: str,
+                     rhs: ir.Expr) -> tuple[ir.Expr, str, ir.Expr]:
+    """``-nu >= -1`` as a paper writes it, ``nu <= 1``: both sides negated when the left
+    one opens with a minus sign and the right one is zero or negative too."""
+    if relation not in _FLIPPED:
+        return lhs, relation, rhs
+    negative, magnitude = split_sign(lhs)
+    if not negative:
+        return lhs, relation, rhs
+    if is_zero(rhs) or (isinstance(rhs, ir.Broadcast) and is_zero(rhs.arg)):
+        return magnitude, _FLIPPED[relation], rhs
+    rhs_negative, rhs_magnitude = split_sign(rhs)
+    if rhs_negative:
+        return magnitude, _FLIPPED[relation], rhs_magnitude
+    return lhs, relation, rhs
+
+
+def step_view(step: Step, fmt: Formatter) -> StepView:
+    return StepView(step.rule, fmt.prose(step.text, step.formulas),
+                    tuple(equation_line(e, fmt) for e in step.equations))
+=======
     lhs = equation.lhs
     left = head_text(lhs, fmt) if isinstance(lhs, Head) else S.short_expr(lhs, fmt)
     note = "; ".join(filter(None, (note, S.term_count_note(equation.rhs))))
@@ -242,12 +277,17 @@ def step_view(step: Step, fmt: Formatter) -> StepView:
     return StepView(step.rule, fmt.prose(step.text),
                     tuple(S.grouped([equation_line(e, fmt) for e in step.equations], fmt,
                                     _note_line)))
+>>>>>>> reliability
 
 
 def dual_view(dual: DualProblem, fmt: Formatter) -> ProblemView:
     """The dual with its constraints, then the sign conditions not already stated."""
+<<<<<<< HEAD
+    lines = [_dual_line(c.lhs, c.relation, c.rhs, c.label, fmt) for c in dual.constraints]
+=======
     lines = [Line(S.short_expr(c.lhs, fmt), fmt.relation(c.relation), S.short_expr(c.rhs, fmt),
                   tag=fmt.name(c.label) if c.label else "") for c in dual.constraints]
+>>>>>>> reliability
     lines += [_set_line(v, fmt) for v in dual.variables
               if v.set != "free" and not _stated(v, dual)]
     inner_op = "inf" if dual.sense == "maximize" else "sup"
@@ -256,6 +296,13 @@ def dual_view(dual: DualProblem, fmt: Formatter) -> ProblemView:
                        tuple(S.grouped(lines, fmt, _note_line)),
                        inner=tuple(_ranging(v, fmt) for v in dual.inner), inner_op=inner_op,
                        unbounded=dual.unbounded)
+
+
+def _dual_line(lhs: ir.Expr, relation: str, rhs: ir.Expr, label: str | None,
+               fmt: Formatter) -> Line:
+    lhs, relation, rhs = signs_as_written(lhs, relation, rhs)
+    return Line(fmt.expr(lhs), fmt.relation(relation), fmt.expr(rhs),
+                tag=fmt.name(label) if label else "")
 
 
 def _ranging(variable: Variable, fmt: Formatter) -> str:

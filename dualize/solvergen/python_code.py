@@ -288,6 +288,12 @@ class NumpyPrinter(Printer):
         return self._right_to_left(factors)
 
     def _right_to_left(self, factors: tuple[ir.Expr, ...]) -> str:
+        if len(factors) > 1 and isinstance(factors[-1], ir.Diag):
+            # a trailing diagonal scales columns: never an m x m np.diag
+            rest = factors[:-1]
+            acc = self._print(rest[0]) if len(rest) == 1 else self._right_to_left(rest)
+            shape = ir.Shape(rest[0].shape.rows, rest[-1].shape.cols)
+            return self._apply_right(acc, shape, factors[-1])
         acc, shape = self._print(factors[-1]), factors[-1].shape
         for factor in reversed(factors[:-1]):
             acc = self._apply_left(factor, acc, shape)

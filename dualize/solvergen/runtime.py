@@ -68,6 +68,8 @@ class Spec:
     restricted: object = None
     lagrangian: object = None
     lagrangian_domain: object = None
+    cones: object = None
+    hessian_diagonal: object = None
     caution: str = ""
 
 
