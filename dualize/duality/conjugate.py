@@ -262,6 +262,7 @@ def _solutions(dphi: sympy.Expr, t: sympy.Symbol, sign: int | None) -> list[symp
     sympy drops a root such as t = 1/(4 s^2) of -1/(2 sqrt t) = s when it cannot
     tell the sign of s, so the signed solve recovers it.
     """
+    _check_size(dphi, t)
     u = sympy.Dummy("u", positive=True)
     try:
         found = [e for e in sympy.solve(sympy.Eq(dphi, S), t) if isinstance(e, sympy.Expr)]
@@ -271,6 +272,20 @@ def _solutions(dphi: sympy.Expr, t: sympy.Symbol, sign: int | None) -> list[symp
     except (NotImplementedError, ValueError) as exc:
         raise NoClosedForm(f"cannot solve {dphi} = s for {t}") from exc
     return found
+
+
+MAX_EXPONENT = 64
+"""Largest numerator or denominator of a power of t that sympy is asked to solve with: a
+power such as t^1000000 makes it expand dense polynomials of that degree for minutes."""
+
+
+def _check_size(dphi: sympy.Expr, t: sympy.Symbol) -> None:
+    for power in dphi.atoms(sympy.Pow):
+        exponent = power.exp
+        if power.base.has(t) and exponent.is_Rational and max(
+                abs(exponent.p), exponent.q) > MAX_EXPONENT:
+            raise NoClosedForm(f"the exponent {exponent} is too large to solve phi'(t) = s "
+                               f"symbolically (at most {MAX_EXPONENT})")
 
 
 def _range_sign(lo: sympy.Expr, hi: sympy.Expr) -> int | None:

@@ -74,21 +74,23 @@ def entropy_atom(coef: Expr, u: Symbol) -> Atom:
 
 
 def pair_outcome(u: Symbol, v: Symbol, g: Expr, h: Expr, entries: Expr,
-                 constraints: tuple[tuple[Expr, str, Expr], ...], statement: str
+                 constraints: tuple[tuple[Expr, str, Expr], ...], statement: str,
+                 formulas: tuple[tuple[str, object], ...] = ()
                  ) -> tuple[list[DualConstraint], list[Step], list[Recovery]]:
     """The dual's condition h >= phi*(-g) (plus phi*'s own domain), the step and recovery."""
     cond = tidy(b.sub(h, entries))
     out = [DualConstraint(cond, ">=", b.zeros(cond.shape),
                           f"the relative entropy of {u.name} and {v.name} is bounded below "
                           "against the linear terms only where this holds")]
-    out += [DualConstraint(lhs, rel, rhs, statement) for lhs, rel, rhs in constraints]  # type: ignore[arg-type]
+    out += [DualConstraint(lhs, rel, rhs, "for the conjugate of w log w to be finite")  # type: ignore[arg-type]
+            for lhs, rel, rhs in constraints]
     text = (f"The relative entropy sum({u.name} .* log({u.name} ./ {v.name})) is the "
             f"perspective of phi(w) = w log w: with w = {u.name}/{v.name} entry by entry, the "
             f"infimum over {v.name} > 0 of {v.name} (h - phi*(-g)) is 0 where "
             "h >= phi*(-g) and minus infinity elsewhere (g, h the coefficients of "
             f"{u.name} and {v.name}; {statement}).")
     step = Step("minimize-perspective", text, (Equation(tidy(h), ">=", tidy(entries)),),
-                block=u.name)
+                block=u.name, formulas=formulas)
     note = (f"{u.name} and {v.name} enter through their relative entropy and linearly, so "
             "minimizing does not fix them; at the optimum the ratio "
             f"{u.name}/{v.name} is the minimizer of phi(w) + g w entry by entry, and "
