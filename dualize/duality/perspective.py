@@ -84,13 +84,14 @@ def pair_outcome(u: Symbol, v: Symbol, g: Expr, h: Expr, entries: Expr,
                           "against the linear terms only where this holds")]
     out += [DualConstraint(lhs, rel, rhs, "for the conjugate of w log w to be finite")  # type: ignore[arg-type]
             for lhs, rel, rhs in constraints]
-    text = (f"The relative entropy sum({u.name} .* log({u.name} ./ {v.name})) is the "
-            f"perspective of phi(w) = w log w: with w = {u.name}/{v.name} entry by entry, the "
-            f"infimum over {v.name} > 0 of {v.name} (h - phi*(-g)) is 0 where "
-            "h >= phi*(-g) and minus infinity elsewhere (g, h the coefficients of "
-            f"{u.name} and {v.name}; {statement}).")
-    step = Step("minimize-perspective", text, (Equation(tidy(h), ">=", tidy(entries)),),
-                block=u.name, formulas=formulas)
+    rel = b.sum_all(Hadamard(u, Apply("log", Divide(u, v))))
+    shown = Equation(tidy(h), ">=", tidy(entries))
+    text = (f"The relative entropy $#rel$ is the perspective of the entropy: with the ratio "
+            f"of ${u.name}$ to ${v.name}$ as the new variable entry by entry, the infimum "
+            f"over ${v.name}$ is 0 where $#cond$ and minus infinity elsewhere, because "
+            f"{statement}.")
+    step = Step("minimize-perspective", text, (shown,), block=u.name,
+                formulas=formulas + (("#rel", rel), ("#cond", shown)))
     note = (f"{u.name} and {v.name} enter through their relative entropy and linearly, so "
             "minimizing does not fix them; at the optimum the ratio "
             f"{u.name}/{v.name} is the minimizer of phi(w) + g w entry by entry, and "

@@ -74,16 +74,18 @@ def factored_value(x: Symbol, H: Expr, w: Expr, g: Expr, r: Expr,
     value = tidy(b.sub(r, b.scale(b.num(HALF), b.mul(b.transpose(g), w))))
     xstar = tidy(b.neg(w))
     why = ("positive definite" if kind == "pd" else
-           "positive semidefinite (possibly singular)")
-    text = (f"The Lagrangian is a convex quadratic in {x.name} with Hessian H {why}, and its "
-            f"linear coefficient is H w for the w shown: the gradient H ({x.name} + w) vanishes "
-            f"at {x.name} = -w, so the infimum is r - 1/2 w'H w, with no inverse (H H^+ H = H).")
+           "positive semidefinite, possibly singular")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ with Hessian $#H$ ({why}), "
+            "and its linear coefficient is that Hessian times $#w$: the gradient vanishes at "
+            "$#at$, so the infimum is $#value$, with no inverse to form.")
     note = _kernel_note(x, H, w)
     if kind != "pd":
         note = (note + "; " if note else "") + (f"every {x.name} = -w + d with H d = 0 "
                                                 "minimizes the Lagrangian as well")
     step = Step("minimize-quadratic-factored", text,
-                (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name)
+                (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name,
+                formulas=(("#H", H), ("#w", tidy(w)), ("#at", Equation(x, "=", xstar)),
+                          ("#value", value)))
     return value, step, Recovery(x.name, xstar, note)
 
 
@@ -120,15 +122,17 @@ def scaled_witness(x: Symbol, h: Expr, M: Expr, g: Expr, r: Expr) -> tuple[
                        f"the infimum over {x.name} is finite only where its linear coefficient "
                        f"lies in the range of {getattr(M, 'name', 'the data matrix')}: "
                        "g = -M v for some v")
-    text = (f"The Lagrangian is a convex quadratic in {x.name} with Hessian h M, h a "
-            "nonnegative multiplier expression and M semidefinite data: where g = -M v its "
-            f"infimum is r - v'M v/(2h), attained at {x.name} = v/h (a quadratic-over-linear "
-            "term, jointly concave), and minus infinity where g is outside the range of M.")
     var = DualVariable(v, "free", f"range witness of the quadratic in {x.name}")
     xstar = tidy(b.scale(b.power(h, sympy.Integer(-1)), v))
-    step = Step("minimize-quadratic-scaled-data", text,
-                (Equation(tidy(g), "=", tidy(b.neg(b.mul(M, v)))), Equation(x, "=", xstar)),
-                block=x.name)
+    cond = Equation(tidy(g), "=", tidy(b.neg(b.mul(M, v))))
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian is the "
+            "nonnegative multiplier expression $#h$ times the semidefinite data $#M$: where "
+            "$#cond$ its infimum is $#value$, attained at $#at$ (a quadratic-over-linear "
+            "term, jointly concave), and minus infinity where the linear coefficient leaves "
+            "the range of the data.")
+    step = Step("minimize-quadratic-scaled-data", text, (cond, Equation(x, "=", xstar)),
+                block=x.name, formulas=(("#h", tidy(h)), ("#M", M), ("#cond", cond),
+                                        ("#value", value), ("#at", Equation(x, "=", xstar))))
     rec = Recovery(x.name, xstar, "where h = 0 the quadratic term vanishes and "
                    f"{x.name} follows from complementary slackness instead")
     return value, c, var, step, rec
@@ -142,12 +146,14 @@ def scaled_definite(x: Symbol, h: Expr, M: Expr, g: Expr, r: Expr) -> tuple[
     Minv = b.inverse(M)
     value = tidy(b.sub(r, Divide(b.mul(b.transpose(g), Minv, g), tidy(b.scale(b.num(2), h)))))
     xstar = tidy(b.neg(b.scale(b.power(h, sympy.Integer(-1)), b.mul(Minv, g))))
-    text = (f"The Lagrangian is a convex quadratic in {x.name} with Hessian h M, h a "
-            "nonnegative multiplier expression and M positive definite data: where h > 0 the "
-            f"minimizer is {x.name} = -M^-1 g/h and the infimum r - g'M^-1 g/(2h), a "
-            "quadratic-over-linear term (the dual keeps the closure h >= 0).")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian is the "
+            "nonnegative multiplier expression $#h$ times the positive definite data $#M$: "
+            "where that expression is positive the minimizer is $#at$ and the infimum "
+            "$#value$, a quadratic-over-linear term (the dual keeps the closure where the "
+            "expression is zero).")
     step = Step("minimize-quadratic-scaled-data", text, (Equation(x, "=", xstar),),
-                block=x.name)
+                block=x.name, formulas=(("#h", tidy(h)), ("#M", M), ("#value", value),
+                                        ("#at", Equation(x, "=", xstar))))
     return value, step, Recovery(x.name, xstar)
 
 
@@ -179,15 +185,16 @@ def range_witness(x: Symbol, H: Expr, g: Expr, r: Expr) -> tuple[Expr, DualConst
     c = DualConstraint(lhs, "=", b.zeros(lhs.shape),
                        f"the infimum over {x.name} is finite only where its linear coefficient "
                        f"lies in the range of the Hessian: g = -H v for some v")
-    text = (f"The Lagrangian is a convex quadratic in {x.name} whose Hessian H is positive "
-            "semidefinite, possibly singular: its infimum is r - 1/2 g'H^+ g when g lies in "
-            "the range of H and minus infinity otherwise. Writing the range condition as "
-            f"g = -H v with a witness v, the value is r - 1/2 v'H v and {x.name} = v "
-            "minimizes the Lagrangian.")
+    cond = Equation(tidy(g), "=", tidy(b.neg(b.mul(H, v))))
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian $#H$ is positive "
+            "semidefinite, possibly singular: it is bounded below exactly when its linear "
+            "coefficient lies in the range of the Hessian (the pseudo-inverse rule), and "
+            "minus infinity otherwise. Written with a witness, the condition is $#cond$; "
+            "then the infimum is $#value$, attained at $#at$.")
     var = DualVariable(v, "free", f"range witness of the quadratic in {x.name}")
-    step = Step("minimize-quadratic-range", text,
-                (Equation(tidy(g), "=", tidy(b.neg(b.mul(H, v)))), Equation(x, "=", v)),
-                block=x.name)
+    step = Step("minimize-quadratic-range", text, (cond, Equation(x, "=", v)), block=x.name,
+                formulas=(("#H", H), ("#cond", cond), ("#value", value),
+                          ("#at", Equation(x, "=", v))))
     rec = Recovery(x.name, v, f"every {x.name} = {v.name} + d with H d = 0 minimizes the "
                    "Lagrangian; where H is singular, choose d so that the primal constraints and "
                    "complementary slackness hold")

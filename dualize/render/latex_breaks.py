@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import re
 
-DISPLAY_WIDTH = 64
+DISPLAY_WIDTH = 60
 """Visible characters of mathematics that fit on one displayed line."""
 
 INLINE_WIDTH = 36
@@ -24,10 +24,12 @@ CONTINUATION = r"\quad "
 
 def visible_width(latex: str) -> int:
     """A rough count of the characters a formula shows: commands count one, markup none."""
+    spaced = len(re.findall(r"(?<=\s)[-+=](?=\s)|\\(odot|oslash|cdot|leq|geq|succeq|preceq)"
+                            r"(?![A-Za-z])", latex))  # binary operators and their spacing
     shown = re.sub(r"\\(left|right|quad|,|;|!)", "", latex)
     shown = re.sub(r"\\(mathbf|mathrm|operatorname|text|tfrac|frac)", "", shown)
     shown = re.sub(r"\\[A-Za-z]+", "x", shown)
-    return len(re.sub(r"[{}^_\s]", "", shown))
+    return len(re.sub(r"[{}^_\s]", "", shown)) + spaced
 
 
 _OPEN, _CLOSE = "({[", ")}]"
