@@ -1,15 +1,28 @@
-"""The library entry points behind the command line."""
+"""The library's one way in: each job of the command line as one documented function.
+
+The commands in ``dualize.commands`` parse options, call one function here and
+format its result; a notebook or a script calls the same functions.  Results
+are data objects that show themselves in a notebook (``_repr_latex_``,
+``_repr_markdown_``).  This module sits above every stage, so it is the place
+where what a lower stage needs from a higher one is passed in (the numeric
+evaluator to the analysis, the printers to the derivation's display).
+"""
 
 from __future__ import annotations
 
 import os
 import tempfile
+from dataclasses import dataclass, fields
 from pathlib import Path
+from typing import TYPE_CHECKING, Any
 
 from dualize.diagnostics import Diagnostic
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model.problem import Problem
+
+if TYPE_CHECKING:
+    from dualize.analysis.report import Analysis
 
 
 class ProblemError(DualizeError):
@@ -40,10 +53,51 @@ def load_problem(source: str | Path | Problem) -> Problem:
     return loaded.problem
 
 
-def derive(source: str | Path | Problem) -> Derivation:
+def analyze(problem: Problem, instance: Any | None = None) -> Analysis:
+    """Convexity, constraint classes, the strong-duality verdict and the lint findings.
+
+    ``instance`` (an ``Instance`` or a mapping name -> value) decides Slater's
+    condition on numbers; the numeric evaluator is handed to the analysis here.
+    """
+    from dualize.analysis import analyze as _analyze
+
+    if instance is None:
+        return _analyze(problem)
+    from dualize.numeric.evaluate import evaluate_2d
+
+    return _analyze(problem, instance, evaluate_2d)
+
+
+@dataclass(frozen=True)
+class DerivedDual(Derivation):
+    """A derivation that shows itself in a notebook: the primal and its dual in display
+    math (LaTeX) or as a Markdown document.  ``analysis`` is the strong-duality verdict
+    and the lint findings, when they were asked for."""
+
+    analysis: Analysis | None = None
+
+    def _repr_latex_(self) -> str:
+        from dualize.render.latex import repr_latex
+
+        return repr_latex(self)
+
+    def _repr_markdown_(self) -> str:
+        from dualize.render.markdown import repr_markdown
+
+        return repr_markdown(self)
+
+
+def shown(derivation: Derivation, analysis: Analysis | None = None) -> DerivedDual:
+    """``derivation`` with its notebook display (and ``analysis`` beside it)."""
+    return DerivedDual(*(getattr(derivation, f.name) for f in fields(Derivation)),
+                       analysis=analysis)
+
+
+def derive(source: str | Path | Problem) -> DerivedDual:
+    """The dual of a problem given as text, a path to a ``.prob`` file, or resolved."""
     from dualize.duality import derive as _derive
 
-    return _derive(load_problem(source))
+    return shown(_derive(load_problem(source)))
 
 
 def write_atomically(path: str, text: str) -> None:

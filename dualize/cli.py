@@ -97,7 +97,7 @@ def _print_lint(report: LintReport, fmt: str) -> None:
 
     diagnostics = report.diagnostics
     if fmt == "sarif":
-        from dualize.diagnostics import rule_table
+        from dualize.lint import rule_table
         from dualize.render.sarif import sarif_log
 
         log = sarif_log(diagnostics, rule_table(), _version())

@@ -129,7 +129,7 @@ def configured(select: Iterable[str] = (), ignore: Iterable[str] = (),
                fail_on: str | None = None, start: Path | None = None) -> LintConfig:
     """The nearest pyproject.toml's settings with command-line options on top, checked
     against the rule table."""
-    from dualize.diagnostics import rule_table
+    from dualize.lint import rule_table
 
     config = with_options(load_config(start), select, ignore, fail_on)
     check_selectors(config, rule_table())

@@ -2,11 +2,9 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping
-from typing import Any
-
 from dualize.analysis import rules as R
 from dualize.analysis.convexity import Convexity, Part
+from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
 from dualize.analysis.structure import structural_findings
 from dualize.diagnostics import Diagnostic, make
@@ -16,7 +14,7 @@ _SET_TEXT = {"integer": "the integers", "binary": "{0,1}"}
 
 
 def diagnostics_for(problem: Problem, conv: Convexity, verdict: Verdict,
-                    instance: Mapping[str, Any] | None = None) -> tuple[Diagnostic, ...]:
+                    instance: Measured | None = None) -> tuple[Diagnostic, ...]:
     """Every analysis finding for ``problem``, in source order (then by rule id)."""
     found = list(_objective(problem, conv.objective))
     spans = {c.label: c.span for c in problem.constraints}

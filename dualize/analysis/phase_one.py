@@ -12,16 +12,15 @@ none exists.  An infeasible affine part is decided exactly by linprog.
 
 from __future__ import annotations
 
-from collections.abc import Callable, Mapping
+from collections.abc import Callable
 from typing import Any
 
 import numpy as np
 import sympy
 
-from dualize.analysis.convexity import Convexity
 from dualize.analysis.layout import Layout, SizeUnknown, layout_for
+from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
-from dualize.analysis.slater import STRICT_CLASSES
 from dualize.model import expr as E
 from dualize.model.problem import Problem
 
@@ -33,12 +32,14 @@ REFINED = ("the refined Slater condition holds (Boyd and Vandenberghe, 2004, "
 Row = Callable[[np.ndarray], np.ndarray]
 
 
-def numeric_verdict(problem: Problem, conv: Convexity, instance: Mapping[str, Any]) -> Verdict:
+def numeric_verdict(problem: Problem, strict_labels: frozenset[str],
+                    instance: Measured) -> Verdict:
+    """The verdict on an instance: a point found that holds the constraints labelled
+    ``strict_labels`` strictly (and the others) shows Slater's condition."""
     try:
         lay = layout_for(problem, instance)
     except SizeUnknown as exc:
         return Verdict("unknown", f"the instance does not fix the size {exc}")
-    strict_labels = {p.label for p in conv.constraints if p.kind in STRICT_CLASSES}
     rows = _Rows(problem, lay, strict_labels)
     state, point = rows.affine_point()
     if state == "infeasible":
@@ -117,10 +118,8 @@ class _Rows:
             (self.strict if strict else self.affine).append(self._entries(fn))
 
     def _entries(self, fn: E.Expr) -> Row:
-        from dualize.numeric.evaluate import evaluate_2d
-
         lay = self.lay
-        return lambda z: evaluate_2d(fn, lay.unpack(z), lay.dims).reshape(-1)
+        return lambda z: lay.value(fn, lay.unpack(z)).reshape(-1)
 
     def _eig(self, fn: E.Expr, largest: bool) -> Row:
         entries = self._entries(fn)
@@ -160,8 +159,6 @@ class _Rows:
 def _bounds(problem: Problem, lay: Layout, rows: _Rows) -> list[tuple[float | None, float | None]]:
     """Bounds of each entry of z from polyhedral domains; open and PSD domains become
     strict rows (a Slater point lies in the relative interior of the domain)."""
-    from dualize.numeric.evaluate import evaluate
-
     out: list[tuple[float | None, float | None]] = []
     at = 0
     for v, (r, c) in zip(problem.variables, lay.shapes, strict=True):
@@ -170,8 +167,8 @@ def _bounds(problem: Problem, lay: Layout, rows: _Rows) -> list[tuple[float | No
         if kind in ("nonneg",):
             lo = 0.0
         if kind == "box":
-            lo = float(evaluate(v.domain.lo, lay.values, lay.dims))
-            hi = float(evaluate(v.domain.hi, lay.values, lay.dims))
+            lo = float(lay.value(v.domain.lo, lay.values).item())
+            hi = float(lay.value(v.domain.hi, lay.values).item())
         if kind == "pos":
             rows.strict.append(_negated_slice(at, k))
             rows.start[at:at + k] = 1.0

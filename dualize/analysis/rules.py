@@ -1,6 +1,6 @@
 """The analysis stage's kinds of finding: convexity, strong duality, modelling slips.
 
-Each kind is registered once, with a stable id that names the defect, a default
+Each kind is listed once (in ``KINDS``), with a stable id that names the defect, a default
 severity, a message template and the reason a user should care.  Ids share
 prefixes by family (``nonconvex-``, ``slater-``, ``unused-``) so that
 ``--select nonconvex`` picks a whole family.
@@ -8,11 +8,15 @@ prefixes by family (``nonconvex-``, ``slater-``, ``unused-``) so that
 
 from __future__ import annotations
 
-from dualize.diagnostics import RuleKind, register
+from dualize.diagnostics import RuleKind
+
+_KINDS: list[RuleKind] = []  # filled by this module alone, in order
 
 
 def _kind(id: str, severity: str, template: str, why: str) -> RuleKind:
-    return register(RuleKind(id, severity, template, why, "analysis"))  # type: ignore[arg-type]
+    kind = RuleKind(id, severity, template, why, "analysis")  # type: ignore[arg-type]
+    _KINDS.append(kind)
+    return kind
 
 
 NONCONVEX_OBJECTIVE = _kind(
@@ -116,3 +120,5 @@ DEPENDENT_EQUALITIES = _kind(
     "Dependent equality rows leave the equality multipliers non-unique and make the dual "
     "degenerate; drop the redundant rows or expect a family of dual optima.",
 )
+
+KINDS: tuple[RuleKind, ...] = tuple(_KINDS)

@@ -105,7 +105,7 @@ def instance_list(derivation: Derivation, given: Sequence[Instance], seeds: Sequ
     """The given instances, then one random instance per seed, made as ``verify`` makes
     them, so that a claim is tested where the primal and the true dual are finite."""
     from dualize.numeric.dual_data import make_dual_feasible
-    from dualize.numeric.instance import random_instance
+    from dualize.numeric.random_data import random_instance
 
     out: list[tuple[Instance, int | None]] = [(inst, None) for inst in given]
     for seed in seeds:

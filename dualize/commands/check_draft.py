@@ -24,11 +24,11 @@ def check_draft_command(draft: str, name_map: str, count: int, fmt: str) -> None
     """Check each dual marked '% dualize: claim for FILE.prob' in DRAFT (.tex) against
     the dual derived from its problem file; one verdict per claim, with its line."""
     from dualize.commands.common import emit, user_errors
-    from dualize.paper.draft import _read, check_draft
+    from dualize.paper.draft import check_draft, read_draft
     from dualize.paper.locate import parse_map
 
     with user_errors():
-        checks = check_draft(_read(draft), draft, name_map=parse_map(name_map),
+        checks = check_draft(read_draft(draft), draft, name_map=parse_map(name_map),
                              seeds=tuple(range(count)))
         rows = [_row(c) for c in checks]
         emit(json.dumps({"draft": draft, "claims": rows}, indent=2) if fmt == "json"

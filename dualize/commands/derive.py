@@ -22,8 +22,7 @@ from dualize.errors import DualizeError
 def derive_command(file: str, fmt: str, output: str | None, standalone: bool,
                    data: str | None) -> None:
     """Derive the Lagrange dual of a problem file, with its steps, KKT and recovery."""
-    from dualize.analysis import analyze
-    from dualize.api import render, write_atomically
+    from dualize.api import analyze, render, write_atomically
     from dualize.commands.common import load_problem, user_errors
     from dualize.duality import derive
 

@@ -85,7 +85,7 @@ def run_verify(derivation: Derivation, jobs: list[tuple[str, Any]],
 
 def _random(derivation: Derivation, dims: dict[str, int] | None, seed: int) -> Instance:
     from dualize.numeric.dual_data import make_dual_feasible
-    from dualize.numeric.instance import random_instance
+    from dualize.numeric.random_data import random_instance
 
     return make_dual_feasible(derivation, random_instance(derivation.problem, dims, seed), seed)
 

@@ -292,9 +292,9 @@ def _square_poly(a: Atom, x: Symbol) -> Quadratic:
 
 
 def _sum(parts: list[Quadratic | None]) -> Quadratic | None:
-    from dualize.duality.linear import _quad_sum
+    from dualize.duality.linear import quad_sum
 
-    return _quad_sum(parts) if parts else Quadratic(None, None, None)
+    return quad_sum(parts) if parts else Quadratic(None, None, None)
 
 
 def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome | None:

@@ -11,8 +11,8 @@ import numpy as np
 import pytest
 from analysis_fixtures import load_problem
 
-from dualize.analysis import analyze
-from dualize.diagnostics import rule_table
+from dualize.api import analyze
+from dualize.lint import rule_table
 
 TRIGGERS = [
     # minimizing a concave function is not a convex problem (section 4.2.1)

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from analysis_fixtures import load_problem
 
-from dualize.analysis import analyze
+from dualize.api import analyze
 
 
 def verdict(text: str, instance: object = None) -> tuple[str, str, object]:

@@ -28,7 +28,8 @@ from scipy.special import logsumexp
 
 from dualize.model import expr as ir
 from dualize.model.problem import Problem
-from dualize.numeric.instance import Instance, random_instance
+from dualize.numeric.instance import Instance
+from dualize.numeric.random_data import random_instance
 from dualize.numeric.reference import MAX_BINARY_ENTRIES, solve_primal, to_cvxpy
 
 

@@ -27,7 +27,7 @@ from test_numeric_reference import bounded_lp_instance
 from dualize.duality.result import Derivation, DualConstraint, DualProblem, DualVariable
 from dualize.model import expr as ir
 from dualize.model.problem import Problem
-from dualize.numeric.instance import random_instance
+from dualize.numeric.random_data import random_instance
 from dualize.numeric.reference import solve_dual, solve_primal
 from dualize.numeric.verify import verify, weak_duality_samples
 
