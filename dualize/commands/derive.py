@@ -7,7 +7,7 @@ import sys
 
 import click
 
-from dualize.errors import DualizeError
+from dualize.commands.common import reports_user_errors
 
 
 @click.command("derive")
@@ -19,31 +19,16 @@ from dualize.errors import DualizeError
 @click.option("--standalone", is_flag=True, help="LaTeX: a complete document for pdflatex.")
 @click.option("--data", type=click.Path(), default=None,
               help="An instance (JSON or TOML): strong duality is decided on these values.")
+@reports_user_errors
 def derive_command(file: str, fmt: str, output: str | None, standalone: bool,
                    data: str | None) -> None:
     """Derive the Lagrange dual of a problem file, with its steps, KKT and recovery."""
-    from dualize.api import analyze, render, write_atomically
-    from dualize.commands.common import load_problem, user_errors
-    from dualize.duality import derive
+    from dualize import api
 
-    with user_errors():
-        if not os.path.isfile(file):
-            raise DualizeError(f"{file}: no such problem file", exit_code=2)
-        problem = load_problem(file, "nothing was derived")
-        derivation = derive(problem)
-        values = _instance_values(data, problem)
-        analysis = analyze(problem, values)
-        color = output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
-        text = render(derivation, fmt, analysis, standalone=standalone, color=color)
-        if output is None:
-            click.echo(text, nl=not text.endswith("\n"))
-        else:
-            write_atomically(output, text)
-
-
-def _instance_values(data: str | None, problem):  # type: ignore[no-untyped-def]
-    if data is None:
-        return None
-    from dualize.numeric.instance import read_instance
-
-    return read_instance(data, problem).values
+    derived = api.derive(file, data=data, with_analysis=True)
+    color = output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
+    text = derived.render(fmt, standalone=standalone, color=color)
+    if output is None:
+        click.echo(text, nl=not text.endswith("\n"))
+    else:
+        api.write_atomically(output, text)

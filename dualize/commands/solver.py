@@ -2,27 +2,19 @@
 
 from __future__ import annotations
 
-import os
-
 import click
 
-from dualize.errors import DualizeError
+from dualize.commands.common import reports_user_errors
 
 
 @click.command("solver")
 @click.argument("file", type=click.Path())
 @click.option("-o", "--output", type=click.Path(), required=True,
               help="The Python module to write (atomically).")
+@reports_user_errors
 def solver_command(file: str, output: str) -> None:
     """Write a Python module (numpy and scipy only) that solves the dual of FILE on an
     instance, recovers the primal solution and reports the duality gap."""
-    from dualize.api import write_atomically
-    from dualize.commands.common import load_problem, user_errors
-    from dualize.duality import derive
-    from dualize.render.solver import render_solver
+    from dualize import api
 
-    with user_errors():
-        if not os.path.isfile(file):
-            raise DualizeError(f"{file}: no such problem file", exit_code=2)
-        problem = load_problem(file, "no solver was written")
-        write_atomically(output, render_solver(derive(problem)))
+    api.write_atomically(output, api.generate_solver(file).code)

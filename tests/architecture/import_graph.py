@@ -31,6 +31,7 @@ LAYERS: tuple[tuple[str, ...], ...] = (
     ("paper",),
     ("lint",),
     ("lint_config",),
+    ("results",),
     ("api",),
     ("commands", "lsp"),
     ("cli",),
