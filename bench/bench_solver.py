@@ -33,7 +33,7 @@ def instance(m: int, n: int, seed: int = 0) -> dict:
 def generated_module():
     from dualize.duality import derive
     from dualize.model import load
-    from dualize.render.solver import render_solver
+    from dualize.solvergen.solver import render_solver
 
     text = (ROOT / "examples" / "parts_soft_margin.prob").read_text(encoding="utf-8")
     path = Path(tempfile.mkdtemp()) / "soft_margin_solver.py"

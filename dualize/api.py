@@ -297,7 +297,7 @@ def generate_solver(source: str | Path | Problem) -> GeneratedSolver:
     """A standalone Python module (numpy and scipy only) that solves the dual on an
     instance, recovers the primal solution and reports the duality gap."""
     from dualize.duality import derive as _derive
-    from dualize.render.solver import render_solver
+    from dualize.solvergen.solver import render_solver
 
     return GeneratedSolver(render_solver(_derive(load_problem(source, "no solver was written"))))
 

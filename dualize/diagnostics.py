@@ -28,6 +28,7 @@ class RuleKind:
     template: str
     why: str
     stage: Literal["syntax", "model", "analysis", "instance", "paper"]
+    aliases: tuple[str, ...] = ()  # former ids, still accepted by --select and --ignore
 
 
 @dataclass(frozen=True)
@@ -45,9 +46,12 @@ def table_of(*groups: Iterable[RuleKind]) -> dict[str, RuleKind]:
     """The kinds of ``groups`` by id, sorted; an id given twice is an error, because a
     finding must name exactly one kind."""
     table: dict[str, RuleKind] = {}
+    taken: set[str] = set()
     for kind in (k for group in groups for k in group):
-        if kind.id in table:
-            raise ValueError(f"rule id registered twice: {kind.id}")
+        for name in (kind.id, *kind.aliases):
+            if name in taken:
+                raise ValueError(f"rule id registered twice: {name}")
+            taken.add(name)
         table[kind.id] = kind
     return dict(sorted(table.items()))
 

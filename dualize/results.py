@@ -117,17 +117,17 @@ class Verification:
         return self.report.verdict == "zero-gap"
 
     def text(self) -> str:
-        from dualize.render.check_report import verify_text
+        from dualize.checking.check_report import verify_text
 
         return verify_text(self.report, self.convex, self.derivation.problem.sense)
 
     def json(self) -> dict[str, Any]:
-        from dualize.render.check_report import verify_dict
+        from dualize.checking.check_report import verify_dict
 
         return verify_dict(self.report, self.convex)
 
     def _repr_markdown_(self) -> str:
-        from dualize.render.check_report import verify_markdown
+        from dualize.checking.check_report import verify_markdown
 
         return verify_markdown(self.report, self.convex, self.derivation.problem.sense)
 
@@ -150,17 +150,17 @@ class CheckVerdict:
         return self.report.verdict == "equivalent"
 
     def text(self) -> str:
-        from dualize.render.check_report import check_text
+        from dualize.checking.check_report import check_text
 
         return check_text(self.report)
 
     def json(self) -> dict[str, Any]:
-        from dualize.render.check_report import check_dict
+        from dualize.checking.check_report import check_dict
 
         return check_dict(self.report)
 
     def _repr_markdown_(self) -> str:
-        from dualize.render.check_report import check_markdown
+        from dualize.checking.check_report import check_markdown
 
         return check_markdown(self.report)
 

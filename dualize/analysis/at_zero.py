@@ -13,6 +13,7 @@ import sympy
 
 from dualize.analysis import sign_rules as S
 from dualize.model import expr as E
+from dualize.model.functions import lookup
 
 
 class Undefined(Exception):
@@ -54,13 +55,17 @@ def _fold(node: E.Expr, names: frozenset[str]) -> E.Expr:
 
 
 def _apply_zero(node: E.Apply) -> E.Expr:
-    if node.func == "log":
-        raise Undefined("log(0)")
-    if node.func == "exp":
+    """f(0) from the function table: 0 and 1 fold, an undefined value stops the candidate."""
+    value = lookup(node.func).to_sympy(sympy.Integer(0))
+    if value.has(sympy.zoo, sympy.nan) or value.is_finite is not True:
+        raise Undefined(f"{node.func}(0)")
+    if value == 0:
+        return _zero(node)  # abs(0) = sqrt(0) = 0
+    if value == 1:
         one = E.Number(sympy.Integer(1)) if node.shape.is_scalar else E.Ones(node.shape.rows)
         return one if node.shape.is_scalar or node.shape.cols == 1 else E.Broadcast(
             E.Number(sympy.Integer(1)), node.shape)
-    return _zero(node)  # abs(0) = sqrt(0) = 0
+    return E.Apply(node.func, _zero(node.arg))
 
 
 def _rebuild(node: E.Expr, kids: list[E.Expr]) -> E.Expr:

@@ -40,9 +40,9 @@ def _objective(problem: Problem, obj: Part) -> list[Diagnostic]:
         return [make(R.NONCONVEX_OBJECTIVE, problem.path, span, wanted=wanted, found=found,
                      detail=detail, hint=_objective_hint(problem))]
     if obj.kind == "unknown":
-        return [make(R.CURVATURE_UNKNOWN, problem.path, span, where="the objective",
-                     detail="no composition rule applies and the Hessian test is out of "
-                     "reach (symbolic sizes or sign)")]
+        return [make(R.CONVEXITY_UNDECIDED, problem.path, span, where="the objective",
+                     detail="no rule of the convexity calculus applies and the Hessian "
+                     "test is out of reach (symbolic sizes or sign)")]
     return []
 
 
@@ -69,9 +69,9 @@ def _constraint(problem: Problem, part: Part, span: object) -> list[Diagnostic]:
         return [make(R.NONAFFINE_MATRIX_INEQUALITY, path, span, label=label,
                      found=_found(part.curvature))]
     if part.kind in ("unknown-inequality", "unknown-equality"):
-        return [make(R.CURVATURE_UNKNOWN, path, span, where=f"constraint '{label}'",
-                     detail="no composition rule applies and the Hessian test is out of "
-                     "reach")]
+        return [make(R.CONVEXITY_UNDECIDED, path, span, where=f"constraint '{label}'",
+                     detail="no rule of the convexity calculus applies and the Hessian "
+                     "test is out of reach")]
     if part.kind == "data-only":
         return [make(R.CONSTANT_CONSTRAINT, path, span, label=label,
                      hint="move a condition on the data into the data's declared set")]

@@ -16,6 +16,7 @@ from collections.abc import Mapping
 from dualize.analysis import sign_rules as S
 from dualize.analysis.forms import gram_middle, is_log_sum_exp, pull_scalars, transpose_of
 from dualize.model import expr as E
+from dualize.model.functions import LOG, lookup
 
 Curvature = str  # "constant" | "affine" | "convex" | "concave" | "unknown"
 _RANK = {"constant": 0, "affine": 1}
@@ -182,15 +183,12 @@ class _Rules:
 
     def _apply(self, node: E.Apply) -> Curvature:
         inner = self.of(node.arg)
-        if node.func == "exp":
-            return compose("convex", "inc", inner)
-        if node.func == "log":
-            if is_log_sum_exp(node) is not None:
-                return compose("convex", "inc", self.of(is_log_sum_exp(node)))
-            return compose("concave", "inc", inner)
-        if node.func == "sqrt":
-            return compose("concave", "inc", inner)
-        return _abs_rule(inner, self.sign(node.arg))
+        if is_log_sum_exp(node) is not None:
+            return compose("convex", "inc", self.of(is_log_sum_exp(node)))
+        function = lookup(node.func)
+        if function.monotone == "by-sign":
+            return _abs_rule(inner, self.sign(node.arg))
+        return compose(function.curvature, function.monotone, inner)
 
     def _extremum(self, node: E.Extremum) -> Curvature:
         a, b = self.of(node.left), self.of(node.right)
@@ -240,6 +238,7 @@ def _power_rule(p: object, inner: Curvature, base_sign: S.Sign) -> Curvature:
 
 
 def _abs_rule(inner: Curvature, arg_sign: S.Sign) -> Curvature:
+    """A convex function least at 0, increasing for t >= 0 and decreasing for t <= 0."""
     if inner in ("constant", "affine"):
         return "constant" if inner == "constant" else "convex"
     if arg_sign in S.NONNEG:
@@ -272,7 +271,7 @@ def _is_entropy(node: E.Hadamard, rules: _Rules) -> bool:
     """e .* log(e) with e affine: the negative entropy, convex (Boyd and Vandenberghe,
     2004, section 3.1.5)."""
     for a, b in ((node.left, node.right), (node.right, node.left)):
-        if isinstance(b, E.Apply) and b.func == "log" and b.arg == a:
+        if isinstance(b, E.Apply) and b.func == LOG.name and b.arg == a:
             return rules.of(a) == "affine"
     return False
 

@@ -7,6 +7,7 @@ blocks"), so the analysis finds them by shape.
 from __future__ import annotations
 
 from dualize.model import expr as E
+from dualize.model.functions import EXP
 
 
 def transpose_of(node: E.Expr) -> E.Expr:
@@ -88,9 +89,9 @@ def _same(a: E.Expr, b: E.Expr) -> bool:
 def is_log_sum_exp(node: E.Apply) -> E.Expr | None:
     """For ``log(sum(exp(e)))`` (or ``log(exp(a) + exp(b) + ...)``) the argument, else None."""
     arg = node.arg
-    if isinstance(arg, E.SumAll) and isinstance(arg.arg, E.Apply) and arg.arg.func == "exp":
+    if isinstance(arg, E.SumAll) and isinstance(arg.arg, E.Apply) and arg.arg.func == EXP.name:
         return arg.arg.arg
-    if isinstance(arg, E.Add) and all(isinstance(t, E.Apply) and t.func == "exp"
+    if isinstance(arg, E.Add) and all(isinstance(t, E.Apply) and t.func == EXP.name
                                       for t in arg.terms):
         return E.Add(tuple(t.arg for t in arg.terms))  # curvature of the sum decides
     return None

@@ -22,6 +22,7 @@ from dualize.analysis.layout import Layout, SizeUnknown, layout_for
 from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
 from dualize.model import expr as E
+from dualize.model.functions import lookup
 from dualize.model.problem import Problem
 
 TOL = 1e-7
@@ -189,7 +190,7 @@ def _open_domain_arguments(problem: Problem) -> list[E.Expr]:
     found: dict[E.Expr, None] = {}
     for node in (n for e in exprs for n in E.walk(e)):
         arg = None
-        if isinstance(node, E.Apply) and node.func in ("log", "sqrt"):
+        if isinstance(node, E.Apply) and lookup(node.func).keep_positive:
             arg = node.arg
         elif isinstance(node, E.Power) and (node.exponent < 0 or node.exponent.q != 1):
             arg = node.base

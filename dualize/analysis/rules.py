@@ -13,8 +13,9 @@ from dualize.diagnostics import RuleKind
 _KINDS: list[RuleKind] = []  # filled by this module alone, in order
 
 
-def _kind(id: str, severity: str, template: str, why: str) -> RuleKind:
-    kind = RuleKind(id, severity, template, why, "analysis")  # type: ignore[arg-type]
+def _kind(id: str, severity: str, template: str, why: str,
+          aliases: tuple[str, ...] = ()) -> RuleKind:
+    kind = RuleKind(id, severity, template, why, "analysis", aliases)  # type: ignore[arg-type]
     _KINDS.append(kind)
     return kind
 
@@ -45,11 +46,13 @@ NONAFFINE_MATRIX_INEQUALITY = _kind(
     "Semidefinite constraints are convex when the matrix is affine in the variables (a "
     "linear matrix inequality); otherwise the analysis cannot vouch for convexity.",
 )
-CURVATURE_UNKNOWN = _kind(
-    "curvature-unknown", "info",
-    "the curvature of {where} could not be decided: {detail}",
-    "The composition rules and the Hessian test both failed to decide; the tool says so "
-    "rather than guess, and the strong-duality verdict stays unknown.",
+CONVEXITY_UNDECIDED = _kind(
+    "convexity-undecided", "info",
+    "the convexity of {where} could not be decided: {detail}",
+    "Neither the convexity calculus (sums, scalings, maxima and compositions that keep "
+    "convexity) nor the Hessian test could decide; the tool says so rather than guess, "
+    "and the strong-duality verdict stays unknown.",
+    aliases=("curvature-unknown",),
 )
 INTEGER_VARIABLES = _kind(
     "integer-variables", "warning",

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 import sympy
 
 from dualize.model import expr as E
+from dualize.model.functions import lookup
 
 MAX_ENTRIES = 36
 
@@ -148,8 +149,7 @@ class _Convert:
         return _elementwise(self.of(node.base), lambda a: a ** p)
 
     def _apply(self, node: E.Apply) -> sympy.Matrix:
-        f = {"exp": sympy.exp, "log": sympy.log, "sqrt": sympy.sqrt, "abs": sympy.Abs}
-        return _elementwise(self.of(node.arg), f[node.func])
+        return _elementwise(self.of(node.arg), lookup(node.func).to_sympy)
 
     def _extremum(self, node: E.Extremum) -> sympy.Matrix:
         f = sympy.Max if node.kind == "max" else sympy.Min

@@ -11,6 +11,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 
 from dualize.model import expr as E
+from dualize.model.functions import lookup
 
 Sign = str
 NONNEG = frozenset({"pos", "nonneg", "zero"})
@@ -133,11 +134,7 @@ def _divide(node: E.Divide, d: Mapping[str, Sign]) -> Sign:
 
 def _function(node: E.Expr, d: Mapping[str, Sign]) -> Sign:
     if isinstance(node, E.Apply):
-        if node.func == "exp":
-            return "pos"
-        if node.func in ("abs", "sqrt"):
-            return "nonneg"
-        return "unknown"  # log
+        return lookup(node.func).sign  # type: ignore[return-value]
     if isinstance(node, E.Norm):
         return "nonneg"
     if isinstance(node, E.Power):

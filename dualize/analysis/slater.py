@@ -16,6 +16,7 @@ from dualize.analysis.convexity import Convexity, variable_signs
 from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
 from dualize.model import expr as E
+from dualize.model.functions import ArgumentDomain, lookup
 from dualize.model.problem import Problem
 
 STRICT_CLASSES = frozenset({"convex-inequality", "linear-matrix-inequality"})
@@ -54,11 +55,17 @@ def domain_caveats(problem: Problem) -> tuple[str, ...]:
            for v in problem.variables if v.domain.kind == "psd"]
     exprs = [problem.objective] + [c.function for c in problem.constraints]
     for node in (n for e in exprs for n in E.walk(e)):
-        if isinstance(node, E.Apply) and node.func == "sqrt" and _varies(node.arg):
-            out.append("sqrt needs its argument > 0")
+        if isinstance(node, E.Apply) and _closed_domain(node.func) and _varies(node.arg):
+            out.append(f"{node.func} needs its argument > 0")
         if isinstance(node, E.Power) and node.exponent.q != 1 and _varies(node.base):
             out.append("a fractional power needs its base > 0")
     return tuple(sorted(set(out)))
+
+
+def _closed_domain(name: str) -> bool:
+    """A function whose argument may reach 0 but whose interior asks it positive (sqrt)."""
+    function = lookup(name)
+    return function.keep_positive and function.domain is ArgumentDomain.NONNEG
 
 
 def _varies(node: E.Expr) -> bool:

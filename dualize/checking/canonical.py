@@ -15,6 +15,7 @@ from __future__ import annotations
 from dataclasses import fields, replace
 
 from dualize.model.expr import Apply, Block, Expr, Extremum, Norm, Number, Scale, Zero
+from dualize.model.functions import ABS
 
 
 def canonical(e: Expr) -> Expr:
@@ -22,10 +23,10 @@ def canonical(e: Expr) -> Expr:
     e = _children(e)
     if isinstance(e, Norm):
         return _out_of_norm(e)
-    if isinstance(e, Apply) and e.func == "abs" and _negative_scale(e.arg):
+    if isinstance(e, Apply) and e.func == ABS.name and _negative_scale(e.arg):
         inner = e.arg
         assert isinstance(inner, Scale)
-        return _scaled(-_value(inner), Apply("abs", inner.arg))
+        return _scaled(-_value(inner), Apply(ABS.name, inner.arg))
     if isinstance(e, Extremum) and _constant(e.right) and not _constant(e.left):
         return Extremum(e.kind, e.right, e.left)
     return e

@@ -15,6 +15,7 @@ from dataclasses import dataclass
 from dualize.duality import build as b
 from dualize.duality.result import Derivation, DualConstraint, DualProblem, DualVariable
 from dualize.model.problem import Problem
+from dualize.model.relations import relation_of
 from dualize.numeric.instance import Instance
 
 SOLVED = ("optimal", "inaccurate", "local")
@@ -49,7 +50,7 @@ def claim_as_dual(claim: Problem) -> DualProblem:
                          "ranges over real multipliers")
     variables = tuple(DualVariable(v.symbol, _SETS[v.domain.kind], "claim")  # type: ignore[arg-type]
                       for v in claim.variables)
-    cons = [DualConstraint(c.lhs, _relation(c.relation), c.rhs, "claim", c.label)
+    cons = [DualConstraint(c.lhs, relation_of(c.relation), c.rhs, "claim", c.label)
             for c in claim.constraints]
     for v in claim.variables:
         if v.domain.kind == "box":
@@ -57,10 +58,6 @@ def claim_as_dual(claim: Problem) -> DualProblem:
             cons += [DualConstraint(v.symbol, ">=", b.broadcast(v.domain.lo, shape), "claim"),
                      DualConstraint(v.symbol, "<=", b.broadcast(v.domain.hi, shape), "claim")]
     return DualProblem(claim.sense, variables, claim.objective, tuple(cons))
-
-
-def _relation(written: str) -> str:
-    return "=" if written in ("==", "=") else written
 
 
 def solve_three(derivation: Derivation, claim: DualProblem, instance: Instance,

@@ -62,7 +62,7 @@ def _set_constraints(sym: Symbol, kind: str) -> list[Triple]:
 
 def claim_constraints(claim: Problem) -> list[Triple]:
     """The claim's constraints as written, with its variables' domains as constraints."""
-    out: list[Triple] = [(c.lhs, c.relation.replace("==", "="), c.rhs)
+    out: list[Triple] = [(c.lhs, c.relation.relation, c.rhs)
                          for c in claim.constraints]
     for v in claim.variables:
         kind = v.domain.kind

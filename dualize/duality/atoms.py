@@ -35,9 +35,10 @@ from dualize.model.expr import (
     SumAll,
     Symbol,
     Transpose,
-    Zero,
     depends_on,
 )
+from dualize.model.functions import ABS, EXP, LOG
+from dualize.model.ops import is_zero
 
 DUAL_NORM = {"2": "2", "1": "inf", "inf": "1"}
 
@@ -98,21 +99,21 @@ def _shaped(coef: Expr, e: Expr) -> Atom | None:
         return Atom(coef, "norm", e.arg, e.p)
     if isinstance(e, Power) and e.exponent == 2 and isinstance(e.base, Norm) and e.base.p == "2":
         return Atom(coef, "square", e.base.arg)
-    if isinstance(e, Apply) and e.func == "log":
+    if isinstance(e, Apply) and e.func == LOG.name:
         inner = _summed(e.arg)
-        if inner is not None and isinstance(inner, Apply) and inner.func == "exp":
+        if inner is not None and isinstance(inner, Apply) and inner.func == EXP.name:
             return Atom(coef, "logsumexp", inner.arg)
-    if isinstance(e, Apply) and e.func == "abs" and e.shape.is_scalar:
+    if isinstance(e, Apply) and e.func == ABS.name and e.shape.is_scalar:
         return Atom(coef, "abs", e.arg)
-    if isinstance(e, Extremum) and e.kind == "max" and _is_zero(e.right):
+    if isinstance(e, Extremum) and e.kind == "max" and is_zero(e.right):
         return Atom(coef, "hinge", e.left)
     weighted = _weighted(e)
     weight, inner = weighted if weighted is not None else (None, _summed(e))
     if inner is None:
         return None
-    if isinstance(inner, Apply) and inner.func == "abs":
+    if isinstance(inner, Apply) and inner.func == ABS.name:
         return Atom(coef, "abs", inner.arg, weight=weight)
-    if isinstance(inner, Extremum) and inner.kind == "max" and _is_zero(inner.right):
+    if isinstance(inner, Extremum) and inner.kind == "max" and is_zero(inner.right):
         return Atom(coef, "hinge", inner.left, weight=weight)
     return None
 
@@ -138,10 +139,6 @@ def _weighted(e: Expr) -> tuple[Expr, Expr] | None:
 
 def _nonneg_data(w: Expr) -> bool:
     return isinstance(w, Symbol) and w.role == "data" and bool(w.facts & {"nonneg", "pos"})
-
-
-def _is_zero(e: Expr) -> bool:
-    return isinstance(e, Zero) or (isinstance(e, Number) and e.value == 0)
 
 
 def _summed(e: Expr) -> Expr | None:
@@ -209,7 +206,7 @@ def _separable_of_affine(coef: Expr, inner: Expr, variables: frozenset[str]) -> 
 def _candidate_arguments(e: Expr) -> list[Expr]:
     if isinstance(e, Apply):
         inner = e.arg
-        if e.func == "log" and isinstance(inner, b.Add):
+        if e.func == LOG.name and isinstance(inner, b.Add):
             return [inner] + [t.arg for t in inner.terms if isinstance(t, Apply)]
         return [inner]
     if isinstance(e, Power):
@@ -257,7 +254,7 @@ def _norm(atom: Atom, s: Expr, u: Expr) -> Infimum:
     q = DUAL_NORM[atom.p]
     return Infimum(
         b.num(0),
-        ((_norm_of(s, q) if not s.shape.is_scalar else Apply("abs", s), "<=", atom.coef),),
+        ((_norm_of(s, q) if not s.shape.is_scalar else Apply(ABS.name, s), "<=", atom.coef),),
         None,
         f"the infimum of c||u|| - s'u is 0 when the dual norm ||s||_{q} <= c, "
         "and minus infinity otherwise",
@@ -289,10 +286,11 @@ def _abs(atom: Atom, s: Expr, u: Expr) -> Infimum:
     if atom.weight is not None:
         unsigned = s.arg if isinstance(s, Scale) and isinstance(s.factor, Number) and \
             s.factor.value == -1 else s  # |-s| = |s|
-        return Infimum(b.num(0), ((Apply("abs", unsigned), "<=", b.scale(atom.coef, atom.weight)),),
+        bound = b.scale(atom.coef, atom.weight)
+        return Infimum(b.num(0), ((Apply(ABS.name, unsigned), "<=", bound),),
                        None, "sum(c w .* |u|) - s'u is bounded below exactly when "
                        "|s| <= c w entry by entry, with infimum 0")
-    lhs = Apply("abs", s) if s.shape.is_scalar else _norm_of(s, "inf")
+    lhs = Apply(ABS.name, s) if s.shape.is_scalar else _norm_of(s, "inf")
     return Infimum(b.num(0), ((lhs, "<=", atom.coef),), None,
                    "c|u| - s u is bounded below exactly when |s| <= c, with infimum 0")
 
@@ -302,7 +300,7 @@ def _logsumexp(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
     if not s.shape.is_vector:
         return None
     ratio = b.scale(b.power(c, sympy.Integer(-1)), s)
-    entropy = b.sum_all(b.hadamard(s, b.apply("log", ratio)))
+    entropy = b.sum_all(b.hadamard(s, b.apply(LOG.name, ratio)))
     return Infimum(
         b.neg(entropy),
         ((s, ">=", b.zeros(s.shape)), (b.sum_all(s), "=", c)),
@@ -340,10 +338,10 @@ def atom_expression(atom: Atom) -> Expr:
         body = b.power(Norm(u, "2"), sympy.Integer(2))
     elif atom.kind in ("hinge", "abs"):
         inner: Expr = Extremum("max", u, b.zeros(u.shape)) if atom.kind == "hinge" else \
-            Apply("abs", u)
+            Apply(ABS.name, u)
         body = b.sum_all(inner) if atom.weight is None else b.inner(atom.weight, inner)
     elif atom.kind == "logsumexp":
-        body = Apply("log", b.sum_all(Apply("exp", u)))
+        body = Apply(LOG.name, b.sum_all(Apply(EXP.name, u)))
     else:
         assert atom.body is not None
         body = b.sum_all(atom.body)

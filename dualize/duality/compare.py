@@ -7,6 +7,7 @@ from dataclasses import fields, replace
 
 from dualize.duality.normal import equal
 from dualize.model.expr import Add, Block, Divide, Expr, MatMul, Symbol, substitute, symbols_of
+from dualize.model.relations import Relation, relation_of
 
 
 def _plain(e: Expr) -> Expr:
@@ -49,14 +50,17 @@ def same_expression(a: Expr, c: Expr) -> bool:
     return equal(_plain(a), _plain(c))
 
 
-_TO_LE = {"<=": 1, ">=": -1, "preceq": 1, "succeq": -1, "=": 1, "==": 1}
-_KIND = {"<=": "ineq", ">=": "ineq", "preceq": "psd", "succeq": "psd", "=": "eq", "==": "eq"}
+_TO_LE = {Relation.LE: 1, Relation.GE: -1, Relation.PRECEQ: 1, Relation.SUCCEQ: -1,
+          Relation.EQ: 1}
+_KIND = {Relation.LE: "ineq", Relation.GE: "ineq", Relation.PRECEQ: "psd",
+         Relation.SUCCEQ: "psd", Relation.EQ: "eq"}
 
 
 def normalized(lhs: Expr, relation: str, rhs: Expr) -> tuple[str, Expr]:
     """(kind, E) with the constraint read as E <= 0, E = 0 or E preceq 0."""
     from dualize.duality import build as b
 
+    relation = relation_of(relation)
     sign = _TO_LE[relation]
     e = b.sub(lhs, rhs) if sign > 0 else b.sub(rhs, lhs)
     return _KIND[relation], _plain(e)

@@ -33,8 +33,11 @@ from dualize.model.expr import (
     Zero,
     depends_on,
 )
+from dualize.model.functions import EXP, SQRT, TABLE, lookup
+from dualize.model.relations import Comparison
 
 Relation = tuple[Expr, str, Expr]
+"""lhs, relation, rhs; the relation may be strict (">", "<") until the caller closes it."""
 ASSUMPTIONS = {"pos": "positive", "nonneg": "nonnegative", "integer": "integer"}
 
 
@@ -152,16 +155,8 @@ def _power(node: Power, target: _Target) -> sympy.Expr:
     return base**exponent
 
 
-_FUNCTIONS: dict[str, Callable[[sympy.Expr], sympy.Expr]] = {
-    "exp": sympy.exp,
-    "log": sympy.log,
-    "sqrt": sympy.sqrt,
-    "abs": sympy.Abs,
-}
-
-
 def _apply(node: Apply, target: _Target) -> sympy.Expr:
-    return _FUNCTIONS[node.func](_to_sympy(node.arg, target))
+    return lookup(node.func).to_sympy(_to_sympy(node.arg, target))
 
 
 def _extremum(node: Extremum, target: _Target) -> sympy.Expr:
@@ -219,7 +214,7 @@ def _lift(e: sympy.Expr, place: _Place) -> Expr:
     if isinstance(e, sympy.Rational):
         return Number(e)
     if e is sympy.E:
-        return Apply("exp", Number(sympy.Integer(1)))
+        return Apply(EXP.name, Number(sympy.Integer(1)))
     if isinstance(e, sympy.Symbol):
         return _data(e, place)
     for kind, lifter in _LIFTERS:
@@ -294,7 +289,7 @@ def _lift_pow(e: sympy.Pow, place: _Place) -> Expr:
     if not isinstance(exponent, sympy.Rational):
         raise LiftError(f"the exponent of {e} is not a rational number")
     if exponent == sympy.Rational(1, 2):
-        return Apply("sqrt", _lift(base, place))
+        return Apply(SQRT.name, _lift(base, place))
     return Power(_lift(base, place), sympy.Rational(exponent))
 
 
@@ -318,9 +313,8 @@ _LIFTERS: tuple[tuple[type, Callable[[sympy.Expr, _Place], Expr]], ...] = (
     (sympy.Add, _lift_add),
     (sympy.Mul, _lift_mul),
     (sympy.Pow, _lift_pow),
-    (sympy.exp, _lift_function("exp")),
-    (sympy.log, _lift_function("log")),
-    (sympy.Abs, _lift_function("abs")),
+    *((getattr(sympy, f.sympy_head), _lift_function(f.name))
+      for f in TABLE.values() if f.sympy_head is not None),
     (sympy.Max, _lift_extremum),
     (sympy.Min, _lift_extremum),
 )  # type: ignore[assignment]
@@ -333,14 +327,15 @@ def lift_interval(
 
     The IR has no strict relations, so an open end is reported with the
     relation "<" or ">" and the caller decides how to state it (a dual usually
-    keeps the closure and notes the open end).  A single point gives "==";
+    keeps the closure and notes the open end).  A single point gives "==" (the
+    language's comparison);
     the whole line gives no relation at all.
     """
     place = _Place(sympy.Dummy("s"), arg, arg.shape, data or {})
     if domain == sympy.S.Reals:
         return []
     if isinstance(domain, sympy.FiniteSet) and len(domain.args) == 1:
-        return [(arg, "==", _bound(domain.args[0], place))]
+        return [(arg, Comparison.EQ, _bound(domain.args[0], place))]
     if not isinstance(domain, sympy.Interval):
         raise LiftError(f"the domain {domain} is not an interval or a point")
     out: list[Relation] = []

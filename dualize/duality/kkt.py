@@ -17,8 +17,6 @@ from dualize.duality.result import Condition, Equation
 from dualize.model.expr import Trace
 from dualize.model.problem import Problem
 
-WRITTEN = {"<=": "<=", ">=": ">=", "==": "=", "=": "=", "succeq": "succeq", "preceq": "preceq"}
-
 
 def conditions(problem: Problem, outcomes: dict[str, Outcome]) -> tuple[Condition, ...]:
     out: list[Condition] = []
@@ -31,7 +29,7 @@ def conditions(problem: Problem, outcomes: dict[str, Outcome]) -> tuple[Conditio
             out.append(Condition("stationarity", None,
                                  f"0 is in the subdifferential of the Lagrangian in {name}"))
     for c in problem.constraints:
-        out.append(Condition("primal feasibility", Equation(c.lhs, WRITTEN[c.relation],  # type: ignore[arg-type]
+        out.append(Condition("primal feasibility", Equation(c.lhs, c.relation.relation,
                                                             c.rhs), c.label))
     for c in problem.constraints:
         y = c.multiplier

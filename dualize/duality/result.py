@@ -11,8 +11,7 @@ from typing import Literal
 
 from dualize.model.expr import Expr, Symbol
 from dualize.model.problem import Problem, Variable
-
-Relation = Literal["=", "<=", ">=", "succeq", "preceq", "in"]
+from dualize.model.relations import Relation, relation_of
 
 
 @dataclass(frozen=True)
@@ -30,6 +29,9 @@ class Equation:
     lhs: Expr | Head
     relation: Relation
     rhs: Expr
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "relation", relation_of(self.relation))
 
 
 @dataclass(frozen=True)
@@ -73,6 +75,9 @@ class DualConstraint:
     rhs: Expr
     reason: str
     label: str | None = None
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "relation", relation_of(self.relation))
 
 
 @dataclass(frozen=True)

@@ -32,6 +32,7 @@ from dualize.model.expr import (
     Trace,
     Transpose,
 )
+from dualize.model.functions import EXP, by_sympy_head, lookup
 
 
 @dataclass
@@ -76,19 +77,17 @@ def known_sign(e: Expr) -> str | None:
         return "pos"
     if isinstance(e, MatMul) and _is_gram(e.factors):
         return "nonneg"
-    if isinstance(e, Apply) and e.func in ("exp",):
-        return "pos"
-    if isinstance(e, Apply) and e.func in ("abs", "sqrt"):
-        return "nonneg"
+    if isinstance(e, Apply) and lookup(e.func).sign in ("pos", "nonneg"):
+        return lookup(e.func).sign
     return None
 
 
 def _is_sum_of_exp(e: Expr) -> bool:
     if isinstance(e, SumAll):
-        return isinstance(e.arg, Apply) and e.arg.func == "exp"
+        return isinstance(e.arg, Apply) and e.arg.func == EXP.name
     f = e.factors  # type: ignore[attr-defined]
     return (len(f) == 2 and isinstance(f[0], Transpose) and isinstance(f[0].arg, b.Ones)
-            and isinstance(f[1], Apply) and f[1].func == "exp")
+            and isinstance(f[1], Apply) and f[1].func == EXP.name)
 
 
 def _is_gram(factors: tuple[Expr, ...]) -> bool:
@@ -116,9 +115,7 @@ def to_sympy(e: Expr, scope: Scope) -> sympy.Expr:
     if isinstance(e, Divide) and e.shape.is_scalar:
         return to_sympy(e.left, scope) / to_sympy(e.right, scope)
     if isinstance(e, Apply) and e.shape.is_scalar:
-        inner = to_sympy(e.arg, scope)
-        return {"exp": sympy.exp, "log": sympy.log, "sqrt": sympy.sqrt,
-                "abs": sympy.Abs}[e.func](inner)
+        return lookup(e.func).to_sympy(to_sympy(e.arg, scope))
     if isinstance(e, Trace | SumAll) and e.arg.shape.is_scalar:
         return to_sympy(e.arg, scope)
     return scope.symbol_for(e)
@@ -139,10 +136,9 @@ def from_sympy(expr: sympy.Expr, scope: Scope) -> Expr:
         return out
     if expr.is_Pow:
         return b.power(from_sympy(expr.base, scope), sympy.Rational(expr.exp))
-    if isinstance(expr, sympy.exp):
-        return b.apply("exp", from_sympy(expr.args[0], scope))
-    if isinstance(expr, sympy.log):
-        return b.apply("log", from_sympy(expr.args[0], scope))
+    function = by_sympy_head(type(expr).__name__) if isinstance(expr, sympy.Function) else None
+    if function is not None:
+        return b.apply(function.name, from_sympy(expr.args[0], scope))
     raise ValueError(f"no IR form for {type(expr).__name__}")
 
 

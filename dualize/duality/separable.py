@@ -25,8 +25,9 @@ from dualize.duality.elementwise import LiftError, lift, lift_interval, scalar_f
 from dualize.duality.scalar import Scope, to_sympy
 from dualize.model.expr import Expr, Number, Symbol, symbols_of
 from dualize.model.problem import Domain
+from dualize.model.relations import Comparison, Relation
 
-_CLOSED = {">": ">=", "<": "<=", "==": "="}
+_CLOSED = {">": ">=", "<": "<=", Comparison.EQ: Relation.EQ}
 
 
 def _interval(domain: Domain) -> sympy.Interval | None:

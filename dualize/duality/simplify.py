@@ -24,6 +24,7 @@ from dualize.duality.normal import Term, expand, node_key, rebuild, tidy
 from dualize.duality.result import DualConstraint, DualProblem, DualVariable, Equation, Step
 from dualize.duality.scalar import Scope, from_sympy, to_sympy
 from dualize.model.expr import Apply, Expr, Ones, Symbol, depends_on, substitute
+from dualize.model.functions import EXP
 from dualize.model.problem import Problem
 
 FLIP = {"<=": ">=", ">=": "<=", "succeq": "preceq", "preceq": "succeq", "=": "="}
@@ -213,15 +214,15 @@ def _opaque_uses(scope: Scope, name: str) -> bool:
 
 def pull_out_of_exp(e: Expr, y: Symbol) -> Expr:
     """exp(a + s 1) = exp(s) exp(a) for a scalar s, everywhere in ``e``."""
-    if isinstance(e, Apply) and e.func == "exp" and not e.shape.is_scalar:
+    if isinstance(e, Apply) and e.func == EXP.name and not e.shape.is_scalar:
         scalar_terms, rest = [], []
         for t in expand(e.arg):
             (scalar_terms if t.chain == (Ones(e.shape.rows),) else rest).append(t)
         if scalar_terms and any(depends_on(p, {y.name}) for t in scalar_terms
                                 for p in t.scalars):
             s = rebuild([Term(t.coef, t.scalars, ()) for t in scalar_terms], b.SCALAR)
-            inner = b.apply("exp", rebuild(rest, e.shape))
-            return b.scale(b.apply("exp", s), inner)
+            inner = b.apply(EXP.name, rebuild(rest, e.shape))
+            return b.scale(b.apply(EXP.name, s), inner)
         return e
     from dataclasses import fields
 

@@ -16,12 +16,14 @@ from dualize.model import rules as M
 from dualize.model.expr import Expr, Symbol
 from dualize.model.expressions import ExprResolver
 from dualize.model.problem import Constraint, ConstraintKind
+from dualize.model.relations import Comparison
 from dualize.model.symmetry import is_symmetric
 from dualize.syntax import ast
 from dualize.syntax.span import Span
 
-KIND: dict[str, ConstraintKind] = {"<=": "ineq", ">=": "ineq", "==": "eq", "succeq": "psd",
-                                   "preceq": "psd"}
+KIND: dict[Comparison, ConstraintKind] = {
+    Comparison.LE: "ineq", Comparison.GE: "ineq", Comparison.EQ: "eq",
+    Comparison.SUCCEQ: "psd", Comparison.PRECEQ: "psd"}
 MULTIPLIER_FACTS = {"ineq": frozenset({"nonneg"}), "psd": frozenset({"symmetric", "psd"}),
                     "eq": frozenset()}
 
@@ -82,7 +84,7 @@ def build(p: Piece, name: str, resolve: ExprResolver) -> Constraint:
 
 
 def _function(op: str, lhs: Expr, rhs: Expr) -> Expr:
-    if op in {"<=", "==", "preceq"}:
+    if op in {Comparison.LE, Comparison.EQ, Comparison.PRECEQ}:
         return ops.difference(lhs, rhs, lhs.span)
     return ops.difference(rhs, lhs, rhs.span)
 

@@ -251,12 +251,13 @@ class Power(Expr):
         return self.base.shape
 
 
-Elementwise = Literal["exp", "log", "sqrt", "abs"]
+Elementwise = str
+"""The name of an elementwise function: a key of ``dualize.model.functions.TABLE``."""
 
 
 @dataclass(frozen=True)
 class Apply(Expr):
-    """An elementwise function: exp, log, sqrt or abs."""
+    """An elementwise function of the function table (exp, log, sqrt, abs, softplus, ...)."""
 
     func: Elementwise
     arg: Expr

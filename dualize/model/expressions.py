@@ -28,12 +28,9 @@ from dualize.model.expr import (
     Trace,
     symbols_of,
 )
+from dualize.model.functions import ABS, BY_SPELLING, Function
 from dualize.model.scope import FUNCTIONS, ResolveError, Scope
 from dualize.syntax import ast
-
-ELEMENTWISE = {"exp": "exp", "log": "log", "sqrt": "sqrt"}
-
-
 
 _WRITTEN_AS = {
     "abs": "the absolute value is written |e| (elementwise)",
@@ -110,7 +107,7 @@ class ExprResolver:
         return Norm(arg, node.p, span=node.span)  # type: ignore[arg-type]
 
     def _Abs(self, node: ast.Abs) -> Expr:
-        return Apply("abs", self(node.arg), span=node.span)
+        return Apply(ABS.name, self(node.arg), span=node.span)
 
     def _Call(self, node: ast.Call) -> Expr:
         if node.func not in FUNCTIONS:
@@ -119,6 +116,8 @@ class ExprResolver:
                 ", ".join(FUNCTIONS)
             hint = _WRITTEN_AS.get(node.func, hint)
             raise self.scope.fail(M.UNKNOWN_FUNCTION, node.func_span, name=node.func, hint=hint)
+        if node.func in BY_SPELLING:
+            return self._elementwise(node, BY_SPELLING[node.func])
         return getattr(self, f"_call_{node.func}")(node)
 
     # ---- functions ---------------------------------------------------------
@@ -135,14 +134,9 @@ class ExprResolver:
     def _call_sum(self, node: ast.Call) -> Expr:
         return SumAll(self._one(node), span=node.span)
 
-    def _call_exp(self, node: ast.Call) -> Expr:
-        return Apply("exp", self._one(node), span=node.span)
-
-    def _call_log(self, node: ast.Call) -> Expr:
-        return Apply("log", self._one(node), span=node.span)
-
-    def _call_sqrt(self, node: ast.Call) -> Expr:
-        return Apply("sqrt", self._one(node), span=node.span)
+    def _elementwise(self, node: ast.Call, function: Function) -> Expr:
+        """A function of the table, applied entry by entry (its arity is one)."""
+        return Apply(function.name, self(self._args(node, function.arity)[0]), span=node.span)
 
     def _call_max(self, node: ast.Call) -> Expr:
         return self._extremum(node, "max")

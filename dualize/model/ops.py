@@ -35,8 +35,9 @@ def number(value: sympy.Expr, span: Span | None) -> Number:
     return Number(value, span=span)
 
 
-def is_zero(e: Expr) -> bool:
-    return isinstance(e, Zero) or (isinstance(e, Number) and e.value == 0)
+def is_zero(e: Expr | None) -> bool:
+    """The one zero test: a Zero block, the number 0, or an absent term (None)."""
+    return e is None or isinstance(e, Zero) or (isinstance(e, Number) and e.value == 0)
 
 
 def broadcast(e: Expr, target: Shape) -> Expr:

@@ -8,11 +8,8 @@ from typing import Literal
 import sympy
 
 from dualize.model.expr import Expr, Symbol
+from dualize.model.relations import Comparison, DomainKind
 from dualize.syntax.span import Span
-
-DomainKind = Literal[
-    "free", "nonneg", "pos", "box", "integer", "binary", "symmetric", "psd", "pd"
-]
 
 
 @dataclass(frozen=True)
@@ -28,6 +25,9 @@ class Domain:
     kind: DomainKind
     lo: Expr | None = None
     hi: Expr | None = None
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "kind", DomainKind(self.kind))
 
 
 @dataclass(frozen=True)
@@ -68,13 +68,16 @@ class Constraint:
 
     label: str
     kind: ConstraintKind
-    relation: str  # as written: "<=", ">=", "==", "succeq", "preceq"
+    relation: Comparison  # as written: "<=", ">=", "==", "succeq", "preceq"
     lhs: Expr
     rhs: Expr
     function: Expr
     multiplier: Symbol
     labelled: bool
     span: Span | None = None
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "relation", Comparison(self.relation))
 
 
 @dataclass(frozen=True)

@@ -14,10 +14,12 @@ import sympy
 
 from dualize.diagnostics import Diagnostic, RuleKind, make
 from dualize.model.expr import Symbol
+from dualize.model.functions import BY_SPELLING
 from dualize.syntax.span import Span
 
-FUNCTIONS = ("diag", "exp", "identity", "inv", "log", "max", "min", "ones", "sqrt", "sum",
-             "trace")
+FUNCTIONS = tuple(sorted(("diag", "identity", "inv", "max", "min", "ones", "sum", "trace")
+                         + tuple(BY_SPELLING)))
+"""Every function name a file may call: the structural ones and the function table's."""
 KEYWORDS = ("data", "in", "maximise", "maximize", "minimise", "minimize", "over", "preceq",
             "subject", "succeq", "title", "to")
 RESERVED = frozenset(FUNCTIONS + KEYWORDS)

@@ -15,6 +15,7 @@ import numpy as np
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 
 Values = Mapping[str, "np.ndarray | float"]
 Dims = Mapping[str, int]
@@ -134,14 +135,9 @@ def _power(e: ir.Power, env: _Env) -> np.ndarray:
         return np.where(base >= 0, np.power(np.abs(base), float(p)), np.nan)
 
 
-_FUNCS: dict[str, Callable[[np.ndarray], np.ndarray]] = {
-    "exp": np.exp, "log": np.log, "sqrt": np.sqrt, "abs": np.abs,
-}
-
-
 def _apply(e: ir.Apply, env: _Env) -> np.ndarray:
     with np.errstate(divide="ignore", invalid="ignore"):
-        return _FUNCS[e.func](env(e.arg))
+        return lookup(e.func).numpy.callable()(env(e.arg))
 
 
 def _extremum(e: ir.Extremum, env: _Env) -> np.ndarray:

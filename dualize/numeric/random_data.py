@@ -45,6 +45,7 @@ import numpy as np
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 from dualize.model.problem import Constraint, Problem, Variable
 from dualize.numeric.evaluate import evaluate, shape_of
 from dualize.numeric.instance import Instance, set_violation
@@ -352,7 +353,7 @@ def _log_domains(problem: Problem, variables: dict[str, object],
 
     exprs = [problem.objective] + [c.function for c in problem.constraints]
     args = [node.arg for e in exprs for node in ir.walk(e)
-            if isinstance(node, ir.Apply) and node.func in ("log", "sqrt")
+            if isinstance(node, ir.Apply) and lookup(node.func).keep_positive
             and ir.depends_on(node.arg, set(variables))]
     out = []
     for arg in args:

@@ -18,6 +18,7 @@ from typing import Any
 import numpy as np
 
 from dualize.model import expr as ir
+from dualize.model.functions import EXP, LOG, lookup
 from dualize.numeric.evaluate import Dims, Values, evaluate_2d, size_of
 
 CvxExpr = Any
@@ -166,7 +167,7 @@ def _neg_entropy(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     if not isinstance(expr, ir.Hadamard):
         return None
     for a, b in ((expr.left, expr.right), (expr.right, expr.left)):
-        if isinstance(b, ir.Apply) and b.func == "log" and b.arg == a:
+        if isinstance(b, ir.Apply) and b.func == LOG.name and b.arg == a:
             return -ctx.cp.entr(ctx(a))
     return None
 
@@ -179,14 +180,14 @@ def _entropy_product(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     if not isinstance(first, ir.Transpose) or last.shape.cols != 1:
         return None
     for a, b in ((first.arg, last), (last, first.arg)):
-        if isinstance(a, ir.Apply) and a.func == "log" and a.arg == b:
+        if isinstance(a, ir.Apply) and a.func == LOG.name and a.arg == b:
             return _as_2d(ctx.cp, -ctx.cp.sum(ctx.cp.entr(ctx(b))))
     return None
 
 
 def _log_sum_exp(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
-    if isinstance(expr, ir.Apply) and expr.func == "log" and isinstance(expr.arg, ir.SumAll) \
-            and isinstance(expr.arg.arg, ir.Apply) and expr.arg.arg.func == "exp":
+    if isinstance(expr, ir.Apply) and expr.func == LOG.name and isinstance(expr.arg, ir.SumAll) \
+            and isinstance(expr.arg.arg, ir.Apply) and expr.arg.arg.func == EXP.name:
         return _as_2d(ctx.cp, ctx.cp.log_sum_exp(ctx(expr.arg.arg.arg)))
     return None
 
@@ -245,8 +246,7 @@ def _power(e: ir.Power, ctx: _Ctx) -> CvxExpr:
 
 
 def _apply(e: ir.Apply, ctx: _Ctx) -> CvxExpr:
-    funcs = {"exp": ctx.cp.exp, "log": ctx.cp.log, "sqrt": ctx.cp.sqrt, "abs": ctx.cp.abs}
-    return funcs[e.func](ctx(e.arg))
+    return getattr(ctx.cp, lookup(e.func).reference)(ctx(e.arg))
 
 
 def _extremum(e: ir.Extremum, ctx: _Ctx) -> CvxExpr:

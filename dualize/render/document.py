@@ -25,6 +25,7 @@ from dualize.duality.result import (
     Step,
 )
 from dualize.model import expr as ir
+from dualize.model.ops import is_zero
 from dualize.model.problem import Constraint, Problem, Variable
 from dualize.render.caution import CAUTION
 
@@ -195,7 +196,7 @@ def primal_view(problem: Problem, fmt: Formatter) -> ProblemView:
 
 
 def constraint_line(constraint: Constraint, fmt: Formatter) -> Line:
-    relation = "=" if constraint.relation in ("==", "=") else constraint.relation
+    relation = constraint.relation.relation
     return Line(fmt.expr(constraint.lhs), fmt.relation(relation), fmt.expr(constraint.rhs),
                 tag=fmt.name(constraint.multiplier.name))
 
@@ -263,12 +264,8 @@ def _set_line(variable: DualVariable, fmt: Formatter) -> Line:
 def _stated(variable: DualVariable, dual: DualProblem) -> bool:
     """True when a dual constraint already says ``variable (>=|<=|succeq) 0``."""
     relation = _DUAL_SET_RELATION.get(variable.set)
-    return any(c.lhs == variable.symbol and c.relation == relation and _is_zero(c.rhs)
+    return any(c.lhs == variable.symbol and c.relation == relation and is_zero(c.rhs)
                for c in dual.constraints)
-
-
-def _is_zero(node: ir.Expr) -> bool:
-    return isinstance(node, ir.Zero) or (isinstance(node, ir.Number) and node.value == 0)
 
 
 def unbounded_sentence(dual: ProblemView, minus_infinity: str, plus_infinity: str) -> str:

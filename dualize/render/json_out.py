@@ -76,7 +76,7 @@ def data_json(decl: DataDecl) -> dict[str, Any]:
 
 
 def constraint_json(constraint: Constraint) -> dict[str, Any]:
-    relation = "=" if constraint.relation in ("==", "=") else constraint.relation
+    relation = constraint.relation.relation
     span = constraint.span
     return {
         "label": constraint.label,

@@ -16,14 +16,14 @@ import sympy
 from sympy.printing.latex import LatexPrinter
 
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 from dualize.render import structure as st
 from dualize.render.names import latex_name
 
 RELATIONS: dict[str, str] = {
-    "=": "=", "==": "=", "<=": r"\leq", ">=": r"\geq", "succeq": r"\succeq",
+    "=": "=", "<=": r"\leq", ">=": r"\geq", "succeq": r"\succeq",
     "preceq": r"\preceq", "in": r"\in", "!=": r"\neq",
 }
-_FUNCTIONS: dict[str, str] = {"exp": r"\exp", "log": r"\log"}
 _TALL = (r"\frac", r"\tfrac", "bmatrix")
 _NORM_SUBSCRIPTS: dict[str, str] = {"1": "1", "2": "2", "inf": r"\infty"}
 
@@ -144,12 +144,8 @@ class IRLatexPrinter(st.SharedLeaves, LatexPrinter):
         return f"{self.wrap(node.base, st.POSTFIX)}^{{{shown}}}"
 
     def _print_ir_Apply(self, node: ir.Apply) -> str:
-        inner = self._print(node.arg)
-        if node.func == "sqrt":
-            return rf"\sqrt{{{inner}}}"
-        if node.func == "abs":
-            return rf"\lvert {inner} \rvert"
-        return _FUNCTIONS[node.func] + paren(inner)
+        function = lookup(node.func)
+        return function.print_with(self._print(node.arg), function.latex, paren)
 
     def _print_ir_Extremum(self, node: ir.Extremum) -> str:
         return "\\" + node.kind + paren(f"{self._print(node.left)}, {self._print(node.right)}")

@@ -13,6 +13,7 @@ from fractions import Fraction
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 
 ADD = 10
 NEG = 15
@@ -232,7 +233,7 @@ def degree(node: ir.Expr, roles: frozenset[str] = PRIMAL | DUAL) -> int | None:
         if degree(node.right, roles) == 0:
             return degree(node.left, roles)
         return _nonpolynomial(node, roles)
-    if isinstance(node, ir.Apply) and node.func == "abs":
+    if isinstance(node, ir.Apply) and lookup(node.func).homogeneous:
         return degree(node.arg, roles)
     if isinstance(node, ir.Norm | ir.Transpose | ir.Broadcast | ir.SumAll | ir.Diag
                   | ir.Trace):

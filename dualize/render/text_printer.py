@@ -14,11 +14,12 @@ import sympy
 from sympy.printing.str import StrPrinter
 
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 from dualize.render import structure as st
 from dualize.render.names import text_name
 
 RELATIONS: dict[str, str] = {
-    "=": "=", "==": "=", "<=": "≤", ">=": "≥", "succeq": "⪰", "preceq": "⪯", "in": "∈",
+    "=": "=", "<=": "≤", ">=": "≥", "succeq": "⪰", "preceq": "⪯", "in": "∈",
 }
 _SUPERSCRIPTS = dict(zip("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻", strict=True))
 _VULGAR: dict[tuple[int, int], str] = {
@@ -143,11 +144,8 @@ class IRTextPrinter(st.SharedLeaves, StrPrinter):
         return f"{base}^({exponent.p}/{exponent.q})"
 
     def _print_ir_Apply(self, node: ir.Apply) -> str:
-        inner = self._print(node.arg)
-        if node.func == "abs":
-            return f"|{inner}|"
-        name = "√" if node.func == "sqrt" else node.func
-        return f"{name}({inner})"
+        function = lookup(node.func)
+        return function.print_with(self._print(node.arg), function.text, lambda s: f"({s})")
 
     def _print_ir_Extremum(self, node: ir.Extremum) -> str:
         return f"{node.kind}({self._print(node.left)}, {self._print(node.right)})"

@@ -24,27 +24,14 @@ from tests.architecture.import_graph import (
     upward,
 )
 
-# Known upward imports, each waiting for a planned move; the list only shrinks.
-# The check report's printer belongs to the checking stage (its move is planned
-# with the solver generator's own stage).
-PENDING: frozenset[tuple[str, str]] = frozenset({
-    ("dualize.render.check_report", "dualize.checking.report"),
-})
-
 
 def _shown(found: list) -> str:
     return "\n".join(f"{a.source}:{a.line} imports {a.target}" for a in found)
 
 
 def test_no_import_runs_up_the_stage_order() -> None:
-    found = [a for a in upward(arrows()) if (a.source, a.target) not in PENDING]
+    found = upward(arrows())
     assert not found, "imports against the stage order:\n" + _shown(found)
-
-
-def test_every_pending_exception_is_still_needed() -> None:
-    """A pending entry whose import is gone must leave the list."""
-    still = {(a.source, a.target) for a in upward(arrows())}
-    assert PENDING <= still
 
 
 def test_no_circle_of_imports() -> None:

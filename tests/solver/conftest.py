@@ -10,7 +10,7 @@ import pytest
 
 from dualize.duality import derive
 from dualize.model import load
-from dualize.render.solver import render_solver
+from dualize.solvergen.solver import render_solver
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
 

@@ -12,8 +12,8 @@ import pytest
 from dualize.duality import derive
 from dualize.errors import DualizeError
 from dualize.model import load
-from dualize.render.python_code import python_names
-from dualize.render.solver import render_solver
+from dualize.solvergen.python_code import python_names
+from dualize.solvergen.solver import render_solver
 from tests.solver.conftest import EXAMPLES, derivation_of
 
 SOLVABLE = [
@@ -51,7 +51,7 @@ def test_same_input_same_module(name):
 def test_gradient_matches_finite_differences(solver_module, name):
     # Central differences as the check of an analytic gradient (common practice).
     _, module = solver_module(name)
-    d = module._read(json.loads((EXAMPLES / f"{name}.json").read_text()))
+    d = module._read(module.SPEC, json.loads((EXAMPLES / f"{name}.json").read_text()))
     d.update(module._prepare(d))
     lo, hi = module._bounds(d)
     rng = np.random.default_rng(0)

@@ -51,9 +51,9 @@ def test_soft_margin_takes_the_interior_route_with_a_low_rank_hessian(solver_mod
     # Support-vector networks, 1995 (from memory).
     _, module = solver_module("parts_soft_margin")
     data = random_svm(7, m=300, n=4)
-    d = module._read(data)
+    d = module._read(module.SPEC, data)
     d.update(module._prepare(d))
-    factor = module._gram_factor(d, 300)
+    factor = module._gram_factor(module.SPEC, d, 300)
     assert factor is not None and factor.shape == (300, 4)
     assert np.allclose(factor @ factor.T, module._hessian(None, d), atol=1e-9 * len(factor))
     report = module.solve(data)
@@ -81,9 +81,9 @@ def test_gram_factor_finds_the_rank_or_refuses(solver_module, n, rank):
     # section 4, from memory).
     _, module = solver_module("drone_thrust_qp")
     data = drone_instance(4, 120, n)
-    d = module._read(data)
+    d = module._read(module.SPEC, data)
     d.update(module._prepare(d))
-    factor = module._gram_factor(d, 120)
+    factor = module._gram_factor(module.SPEC, d, 120)
     if rank is None:
         assert factor is None
     else:

@@ -7,9 +7,9 @@ import pytest
 import sympy
 
 from dualize.model import expr as ir
-from dualize.render.calculus import NotDifferentiable, gradient
-from dualize.render.ir_rewrite import normalize
-from dualize.render.python_code import Constants, UnknownNode, numpy_code
+from dualize.solvergen.calculus import NotDifferentiable, gradient
+from dualize.solvergen.ir_rewrite import normalize
+from dualize.solvergen.python_code import Constants, UnknownNode, numpy_code
 
 m, n = sympy.symbols("m n", positive=True, integer=True)
 X = ir.Symbol("X", "data", ir.Shape(m, n))

@@ -12,9 +12,9 @@ from dualize.duality.result import DualConstraint, DualProblem, DualVariable
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.numeric.evaluate import evaluate
-from dualize.render.ir_rewrite import length
-from dualize.render.solver_lift import epigraph_lift
-from dualize.render.solver_plan import make_plan
+from dualize.solvergen.ir_rewrite import length
+from dualize.solvergen.solver_lift import epigraph_lift
+from dualize.solvergen.solver_plan import make_plan
 
 N = sympy.Symbol("n", integer=True, positive=True)
 VEC = ir.vector(N)

@@ -12,8 +12,8 @@ import json
 from dataclasses import dataclass
 
 from dualize.model import expr as ir
-from dualize.render.ir_rewrite import normalize
-from dualize.render.python_code import Constants, NumpyPrinter, bare
+from dualize.solvergen.ir_rewrite import normalize
+from dualize.solvergen.python_code import Constants, NumpyPrinter, bare
 
 
 @dataclass(frozen=True)
@@ -57,7 +57,7 @@ class Emitter:
             elif name in self.scope.primal:
                 lines.append(f"{ident} = x[{json.dumps(name)}]")
         if any(by_ident.get(i) in self.scope.dual for i in used):
-            lines.insert(0, "_parts = _split(z, d)")
+            lines.insert(0, "_parts = _split(z, _dual_sizes(d), SCALARS)")
         return lines
 
 

@@ -28,9 +28,9 @@ import sympy
 from dualize.duality.result import DualConstraint, DualProblem
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
-from dualize.render.calculus import NotDifferentiable, gradient, jacobian
-from dualize.render.ir_rewrite import normalize
-from dualize.render.solver_lift import Lift, epigraph_lift, known_sign
+from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
+from dualize.solvergen.ir_rewrite import normalize
+from dualize.solvergen.solver_lift import Lift, epigraph_lift, known_sign
 
 Method = Literal["linprog", "lbfgsb", "interior", "augmented", "slsqp", "conic"]
 

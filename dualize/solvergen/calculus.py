@@ -18,8 +18,9 @@ from dataclasses import dataclass
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 from dualize.model.ops import is_zero
-from dualize.render.ir_rewrite import (
+from dualize.solvergen.ir_rewrite import (
     LogSumExp,
     Softmax,
     is_scalar,
@@ -176,14 +177,10 @@ def _is_zero(expr: ir.Expr) -> bool:
 
 def _apply(expr: ir.Apply, target: _Target) -> ir.Expr:
     arg = expr.arg
-    slopes: dict[str, ir.Expr] = {
-        "exp": expr,
-        "log": ir.Power(arg, sympy.Integer(-1)),
-        "sqrt": scale(ir.Number(sympy.Rational(1, 2)), ir.Power(arg, sympy.Rational(-1, 2))),
-    }
-    if expr.func not in slopes:
+    derivative = lookup(expr.func).derivative
+    if derivative is None:
         raise NotDifferentiable(f"{expr.func} is not differentiable everywhere")
-    return _diag_times(slopes[expr.func], _jac(arg, target))
+    return _diag_times(derivative(arg, expr), _jac(arg, target))
 
 
 def _norm(expr: ir.Norm, target: _Target) -> ir.Expr:

@@ -30,8 +30,9 @@ import sympy
 from dualize.analysis.public import curvature, sign
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
-from dualize.render.calculus import NotDifferentiable, jacobian
-from dualize.render.ir_rewrite import is_scalar, is_vector_like, length
+from dualize.model.functions import ABS
+from dualize.solvergen.calculus import NotDifferentiable, jacobian
+from dualize.solvergen.ir_rewrite import is_scalar, is_vector_like, length
 
 Part = tuple[ir.Expr, str, ir.Expr]
 """A constraint ``lhs relation rhs``, relation one of ``<=``, ``>=``, ``=``."""
@@ -112,7 +113,7 @@ def _kink(node: ir.Expr) -> str | None:
     """The name of a piecewise-linear node, or None for any other node."""
     if isinstance(node, ir.Extremum):
         return _KINDS[node.kind]
-    if isinstance(node, ir.Apply) and node.func == "abs":
+    if isinstance(node, ir.Apply) and node.func == ABS.name:
         return _KINDS["abs"]
     if isinstance(node, ir.Norm) and node.p in ("1", "inf"):
         return _KINDS[node.p]
@@ -267,7 +268,7 @@ class _Lifter:
         return _shaped(t, expr.shape)
 
     def _Apply(self, expr: ir.Apply, sign: int) -> ir.Expr:  # noqa: N802
-        if expr.func != "abs":
+        if expr.func != ABS.name:
             self.refuse(f"the function {expr.func}")
         if sign < 0:
             self.refuse("a negative weight, where an absolute value has no epigraph form")

@@ -22,7 +22,8 @@ from sympy.printing.printer import Printer
 
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
-from dualize.render.ir_rewrite import LogSumExp, Softmax, is_scalar, is_vector_like
+from dualize.model.functions import LOG, lookup
+from dualize.solvergen.ir_rewrite import LogSumExp, Softmax, is_scalar, is_vector_like
 
 RESERVED = frozenset({"np", "scipy", "json", "sys", "d", "z", "x", "p", "c", "math"})
 """Names the generated module uses itself; user names equal to these get a suffix."""
@@ -230,7 +231,7 @@ class NumpyPrinter(Printer):
 
     def _print_ir_Hadamard(self, expr: ir.Hadamard) -> str:  # noqa: N802
         left, right = expr.left, expr.right
-        if isinstance(right, ir.Apply) and right.func == "log" and right.arg == left:
+        if isinstance(right, ir.Apply) and right.func == LOG.name and right.arg == left:
             return f"scipy.special.xlogy({self._print(left)}, {self._print(left)})"
         return f"({self._print(left)} * {self._print(right)})"
 
@@ -247,7 +248,7 @@ class NumpyPrinter(Printer):
         return f"({base} ** ({exponent.p} / {exponent.q}))"
 
     def _print_ir_Apply(self, expr: ir.Apply) -> str:  # noqa: N802
-        return f"np.{expr.func}({self._arg(expr.arg)})"
+        return lookup(expr.func).numpy.code(self._arg(expr.arg))
 
     def _print_ir_Extremum(self, expr: ir.Extremum) -> str:  # noqa: N802
         func = "np.maximum" if expr.kind == "max" else "np.minimum"

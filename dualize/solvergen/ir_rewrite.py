@@ -15,6 +15,8 @@ from dataclasses import dataclass, replace
 import sympy
 
 from dualize.model import expr as ir
+from dualize.model.functions import EXP, LOG
+from dualize.model.ops import is_zero
 
 
 @dataclass(frozen=True)
@@ -114,10 +116,6 @@ def _zero_like(expr: ir.Expr) -> ir.Expr:
     return ir.Number(sympy.Integer(0)) if is_scalar(expr) else ir.Zero(expr.shape)
 
 
-def _is_zero(expr: ir.Expr) -> bool:
-    return isinstance(expr, ir.Zero) or _is_number(expr, 0)
-
-
 def _add(expr: ir.Add) -> ir.Expr:
     counts: dict[ir.Expr, sympy.Expr] = {}
     for term in _flat_terms(expr.terms):
@@ -138,7 +136,7 @@ def _flat_terms(terms: tuple[ir.Expr, ...]) -> list[ir.Expr]:
     for term in terms:
         if isinstance(term, ir.Add):
             out.extend(_flat_terms(term.terms))
-        elif not _is_zero(term):
+        elif not is_zero(term):
             out.append(term)
     return out
 
@@ -159,7 +157,7 @@ def _with_coefficient(coeff: sympy.Expr, base: ir.Expr) -> ir.Expr:
 
 def _scale(expr: ir.Scale) -> ir.Expr:
     factor, arg = expr.factor, expr.arg
-    if _is_zero(factor) or _is_zero(arg):
+    if is_zero(factor) or is_zero(arg):
         return _zero_like(arg)
     if _is_number(factor, 1):
         return arg
@@ -203,7 +201,7 @@ def _matmul(expr: ir.MatMul) -> ir.Expr:
     scalars: list[ir.Expr] = []
     for factor in expr.factors:
         _collect_factor(factor, factors, scalars)
-    if any(_is_zero(f) for f in factors):
+    if any(is_zero(f) for f in factors):
         return ir.Zero(expr.shape)
     factors = [f for f in factors if not isinstance(f, ir.Identity)] or factors[:1]
     factors = _merge_diagonals(factors)
@@ -267,7 +265,7 @@ def _diagonal_to_elementwise(expr: ir.Expr) -> ir.Expr:
 
 def _hadamard(expr: ir.Hadamard) -> ir.Expr:
     left, right = expr.left, expr.right
-    if _is_zero(left) or _is_zero(right):
+    if is_zero(left) or is_zero(right):
         return ir.Zero(expr.shape)
     for one, other in ((left, right), (right, left)):
         if isinstance(one, ir.Power) and one.exponent == -1 and one.base == other:
@@ -297,7 +295,7 @@ def _apply(expr: ir.Apply) -> ir.Expr:
 def _log(expr: ir.Apply) -> ir.Expr:
     """log(sum(exp(u))) in either spelling becomes LogSumExp(u)."""
     arg = expr.arg
-    if expr.func != "log":
+    if expr.func != LOG.name:
         return expr
     inner = None
     if isinstance(arg, ir.SumAll):
@@ -308,7 +306,7 @@ def _log(expr: ir.Apply) -> ir.Expr:
             isinstance(head, ir.Transpose) and isinstance(head.arg, ir.Ones)
         ):
             inner = tail
-    if isinstance(inner, ir.Apply) and inner.func == "exp":
+    if isinstance(inner, ir.Apply) and inner.func == EXP.name:
         return LogSumExp(inner.arg)
     return expr
 

@@ -33,11 +33,12 @@ import sympy
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
+from dualize.model.functions import lookup
 from dualize.model.problem import Variable
-from dualize.render.calculus import NotDifferentiable, gradient, jacobian
-from dualize.render.ir_rewrite import length, normalize
-from dualize.render.solver_emit import Emitter, function
-from dualize.render.solver_lift import MINUS, Lift, Part, Subject, epigraph_lift
+from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
+from dualize.solvergen.ir_rewrite import length, normalize
+from dualize.solvergen.solver_emit import Emitter, function
+from dualize.solvergen.solver_lift import MINUS, Lift, Part, Subject, epigraph_lift
 
 PRIMAL = Subject("_epi", "primal", "the unrecovered variables", "",
                  "the recovery lifts convex piecewise-linear terms only")
@@ -291,7 +292,7 @@ def _domain_arguments(expr: ir.Expr, names: set[str]) -> list[ir.Expr]:
     found: list[ir.Expr] = []
     for node in ir.walk(expr):
         arg = None
-        if isinstance(node, ir.Apply) and node.func in ("log", "sqrt"):
+        if isinstance(node, ir.Apply) and lookup(node.func).keep_positive:
             arg = node.arg
         elif isinstance(node, ir.Power) and not sympy.Rational(node.exponent).is_integer:
             arg = node.base

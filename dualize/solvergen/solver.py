@@ -2,26 +2,27 @@
 
 ``render_solver(derivation)`` prints every numeric function of the module from
 the symbolic results (objective, gradient, constraint Jacobians, recovery
-formulas, the primal objective and constraints) with our numpy printer, and a
-jinja2 template arranges those strings around a fixed runtime (input
-checking, the solver calls, the report).  The module needs only numpy and
-scipy, reads data by string key and pastes no user text except validated
-identifiers.
+formulas, the primal objective and constraints) with our numpy printer and binds
+them in a ``Spec``; a jinja2 template lays those strings out after the runtime,
+the source of ``runtime*.py`` copied verbatim (input checking, the methods, the
+report).  The module needs only numpy and scipy, reads data by string key and
+pastes no user text except validated identifiers.
 """
 
 from __future__ import annotations
 
 import json
+from pathlib import Path
 
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.render.caution import CAUTION
-from dualize.render.ir_rewrite import length
-from dualize.render.python_code import python_names
-from dualize.render.solver_emit import Emitter, Scope, function
-from dualize.render.solver_plan import Plan, is_conic, make_plan
-from dualize.render.solver_recover import (
+from dualize.solvergen.ir_rewrite import length
+from dualize.solvergen.python_code import python_names
+from dualize.solvergen.solver_emit import Emitter, Scope, function
+from dualize.solvergen.solver_plan import Plan, is_conic, make_plan
+from dualize.solvergen.solver_recover import (
     Rule,
     choose,
     lagrangian,
@@ -31,7 +32,23 @@ from dualize.render.solver_recover import (
     rule_text,
     unknowns,
 )
-from dualize.render.solver_text import docstring
+from dualize.solvergen.solver_text import docstring
+
+RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_recover", "runtime_report")
+"""The runtime modules, in the order their sources are copied into a generated module."""
+MARKER = "# ---- copied into the generated module from here ----\n"
+
+
+def runtime_source() -> str:
+    """The runtime's source as the generated module carries it: each module below its marker."""
+    folder = Path(__file__).resolve().parent
+    bodies = []
+    for name in RUNTIME:
+        _, marker, body = (folder / f"{name}.py").read_text(encoding="utf-8").partition(MARKER)
+        if not marker:
+            raise DualizeError(f"the runtime module {name}.py has lost its marker line", 3)
+        bodies.append(body.strip("\n"))
+    return "\n\n\n".join(bodies)
 
 
 def render_solver(derivation: Derivation) -> str:
@@ -208,22 +225,41 @@ def _size_spec(size: object) -> str:
     raise DualizeError(f"cannot generate a solver: a data size {text} is not a plain name", 2)
 
 
-def _tables(
-    derivation: Derivation, scope: Scope, auxiliary: tuple[ir.Symbol, ...] = ()
-) -> dict[str, str]:
+def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagrangian: bool,
+          constant_hessian: bool, printed: bool) -> list[tuple[str, str]]:
+    """The keyword arguments of the module's ``Spec``, as code."""
     problem = derivation.problem
     dual = derivation.dual
-    return {
-        "declarations": _declarations(derivation, scope),
-        "dims": json.dumps(sorted(str(s) for s in problem.dims)),
-        "dual_names": json.dumps([v.name for v in dual.variables]),
-        "dual_scalar": repr([v.symbol.shape.is_scalar for v in dual.variables]),
-        "auxiliary_scalar": repr([s.shape.is_scalar for s in auxiliary]),
-        "primal_names": json.dumps([v.name for v in problem.variables]),
-        "primal_scalar": repr([v.symbol.shape.is_scalar for v in problem.variables]),
-        "dual_sense": json.dumps(dual.sense),
-        "primal_sense": json.dumps(problem.sense),
-    }
+    entries = [
+        ("method", json.dumps(method)),
+        ("dual_names", json.dumps([v.name for v in dual.variables])),
+        ("dual_sense", json.dumps(dual.sense)),
+        ("primal_sense", json.dumps(problem.sense)),
+        ("primal_names", json.dumps([v.name for v in problem.variables])),
+        ("primal_scalar", repr([v.symbol.shape.is_scalar for v in problem.variables])),
+        ("scalars", "SCALARS"),
+        ("data", "DATA"),
+        ("dims", "DIMS"),
+        ("unrecovered", json.dumps(dict(sorted(missing.items())))),
+        ("by_lagrangian", repr(by_lagrangian)),
+        ("constant_hessian", repr(constant_hessian)),
+        ("caution", json.dumps(CAUTION)),
+    ]
+    if printed:
+        entries += [(name, f"_{code}") for name, code in _PRINTED]
+    return entries
+
+
+_PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "objective"),
+            ("gradient", "gradient"), ("hessian", "hessian"), ("bounds", "bounds"),
+            ("constraints", "constraints"), ("recover", "recover"), ("primal", "primal"),
+            ("unknowns", "unknowns"), ("restricted", "restricted"), ("lagrangian", "lagrangian"),
+            ("lagrangian_domain", "lagrangian_domain"))
+
+
+def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
+    dual = [v.symbol.shape.is_scalar for v in derivation.dual.variables]
+    return repr(dual + [s.shape.is_scalar for s in auxiliary])
 
 
 def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str:
@@ -250,14 +286,13 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
     return fill(
         "solver.py.j2",
         docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
-        method=json.dumps(plan.method),
-        constant_hessian=repr(plan.constant_hessian),
-        caution=json.dumps(CAUTION),
-        conic=False,
-        missing=json.dumps(dict(sorted(missing.items()))),
-        lagrangian=repr(rule.kind == "lagrangian"),
+        runtime=runtime_source(),
+        declarations=_declarations(derivation, scope),
+        dims=json.dumps(sorted(str(s) for s in derivation.problem.dims)),
+        scalars=_scalars(derivation, plan.auxiliary),
         functions="\n\n\n".join(functions),
-        **_tables(derivation, scope, plan.auxiliary),
+        spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",
+                   plan.constant_hessian, True),
     )
 
 
@@ -268,12 +303,10 @@ def _render_conic(derivation: Derivation, scope: Scope) -> str:
     return fill(
         "solver.py.j2",
         docstring=docstring(derivation, "conic", reason, {}),
-        method=json.dumps("conic"),
-        constant_hessian="False",
-        caution=json.dumps(CAUTION),
-        conic=True,
-        missing="{}",
-        lagrangian="False",
+        runtime=runtime_source(),
+        declarations=_declarations(derivation, scope),
+        dims=json.dumps(sorted(str(s) for s in derivation.problem.dims)),
+        scalars=_scalars(derivation, ()),
         functions="",
-        **_tables(derivation, scope),
+        spec=_spec(derivation, "conic", {}, False, False, False),
     )

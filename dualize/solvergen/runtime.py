@@ -1,0 +1,252 @@
+"""The runtime of every generated solver module: its tolerances, tables and input checks.
+
+The generator copies the source below the marker line of this module and of
+``runtime_methods``, ``runtime_interior``, ``runtime_recover`` and ``runtime_report``
+(in that order) verbatim into each module it emits, after which come the functions
+printed for the dual and a ``Spec`` that binds them.  The emitted module thus needs
+only numpy and scipy (and, for a conic dual, clarabel), yet its runtime is an ordinary,
+linted module with unit tests of its own.  The imports above a marker serve linting
+and the tests only.
+"""
+
+import json
+from dataclasses import dataclass, field
+
+import numpy as np
+
+# ---- copied into the generated module from here ----
+
+GAP_TOL = 1e-6
+"""A report is certified when primal minus dual value is within GAP_TOL * (1 + |p| + |d|)."""
+VIOLATION_TOL = 1e-6
+"""... and the largest primal constraint violation at the recovered point within VIOLATION_TOL."""
+CERTIFY = GAP_TOL
+"""A minimizer of the Lagrangian is kept as x only when it passes the same two tests."""
+MAX_DEPTH = 32
+"""The deepest nesting of lists an instance file may hold (a matrix needs two)."""
+
+
+@dataclass(frozen=True)
+class Spec:
+    """What the generator printed for one dual: the tables and the numeric functions.
+
+    Every function takes the prepared data ``d``; dual functions take the stacked
+    multipliers (and epigraph variables) ``z``, primal ones a dict ``x`` of variables.
+    """
+
+    method: str
+    dual_names: list
+    dual_sense: str = "maximize"
+    primal_sense: str = "minimize"
+    primal_names: list = field(default_factory=list)
+    primal_scalar: list = field(default_factory=list)
+    scalars: list = field(default_factory=list)
+    data: list = field(default_factory=list)
+    dims: list = field(default_factory=list)
+    unrecovered: dict = field(default_factory=dict)
+    by_lagrangian: bool = False
+    constant_hessian: bool = False
+    prepare: object = None
+    sizes: object = None
+    objective: object = None
+    gradient: object = None
+    hessian: object = None
+    bounds: object = None
+    constraints: object = None
+    recover: object = None
+    primal: object = None
+    unknowns: object = None
+    restricted: object = None
+    lagrangian: object = None
+    lagrangian_domain: object = None
+    caution: str = ""
+
+
+class InputError(Exception):
+    """Bad instance data: reported in one line, exit status 2."""
+
+
+class NoFiniteDual(Exception):
+    """A method proved the dual has no finite optimum: ``kind`` is "unbounded" (the dual
+    grows without bound, so the primal is infeasible) or "infeasible" (no dual point)."""
+
+    def __init__(self, kind, message):
+        super().__init__(message)
+        self.kind = kind
+
+
+def _flat(value, size):
+    return np.broadcast_to(np.asarray(value, dtype=float), (size,)).astype(float)
+
+
+def _block(value, rows, cols):
+    value = np.asarray(value, dtype=float)
+    if value.size == 1 and rows * cols != 1:
+        return np.broadcast_to(value.reshape(()), (rows, cols)).astype(float)
+    return value.reshape(rows, cols)
+
+
+def _split(z, sizes, scalars):
+    """The stacked vector z cut into one part per variable; scalars as numbers."""
+    if not sizes:
+        return []
+    parts = np.split(np.asarray(z, dtype=float), np.cumsum(sizes)[:-1])
+    return [np.float64(q[0]) if scalar else q for q, scalar in zip(parts, scalars, strict=True)]
+
+
+def _unique_keys(pairs):
+    """A JSON object hook that refuses a name given twice (the later would win silently)."""
+    seen = {}
+    for key, value in pairs:
+        if key in seen:
+            raise InputError(f"the name {key!r} is given twice")
+        seen[key] = value
+    return seen
+
+
+def _no_constant(text):
+    raise InputError(f"{text} is not a number an instance may hold")
+
+
+def _finite_float(text):
+    value = float(text)
+    if not np.isfinite(value):
+        raise InputError(f"the number {text[:40]} is beyond the floating-point range")
+    return value
+
+
+def _checked_int(text):
+    value = int(text)
+    if abs(value) > 1e300:
+        raise InputError(f"the number {text[:40]}... is beyond the floating-point range")
+    return value
+
+
+def load_instance(raw):
+    """The instance in the bytes ``raw``: a JSON object of names to numbers or nested lists.
+
+    Strict where ``json`` is lenient: UTF-8 only, no repeated names, no NaN or
+    Infinity, no number past the float range, nesting at most MAX_DEPTH deep.
+    """
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as err:
+        raise InputError(f"the instance is not valid UTF-8 (byte {err.start})") from None
+    try:
+        data = json.loads(text, object_pairs_hook=_unique_keys, parse_constant=_no_constant,
+                          parse_float=_finite_float, parse_int=_checked_int)
+    except RecursionError:
+        raise InputError("the instance is nested too deeply") from None
+    except ValueError as err:
+        raise InputError(f"the instance is not valid JSON: {err}") from None
+    _depth(data, 0)
+    return data
+
+
+def _depth(value, level):
+    if level > MAX_DEPTH:
+        raise InputError(f"the instance is nested more than {MAX_DEPTH} levels deep")
+    items = value.values() if isinstance(value, dict) else value if isinstance(value, list) \
+        else ()
+    for item in items:
+        _depth(item, level + 1)
+
+
+def _numbers_only(name, value, level=0):
+    """Refuse what numpy would quietly turn into a number: true/false, strings, objects."""
+    if isinstance(value, bool):
+        raise InputError(f"{name}: holds true/false where a number belongs")
+    if isinstance(value, list):
+        if level >= 2:
+            raise InputError(f"{name}: nested deeper than a matrix")
+        for item in value:
+            _numbers_only(name, item, level + 1)
+    elif not isinstance(value, int | float):
+        raise InputError(f"{name}: not a number or a (nested) list of numbers")
+
+
+def _bind_size(size, length, name, dims):
+    if isinstance(size, int):
+        if size != length:
+            raise InputError(f"{name}: expected size {size}, got {length}")
+        return
+    if dims.setdefault(size, length) != length:
+        raise InputError(f"{name}: size {length} disagrees with {size} = {dims[size]}")
+
+
+def _array(name, value):
+    _numbers_only(name, value)
+    try:
+        with np.errstate(all="ignore"):
+            array = np.asarray(value, dtype=float)
+    except (TypeError, ValueError, OverflowError):
+        raise InputError(f"{name}: not a number or a rectangular list of numbers") from None
+    if not np.all(np.isfinite(array)):
+        raise InputError(f"{name}: contains a value that is not finite")
+    return array
+
+
+def _check_facts(name, array, facts):
+    if "pos" in facts and not np.all(array > 0):
+        raise InputError(f"{name}: must be positive")
+    if "nonneg" in facts and not np.all(array >= 0):
+        raise InputError(f"{name}: must be nonnegative")
+    if {"symmetric", "psd", "pd"} & set(facts):
+        if array.ndim != 2 or not np.allclose(array, array.T, rtol=1e-9, atol=1e-12):
+            raise InputError(f"{name}: must be a symmetric matrix")
+        low = np.linalg.eigvalsh(array).min() if array.size else 0.0
+        if "pd" in facts and low <= 0:
+            raise InputError(f"{name}: must be positive definite")
+        if "psd" in facts and low < -1e-9 * max(1.0, np.abs(array).max()):
+            raise InputError(f"{name}: must be positive semidefinite")
+
+
+def _read_one(name, value, rows, cols, dims):
+    array = _array(name, value)
+    if rows == 1 and cols == 1:
+        if array.size != 1:
+            raise InputError(f"{name}: expected a number")
+        return float(array.reshape(()))
+    if rows == 1 or cols == 1:
+        if array.ndim != 1:
+            raise InputError(f"{name}: expected a flat list (a vector)")
+        _bind_size(cols if rows == 1 else rows, array.shape[0], name, dims)
+        return array
+    if array.ndim != 2:
+        raise InputError(f"{name}: expected a matrix (a list of rows)")
+    _bind_size(rows, array.shape[0], name, dims)
+    _bind_size(cols, array.shape[1], name, dims)
+    return array
+
+
+def _read_dims(p, data):
+    dims = {}
+    for name in p.dims:
+        if name in data:
+            value = data[name]
+            if isinstance(value, bool) or not isinstance(value, int) or value < 1:
+                raise InputError(f"{name}: a dimension must be a positive integer")
+            dims[name] = value
+    return dims
+
+
+def _read(p, data):
+    """The instance's data checked against the declarations, sizes bound, facts tested."""
+    if not isinstance(data, dict):
+        raise InputError("the instance must be a JSON object mapping names to values")
+    known = {row[0] for row in p.data} | set(p.dims)
+    unknown = sorted(set(data) - known)
+    if unknown:
+        raise InputError(f"unknown name(s) in the instance: {', '.join(unknown)}")
+    dims = _read_dims(p, data)
+    values = {}
+    for name, rows, cols, facts in p.data:
+        if name not in data:
+            raise InputError(f"missing data: {name}")
+        values[name] = _read_one(name, data[name], rows, cols, dims)
+        _check_facts(name, np.asarray(values[name]), facts)
+    missing = [name for name in p.dims if name not in dims]
+    if missing:
+        raise InputError(f"give the size(s) {', '.join(missing)} in the instance")
+    values.update(dims)
+    return values

@@ -1,0 +1,196 @@
+"""The generated module's recovery of the primal solution from the multipliers found.
+
+Everything below the marker line is copied verbatim into each generated module; the
+imports above it serve linting and the unit tests only.
+"""
+
+import numpy as np
+import scipy.optimize
+
+from dualize.solvergen.runtime import CERTIFY
+from dualize.solvergen.runtime_methods import _start, _walled
+
+# ---- copied into the generated module from here ----
+
+
+def _fill_unrecovered(p, x, z, d, dual_value):
+    """The unrecovered variables from the primal's LP, else from minimizing the Lagrangian.
+
+    Returns (None, how they were found) or (the reasons neither applied, None).
+    """
+    failure = _fill_by_linear_program(p, x, d)
+    if failure is None:
+        return None, "the primal as a linear program in the unrecovered variables (HiGHS)"
+    if not p.by_lagrangian:
+        return failure, None
+    more = _fill_by_lagrangian(p, x, z, d, dual_value)
+    if more is None:
+        return None, "a numeric minimization of the Lagrangian at the optimal multipliers " \
+            "(L-BFGS-B), certified by the duality gap and the constraint violation"
+    return f"{failure}; {more}", None
+
+
+def _fill_by_linear_program(p, x, d):
+    """Solve the primal over the unrecovered variables, the others held (an LP), when it is one.
+
+    ``p.restricted`` gives the linear program, epigraph variables included; only the
+    primal variables of its solution are kept.
+    """
+    pieces = p.restricted(x, d)
+    if isinstance(pieces, str):
+        return pieces
+    c, rows, variables = pieces
+    ub = [(j, -v) for relation, v, j in rows if relation == "<="]
+    eq = [(j, -v) for relation, v, j in rows if relation == "="]
+    bounds = [(lo, hi) for _, size, lo, hi in variables for _ in range(size)]
+    res = scipy.optimize.linprog(
+        c, A_ub=np.vstack([j for j, _ in ub]) if ub else None,
+        b_ub=np.concatenate([b for _, b in ub]) if ub else None,
+        A_eq=np.vstack([j for j, _ in eq]) if eq else None,
+        b_eq=np.concatenate([b for _, b in eq]) if eq else None,
+        bounds=bounds, method="highs",
+    )
+    if res.status != 0:
+        return f"the linear program over the unrecovered variables failed: {res.message}"
+    values = np.split(res.x, np.cumsum([size for _, size, _, _ in variables])[:-1])
+    _place(p, x, [(name, size) for name, size, _, _ in variables], values)
+    return None
+
+
+def _place(p, x, sizes, values):
+    """Put the primal variables among ``values`` into x (epigraph variables are dropped)."""
+    for (name, size), value in zip(sizes, values, strict=True):
+        if name in p.primal_names:
+            scalar = size == 1 and p.primal_scalar[p.primal_names.index(name)]
+            x[name] = float(value[0]) if scalar else value
+
+
+def _fill_by_lagrangian(p, x, z, d, dual_value):
+    """Minimize L(x, multipliers in z) over the unrecovered variables; keep x if certified.
+
+    At optimal multipliers every primal optimum minimizes the Lagrangian, and a unique
+    minimizer is the primal optimum; uniqueness is not known here, so the duality gap
+    and the constraint violation at the minimizer decide.
+    """
+    if dual_value is None:
+        return "the dual solve did not converge, so no gap can certify a minimizer of the " \
+            "Lagrangian"
+    spec = p.unknowns(d)
+    sizes = [(name, size) for name, size, _, _ in spec]
+    lo = np.concatenate([np.full(size, low, dtype=float) for _, size, low, _ in spec])
+    hi = np.concatenate([np.full(size, high, dtype=float) for _, size, _, high in spec])
+
+    def placed(u):
+        trial = dict(x)
+        _place(p, trial, sizes, np.split(u, np.cumsum([size for _, size in sizes])[:-1]))
+        return trial
+
+    def fun(u):
+        with np.errstate(all="ignore"):
+            return p.lagrangian(placed(u), z, d)
+
+    start = _lagrangian_start(p, fun, x, d, lo, hi)
+    if isinstance(start, str):
+        return start
+    res = scipy.optimize.minimize(
+        _walled(fun, start), start, jac=True, method="L-BFGS-B",
+        bounds=scipy.optimize.Bounds(lo, hi),
+        options={"maxiter": 20000, "ftol": 1e-15, "gtol": 1e-11, "maxcor": 30},
+    )
+    candidate = placed(res.x)
+    doubt = _uncertified(p, candidate, d, dual_value)
+    if doubt:
+        return f"a numeric minimization of the Lagrangian (L-BFGS-B: {res.message}) gave an x " \
+            f"{doubt}; the Lagrangian may have many minimizers, not all of them primal optimal"
+    x.update(candidate)
+    return None
+
+
+def _finite(fun, u):
+    value, grad = fun(u)
+    return bool(np.isfinite(value) and np.all(np.isfinite(grad)))
+
+
+def _lagrangian_start(p, fun, x, d, lo, hi):
+    """A start where L and its gradient are finite: 0 or the middle of the bounds, else the
+    point of a linear program that keeps every argument of L's logarithms, roots and real
+    powers at least s > 0 (s at most 1, the largest such s); or the reason there is none."""
+    start = _start(lo, hi)
+    if _finite(fun, start):
+        return start
+    rows = p.lagrangian_domain(x, d)
+    if isinstance(rows, str) or not rows:
+        why = rows if isinstance(rows, str) else "nothing tells where it is finite"
+        return f"the Lagrangian is not finite at the start point and {why}"
+    jac = np.vstack([j for _, j in rows])
+    value = np.concatenate([v for v, _ in rows])
+    size = len(start)
+    res = scipy.optimize.linprog(
+        np.concatenate([np.zeros(size), [-1.0]]),
+        A_ub=np.hstack([-jac, np.ones((len(value), 1))]), b_ub=value,
+        bounds=[*zip(lo, hi, strict=True), (-np.inf, 1.0)], method="highs",
+    )
+    if res.status != 0 or res.x[-1] <= 0:
+        return "no point keeps every argument of the Lagrangian's logarithms, roots and real " \
+            "powers positive, so the Lagrangian is finite nowhere"
+    if not _finite(fun, res.x[:size]):
+        return "the Lagrangian is not finite at the interior point found for it"
+    return res.x[:size]
+
+
+def _uncertified(p, candidate, d, dual_value):
+    """Why ``candidate`` is not certified primal optimal (empty when it is)."""
+    with np.errstate(all="ignore"):
+        value, parts = p.primal(candidate, d)
+    violation = _violation(parts)
+    gap = value - dual_value if p.primal_sense == "minimize" else dual_value - value
+    if not (np.isfinite(value) and np.isfinite(violation)):
+        return "where the primal is not finite"
+    if violation > CERTIFY or abs(gap) > CERTIFY * (1.0 + abs(dual_value)):
+        return f"with duality gap {gap:.3g} and constraint violation {violation:.3g}, too large " \
+            "to certify it"
+    return ""
+
+
+def _violation(parts):
+    worst = 0.0
+    for kind, value in parts:
+        value = np.asarray(value, dtype=float)
+        if kind == "ineq":
+            worst = max(worst, float(np.max(value, initial=0.0)))
+        elif kind == "eq":
+            worst = max(worst, float(np.max(np.abs(value), initial=0.0)))
+        else:
+            worst = max(worst, float(np.linalg.eigvalsh(value).max()))
+    return worst
+
+
+def _listed(value):
+    return np.asarray(value, dtype=float).tolist()
+
+
+def _primal_report(p, z, d, dual_value):
+    """x, the primal value and violation at it, the reasons for what is missing, and how
+    each variable was found; ``dual_value`` is None when the dual solve did not converge."""
+    with np.errstate(all="ignore"):
+        x = p.recover(z, d)  # not finite off the dual's domain: reported below
+    how = {name: "its recovery formula at the optimal multipliers" for name in x}
+    reasons = {}
+    if p.unrecovered:
+        failure, found = _fill_unrecovered(p, x, z, d, dual_value)
+        if failure:
+            reasons = {name: f"{note}; {failure}" for name, note in p.unrecovered.items()}
+        else:
+            how.update({name: found for name in p.unrecovered})
+    for name in p.primal_names:
+        if name in x and not np.all(np.isfinite(x[name])):
+            reasons[name] = "its recovery formula is not finite at these multipliers (a " \
+                "multiplier sits where the Lagrangian's minimizer runs off to infinity): " \
+                "the primal optimum may not be attained"
+            del x[name]
+            how.pop(name, None)
+    if reasons:
+        return {name: (_listed(x[name]) if name in x else None) for name in p.primal_names}, \
+            None, None, reasons, how
+    value, parts = p.primal(x, d)
+    return {name: _listed(x[name]) for name in p.primal_names}, value, _violation(parts), {}, how
