@@ -14,7 +14,7 @@ import sympy
 
 from dualize.analysis.at_zero import Undefined, at_zero
 from dualize.analysis.convexity import Convexity
-from dualize.analysis.dcp import curvature
+from dualize.analysis.convexity_calculus import curvature
 from dualize.analysis.report import Verdict
 from dualize.analysis.sign_rules import sign
 from dualize.model import expr as E

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dualize.analysis import rules as R
 from dualize.analysis.convexity import Convexity
-from dualize.analysis.dcp import curvature
+from dualize.analysis.convexity_calculus import curvature
 from dualize.analysis.forms import gram_middle, pull_scalars
 from dualize.analysis.measured import Measured
 from dualize.diagnostics import Diagnostic, make

@@ -11,6 +11,7 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING, Any
 
+from dualize.numeric.solution import status_word
 from dualize.render.caution import REVIEW
 
 if TYPE_CHECKING:
@@ -76,7 +77,8 @@ def _verify_instance(c: InstanceCheck) -> dict[str, Any]:
     return {
         "source": c.source, "seed": c.seed,
         "primal_value": number(c.primal_value), "dual_value": number(c.dual_value),
-        "gap": number(c.gap), "primal_status": c.primal_status, "dual_status": c.dual_status,
+        "gap": number(c.gap), "primal_status": status_word(c.primal_status),
+        "dual_status": status_word(c.dual_status),
         "multiplier_error": number(c.multiplier_error), "weak_duality_ok": c.weak_duality_ok,
         "note": c.note,
     }
@@ -87,7 +89,7 @@ VERIFY_HEADER = ["instance", "primal", "dual", "gap", "statuses", "multiplier er
 
 def _verify_rows(report: VerifyReport) -> list[list[str]]:
     return [[_label(c.source, c.seed), cell(c.primal_value), cell(c.dual_value), cell(c.gap),
-             f"{c.primal_status}/{c.dual_status}", cell(c.multiplier_error)]
+             _statuses(c.primal_status, c.dual_status), cell(c.multiplier_error)]
             for c in report.checks]
 
 
@@ -117,6 +119,11 @@ def _weak_clause(convex: bool | None, sense: str) -> str:
     if convex is True:
         return ""
     return "; " + (WEAK_ONLY if sense == "minimize" else WEAK_ONLY_MAX)
+
+
+def _statuses(*statuses: str) -> str:
+    """``solved/solved``: each solve's status in the program's own words."""
+    return "/".join(map(status_word, statuses))
 
 
 def _label(source: str, seed: int | None) -> str:
@@ -151,9 +158,9 @@ def _check_instance(i: Any) -> dict[str, Any]:
     v = i.values
     return {
         "source": v.source, "seed": v.seed,
-        "primal_value": number(v.primal_value), "primal_status": v.primal_status,
-        "dual_value": number(v.dual_value), "dual_status": v.dual_status,
-        "claim_value": number(v.claim_value), "claim_status": v.claim_status,
+        "primal_value": number(v.primal_value), "primal_status": status_word(v.primal_status),
+        "dual_value": number(v.dual_value), "dual_status": status_word(v.dual_status),
+        "claim_value": number(v.claim_value), "claim_status": status_word(v.claim_status),
         "gap": number(i.gap), "exceeds_primal": i.exceeds, "agrees_with_dual": i.agrees,
         "note": v.note,
     }
@@ -165,7 +172,7 @@ CHECK_HEADER = ["instance", "primal p", "derived dual d", "claim c", "p - c", "s
 def _check_rows(report: ClaimReport) -> list[list[str]]:
     return [[_label(i.values.source, i.values.seed), cell(i.values.primal_value),
              cell(i.values.dual_value), cell(i.values.claim_value), cell(_signed(i, report)),
-             f"{i.values.primal_status}/{i.values.dual_status}/{i.values.claim_status}"]
+             _statuses(i.values.primal_status, i.values.dual_status, i.values.claim_status)]
             for i in report.instances]
 
 

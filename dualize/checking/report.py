@@ -24,6 +24,7 @@ from dualize.checking.verdict import (
 from dualize.duality.result import Derivation
 from dualize.model.problem import Problem
 from dualize.numeric.instance import Instance
+from dualize.numeric.solution import status_word
 
 Progress = Callable[[list[Any]], Iterable[Any]]
 
@@ -154,7 +155,7 @@ def _invalid_sentence(pairs: Pairs) -> str:
 
 def _broken_sentence(pairs: Pairs) -> str:
     v = next(v for r, v in pairs if r.broken)
-    return f"on {_where(v)} the claim is {v.claim_status}, while " + _finite_side(v)
+    return f"on {_where(v)} the claim is {status_word(v.claim_status)}, while " + _finite_side(v)
 
 
 def _loose_sentence(pairs: Pairs) -> str:
@@ -170,15 +171,17 @@ _HEADLINES = {INVALID: _invalid_sentence, INFEASIBLE: _broken_sentence,
 def _undecided_sentence(values: list[Values]) -> str:
     if not values:
         return "no instance was checked"
-    statuses = sorted({f"{v.primal_status}/{v.dual_status}/{v.claim_status}" for v in values})
+    statuses = sorted({"/".join(map(status_word, (v.primal_status, v.dual_status,
+                                                   v.claim_status))) for v in values})
     return ("no instance decided the question (primal/dual/claim statuses: "
             + ", ".join(statuses) + ")")
 
 
 def _finite_side(v: Values) -> str:
     if usable(v.dual_value, v.dual_status):
-        return f"the derived dual has the value {v.dual_value:.10g} ({v.dual_status})"
-    return f"the primal has the value {v.primal_value:.10g} ({v.primal_status})"
+        return (f"the derived dual has the value {v.dual_value:.10g} "
+                f"({status_word(v.dual_status)})")
+    return f"the primal has the value {v.primal_value:.10g} ({status_word(v.primal_status)})"
 
 
 def _where(v: Values) -> str:

@@ -108,7 +108,7 @@ def _solve_continuous(problem: Problem, instance: Instance,
     except (ValueError, TypeError, ArithmeticError) as err:
         return _nonconvex(problem, instance, fixed, f"not certifiably convex: {err}")
     if not built.prob.is_dcp():
-        return _nonconvex(problem, instance, fixed, "not certifiably convex (DCP)")
+        return _nonconvex(problem, instance, fixed, "not certified convex by the reference's rules")
     status = run_solver(built.prob)
     return built.solution(status, problem.sense)
 
@@ -248,7 +248,7 @@ def solve_dual(dual: DualProblem, instance: Instance) -> Solution:
     except (ValueError, TypeError, ArithmeticError) as err:
         return _local_dual(dual, instance, f"dual not certifiably concave: {err}")
     if not built.prob.is_dcp():
-        return _local_dual(dual, instance, "dual not certifiably concave (DCP)")
+        return _local_dual(dual, instance, "dual not certified concave by the reference's rules")
     status = run_solver(built.prob)
     return built.solution(status, dual.sense)
 

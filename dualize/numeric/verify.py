@@ -32,6 +32,7 @@ from dualize.numeric.dual_value import SOLVED, dual_function_value
 from dualize.numeric.instance import Instance
 from dualize.numeric.random_data import random_instance
 from dualize.numeric.samples import WeakDualitySamples, weak_duality_samples
+from dualize.numeric.solution import status_word
 from dualize.numeric.tolerance import tolerance
 
 __all__ = ["InstanceCheck", "VerifyReport", "WeakDualitySamples", "check_instance",
@@ -150,9 +151,10 @@ def summarize(checks: tuple[InstanceCheck, ...]) -> VerifyReport:
     max_gap = max((abs(c.gap) for c in usable), default=float("nan"))
     if messages or not usable:
         if not usable and not messages:
+            pairs = {f"{status_word(c.primal_status)}/{status_word(c.dual_status)}"
+                     for c in checks}
             messages.append("no instance gave two comparable finite values: "
-                            + ", ".join(sorted({f"{c.primal_status}/{c.dual_status}"
-                                                for c in checks})))
+                            + ", ".join(sorted(pairs)))
         return VerifyReport(checks, max_gap, "failed", tuple(messages))
     gaps = [c for c in usable if c.gap > tolerance(c.primal_value, c.dual_value)]
     for c in gaps:
@@ -172,7 +174,8 @@ def report_dict(report: VerifyReport) -> dict[str, Any]:
         "messages": list(report.messages),
         "checks": [{
             "source": c.source, "seed": c.seed,
-            "primal_status": c.primal_status, "dual_status": c.dual_status,
+            "primal_status": status_word(c.primal_status),
+            "dual_status": status_word(c.dual_status),
             "primal_value": _json_number(c.primal_value),
             "dual_value": _json_number(c.dual_value), "gap": _json_number(c.gap),
             "multiplier_error": None if c.multiplier_error is None

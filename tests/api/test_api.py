@@ -101,3 +101,13 @@ def test_the_generated_solver_is_the_commands(tmp_path: Path) -> None:
     out = CliRunner().invoke(main, ["solver", SURVEY, "-o", str(target)])
     assert out.exit_code == 0
     assert target.read_text(encoding="utf-8") == api.generate_solver(SURVEY).code
+
+
+def test_reports_speak_their_own_status_words() -> None:
+    # The reference solver's vocabulary ("optimal", "optimal_inaccurate") stays inside;
+    # users read the program's words (docs/checking.md).
+    pytest.importorskip("cvxpy")
+    result = api.verify(SURVEY)
+    rows = result.json()["instances"]
+    assert {(r["primal_status"], r["dual_status"]) for r in rows} == {("solved", "solved")}
+    assert "solved/solved" in result.text() and "optimal/" not in result.text()
