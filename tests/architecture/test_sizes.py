@@ -1,4 +1,4 @@
-"""Size rules of the house (STYLE.md): no module over 500 lines, no function over 40.
+"""Size rules of the house (DEVELOPERS.md): no module over 500 lines, no function over 40.
 
 Small modules hold one concern and small functions say what they do in their
 name; a function that outgrows 40 lines is split rather than allowed.  Measured

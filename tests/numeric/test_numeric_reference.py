@@ -45,8 +45,8 @@ def bounded_lp_instance(seed: int, rows: int = 7, cols: int = 3) -> Instance:
 @pytest.mark.parametrize("seed", [0, 1, 2, 3])
 def test_inequality_lp_multipliers_match_highs_marginals(seed: int) -> None:
     # scipy.optimize.linprog documentation, HiGHS marginals: the marginals are the
-    # sensitivities d p*/d b, the negated multipliers of LANGUAGE.md
-    # (/work/shared/REFERENCES.md; common practice).
+    # sensitivities d p*/d b, the negated multipliers of docs/language.md
+    # (common practice).
     inst = bounded_lp_instance(seed)
     v = inst.values
     ref = linprog(v["c"], A_ub=v["A"], b_ub=v["b"], bounds=(None, None), method="highs")
@@ -73,7 +73,7 @@ def test_standard_lp_equality_and_sign_multipliers_match_highs(seed: int) -> Non
 
 
 def test_maximization_multipliers_are_those_of_minimize_minus_f() -> None:
-    # LANGUAGE.md: maximize f is dualized as minimize -f; HiGHS marginals of that LP.
+    # docs/language.md: maximize f is dualized as minimize -f; HiGHS marginals of that LP.
     inst = bounded_lp_instance(4)
     base = inequality_lp()
     p = replace(base, sense="maximize", objective=neg(base.objective))
