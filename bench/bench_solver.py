@@ -1,17 +1,25 @@
-"""Benchmark: the generated soft-margin dual solver against cvxpy on the primal.
+"""Benchmark: generated dual solvers against cvxpy on the primal, whole processes.
 
-A random instance with m = 2000 samples and n = 20 features; both solvers run in
-the same process, each the median of several runs.  Prints the time ratio and
-both duality gaps and writes bench/results_solver.json (not tracked).
-Run: python bench/bench_solver.py [--repeats 3]
+For each case an instance is written to a JSON file; then two fresh processes read it,
+one running the module that ``dualize solver`` generates for the problem, one solving
+the primal with cvxpy and its default open solvers (the general route).  Both run with
+one BLAS thread (OPENBLAS_NUM_THREADS = OMP_NUM_THREADS = MKL_NUM_THREADS = 1).  The
+figures: wall time of each process (imports, reading and solving), their ratio, both
+optima and their relative difference, the module's status and certified gap, and the
+peak resident memory of each process (``/usr/bin/time -v`` when present, else the
+process's own ``getrusage``).
+
+Run: python bench/bench_solver.py [--quick] [--only NAME] [--timeout SECONDS]
+Writes bench/results_solver.json (not tracked).
 """
 
 from __future__ import annotations
 
 import argparse
-import importlib.util
 import json
-import statistics
+import os
+import shutil
+import subprocess
 import sys
 import tempfile
 import time
@@ -21,70 +29,126 @@ import numpy as np
 
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
+from bench.bench_cases import CASES, QUICK  # noqa: E402
+
+ONE_THREAD = {"OPENBLAS_NUM_THREADS": "1", "OMP_NUM_THREADS": "1", "MKL_NUM_THREADS": "1"}
 
 
-def instance(m: int, n: int, seed: int = 0) -> dict:
-    rng = np.random.default_rng(seed)
-    X = rng.normal(size=(m, n))
-    y = np.sign(X @ rng.normal(size=n) + 0.5 * rng.normal(size=m))
-    return {"X": X.tolist(), "y": y.tolist(), "C": 1.0}
-
-
-def generated_module():
+def generated_module(problem: Path, folder: Path) -> Path:
+    """Write the module that ``dualize solver`` makes for ``problem``."""
     from dualize.duality import derive
     from dualize.model import load
     from dualize.solvergen.solver import render_solver
 
-    text = (ROOT / "examples" / "parts_soft_margin.prob").read_text(encoding="utf-8")
-    path = Path(tempfile.mkdtemp()) / "soft_margin_solver.py"
-    path.write_text(render_solver(derive(load(text).problem)), encoding="utf-8")
-    spec = importlib.util.spec_from_file_location("soft_margin_solver", path)
-    module = importlib.util.module_from_spec(spec)
-    spec.loader.exec_module(module)
-    return module
+    text = problem.read_text(encoding="utf-8")
+    path = folder / f"{problem.stem}_solver.py"
+    path.write_text(render_solver(derive(load(text, problem.name).problem)), encoding="utf-8")
+    return path
 
 
-def cvxpy_primal(data: dict) -> float:
-    import cvxpy as cp
+def measured(command: list[str], timeout: float) -> dict:
+    """Run ``command`` in a fresh process: wall seconds, peak memory in MiB, its output."""
+    env = dict(os.environ, **ONE_THREAD, PYTHONPATH=str(ROOT))
+    timer = shutil.which("time") and Path("/usr/bin/time").exists()
+    full = ["/usr/bin/time", "-v", *command] if timer else command
+    start = time.perf_counter()
+    try:
+        done = subprocess.run(full, capture_output=True, text=True, env=env, timeout=timeout,
+                              check=False)
+    except subprocess.TimeoutExpired:
+        return {"error": f"killed after {timeout:.0f} s"}
+    seconds = time.perf_counter() - start
+    peak = None
+    for line in done.stderr.splitlines():
+        if "Maximum resident set size" in line:
+            peak = int(line.split(":")[1]) / 1024
+    try:
+        output = json.loads(done.stdout)
+    except json.JSONDecodeError:
+        tail = [line for line in done.stderr.splitlines() if line.strip()][-3:]
+        return {"error": f"exit {done.returncode}: {' | '.join(tail)[:300]}"}
+    peak = peak if peak is not None else output.pop("_peak_mib", None)
+    return {"seconds": seconds, "peak_mib": peak, "output": output}
 
-    X, y, C = np.array(data["X"]), np.array(data["y"]), data["C"]
-    w, b, s = cp.Variable(X.shape[1]), cp.Variable(), cp.Variable(X.shape[0])
-    problem = cp.Problem(cp.Minimize(0.5 * cp.sum_squares(w) + C * cp.sum(s)),
-                         [cp.multiply(y, X @ w + b) >= 1 - s, s >= 0])
-    problem.solve()
-    return float(problem.value)
+
+def one_case(name: str, size: tuple[int, ...], folder: Path, timeout: float) -> dict:
+    case = CASES[name]
+    data = case.instance(*size)
+    instance = folder / f"{name}_{'x'.join(map(str, size))}.json"
+    instance.write_text(json.dumps(data), encoding="utf-8")
+    module = generated_module(ROOT / case.problem, folder)
+    ours = measured([sys.executable, str(module), str(instance)], timeout)
+    general = measured([sys.executable, str(ROOT / "bench" / "bench_cases.py"), name,
+                        str(instance)], timeout)
+    return summary(name, size, ours, general)
 
 
-def timed(func, repeats: int) -> tuple[float, object]:
-    times, result = [], None
-    for _ in range(repeats):
-        start = time.perf_counter()
-        result = func()
-        times.append(time.perf_counter() - start)
-    return statistics.median(times), result
+def summary(name: str, size: tuple[int, ...], ours: dict, general: dict) -> dict:
+    row = {"case": name, "size": "x".join(map(str, size))}
+    for side, result in (("generated", ours), ("general", general)):
+        if "error" in result:
+            row[f"{side}_error"] = result["error"]
+            continue
+        row[f"{side}_seconds"] = round(result["seconds"], 3)
+        row[f"{side}_peak_mib"] = None if result["peak_mib"] is None \
+            else round(result["peak_mib"], 1)
+    if "error" not in ours:
+        report = ours["output"]
+        row.update(status=report["status"], dual_value=report["dual_value"],
+                   primal_value=report["primal_value"], certified_gap=report["gap"])
+    if "error" not in general:
+        row.update(general_value=general["output"]["value"],
+                   general_solver=general["output"]["solver"])
+    if "error" not in ours and "error" not in general:
+        row["time_ratio"] = round(ours["seconds"] / general["seconds"], 3)
+        if row["general_peak_mib"] and row["generated_peak_mib"]:
+            row["memory_ratio"] = round(row["generated_peak_mib"] / row["general_peak_mib"], 3)
+        value = report["primal_value"] if isinstance(report["primal_value"], float) \
+            else report["dual_value"]
+        if isinstance(value, float):
+            reference = row["general_value"]
+            row["relative_difference"] = abs(value - reference) / max(1.0, abs(reference))
+    return row
+
+
+def table(rows: list[dict]) -> str:
+    head = "| case | size | generated s | general s | ratio | peak MiB (gen / gen. route) " \
+           "| status | certified gap | optimum (gen / general) |"
+    lines = [head, "|" + "---|" * 9]
+    for r in rows:
+        peaks = f"{r.get('generated_peak_mib')} / {r.get('general_peak_mib')}"
+        optimum = f"{_short(r.get('primal_value', r.get('dual_value')))} / " \
+                  f"{_short(r.get('general_value'))}"
+        lines.append(
+            f"| {r['case']} | {r['size']} | {r.get('generated_seconds', r.get('generated_error'))}"
+            f" | {r.get('general_seconds', r.get('general_error'))} | {r.get('time_ratio')} | "
+            f"{peaks} | {r.get('status')} | {_short(r.get('certified_gap'))} | {optimum} |")
+    return "\n".join(lines)
+
+
+def _short(value: object) -> str:
+    return f"{value:.9g}" if isinstance(value, float) else str(value)
 
 
 def main() -> None:
     parser = argparse.ArgumentParser()
-    parser.add_argument("--repeats", type=int, default=3)
-    parser.add_argument("--m", type=int, default=2000)
-    parser.add_argument("--n", type=int, default=20)
+    parser.add_argument("--quick", action="store_true", help="the small size of each case")
+    parser.add_argument("--only", help="run only this case (soft_margin, lp, lasso, ...)")
+    parser.add_argument("--timeout", type=float, default=600.0)
     args = parser.parse_args()
-    data = instance(args.m, args.n)
-    module = generated_module()
-    ours_time, report = timed(lambda: module.solve(data), args.repeats)
-    ref_time, ref_value = timed(lambda: cvxpy_primal(data), args.repeats)
-    results = {
-        "m": args.m, "n": args.n, "repeats": args.repeats,
-        "generated_seconds": ours_time, "cvxpy_seconds": ref_time,
-        "ratio_generated_over_cvxpy": ours_time / ref_time,
-        "generated_gap": report["gap"], "generated_dual_value": report["dual_value"],
-        "cvxpy_value": ref_value,
-        "gap_to_cvxpy": report["dual_value"] - ref_value,
-    }
-    print(json.dumps(results, indent=2))
-    (ROOT / "bench" / "results_solver.json").write_text(json.dumps(results, indent=2) + "\n")
+    plan = QUICK if args.quick else [(n, s) for n, c in CASES.items() for s in c.sizes]
+    rows = []
+    with tempfile.TemporaryDirectory() as scratch:
+        for name, size in plan:
+            if args.only and name != args.only:
+                continue
+            rows.append(one_case(name, size, Path(scratch), args.timeout))
+            print(json.dumps(rows[-1]), flush=True)
+    print(table(rows))
+    out = ROOT / "bench" / ("results_solver_quick.json" if args.quick else "results_solver.json")
+    out.write_text(json.dumps(rows, indent=2) + "\n", encoding="utf-8")
 
 
 if __name__ == "__main__":
+    np.seterr(all="ignore")
     main()

@@ -41,7 +41,9 @@ if TYPE_CHECKING:
 
 __all__ = ["CheckVerdict", "DerivedDual", "DraftVerdicts", "GeneratedSolver", "LintResult",
            "ProblemError", "Verification", "analyze", "check", "check_draft", "derive",
-           "generate_solver", "lint", "load_problem", "render", "verify", "write_atomically"]
+           "generate_solver", "instance_of", "lint", "load_problem", "other_form", "prices",
+           "render", "sibling_instance", "trade_off", "verify", "write_atomically",
+           "write_bytes_atomically"]
 
 Progress = Callable[[list[Any], str], Iterable[Any]]
 DEFAULT_RANDOM = 3  # random instances when none are asked for
@@ -305,13 +307,78 @@ def generate_solver(source: str | Path | Problem) -> GeneratedSolver:
 def write_atomically(path: str, text: str) -> None:
     """Write ``text`` to ``path`` so that a failure leaves no partial file and an
     existing file untouched: a temporary file in the same folder, then a rename."""
+    write_bytes_atomically(path, text.encode("utf-8"))
+
+
+def write_bytes_atomically(path: str, data: bytes) -> None:
+    """``write_atomically`` for any content (a PNG picture). The file gets the mode a
+    newly created file would get (the temporary file's private 0600 is not kept)."""
     folder = os.path.dirname(os.path.abspath(path))
     fd, tmp = tempfile.mkstemp(prefix=".dualize-", dir=folder)
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
-            handle.write(text)
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
+        os.chmod(tmp, 0o666 & ~_umask())
         os.replace(tmp, path)
     except BaseException:
         if os.path.exists(tmp):
             os.unlink(tmp)
         raise
+
+
+def _umask() -> int:
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
+def instance_of(problem: Problem, data: object) -> object:
+    """An instance from a path (JSON or TOML) or an ``Instance`` as it is."""
+    from dualize.numeric.instance import Instance, read_instance
+
+    if isinstance(data, Instance):
+        return data
+    return read_instance(str(data), problem)
+
+
+def prices(source: str | Path | Problem, data: object, limit: int = 200,
+           seconds: float = 300.0):  # type: ignore[no-untyped-def]
+    """Every constraint entry priced on an instance, each rate checked by re-solving.
+
+    Returns a ``Sensitivity`` (a table in a notebook); ``data`` is an instance file's
+    path or an ``Instance``.
+    """
+    from dualize.multipliers.sensitivity import sensitivity
+
+    problem = load_problem(source)
+    return sensitivity(problem, instance_of(problem, data), limit, seconds)  # type: ignore[arg-type]
+
+
+def other_form(source: str | Path | Problem, weight: str | None = None,
+               bound: str | None = None, name: str | None = None):  # type: ignore[no-untyped-def]
+    """The penalized and constrained forms of a problem (a ``Pair``), the other one
+    written as a problem file's text (``pair.other_text``)."""
+    from dualize.multipliers.reform import other_form as _other
+
+    return _other(load_problem(source), weight=weight, bound=bound, new_name=name)
+
+
+def trade_off(source: object, data: object, weights: list[float] | None = None,
+              bounds: list[float] | None = None, weight: str | None = None,
+              bound: str | None = None, tick: object = None):  # type: ignore[no-untyped-def]
+    """The weight and the bound matched at each value given (a ``Curve``: a table and
+    the plot in a notebook).  ``source`` is a problem (or path) or a ``Pair``."""
+    from dualize.multipliers.forms import Pair
+    from dualize.multipliers.path import Forms, sweep
+
+    if (weights is None) == (bounds is None):
+        raise DualizeError("give weights or bounds, not both and not neither", exit_code=2)
+    if isinstance(source, Pair):
+        pair, original = source, (source.penalized if source.given == "penalized"
+                                  else source.constrained)
+    else:
+        original = load_problem(source)  # type: ignore[arg-type]
+        pair = other_form(original, weight=weight, bound=bound)
+    instance = instance_of(original, data)
+    given = "weight" if weights is not None else "bound"
+    return sweep(Forms(pair, instance), given, list(weights or bounds or []), tick)  # type: ignore[arg-type]

@@ -54,11 +54,15 @@ def _register() -> None:
     from dualize.commands.check_draft import check_draft_command
     from dualize.commands.derive import derive_command
     from dualize.commands.lint import lint_command
+    from dualize.commands.multipliers import prices_command, reform_command
+    from dualize.commands.serve import serve_command
     from dualize.commands.solver import solver_command
+    from dualize.commands.trade_off import trade_off_command
     from dualize.commands.verify import verify_command
 
     for command in (lint_command, derive_command, verify_command, check_command,
-                    check_draft_command, solver_command):
+                    check_draft_command, solver_command, prices_command, reform_command,
+                    trade_off_command, serve_command):
         main.add_command(command)
 
 

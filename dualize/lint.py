@@ -13,10 +13,13 @@ import os
 from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from dualize.diagnostics import SEVERITY_ORDER, Diagnostic, RuleKind, table_of
 from dualize.errors import DualizeError
+
+if TYPE_CHECKING:
+    from dualize.model.loading import Loaded
 
 PROBLEM_SUFFIX = ".prob"
 PARALLEL_FROM = 5  # below this many files, starting worker processes costs more than it saves
@@ -98,14 +101,32 @@ def _warm_up() -> None:
 def lint_file(path: str | Path, data: str | None = None) -> FileReport:
     from dualize.model import load_file
 
-    loaded = load_file(path)
+    return _report(load_file(path), str(path), lambda: _source(path), data)
+
+
+def lint_text(text: str, path: str = "<string>") -> FileReport:
+    """Lint a problem's text as if it were the file ``path``: what an editor holds
+    before it is saved gets the same rules as ``dualize lint`` on the saved file."""
+    from dualize.model import load
+
+    return lint_loaded(load(text.removeprefix("\ufeff"), path), path, text)
+
+
+def lint_loaded(loaded: Loaded, path: str, text: str) -> FileReport:
+    """The lint report of a problem already loaded from ``text`` (the front end's
+    diagnostics and, when it resolved, the analysis's)."""
+    return _report(loaded, path, lambda: text, None)
+
+
+def _report(loaded: Loaded, path: str, source: Callable[[], str],
+            data: str | None) -> FileReport:
     found = list(loaded.diagnostics)
     problem = loaded.problem
     analyze = analysis_hook()
     if problem is not None and analyze is not None:
         found.extend(analyze(problem, **_instance(problem, data)).diagnostics)
-    source = problem.source if problem is not None else _source(path)
-    return FileReport(str(path), source, tuple(sorted(found, key=_position)))
+    text = problem.source if problem is not None else source()
+    return FileReport(path, text, tuple(sorted(found, key=_position)))
 
 
 def _instance(problem: object, data: str | None) -> dict[str, object]:

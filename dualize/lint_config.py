@@ -146,10 +146,16 @@ def configured(select: Iterable[str] = (), ignore: Iterable[str] = (),
                fail_on: str | None = None, start: Path | None = None) -> LintConfig:
     """The nearest pyproject.toml's settings with command-line options on top, former
     rule ids translated, checked against the rule table."""
+    return checked(with_options(load_config(start), select, ignore, fail_on))
+
+
+def checked(config: LintConfig) -> LintConfig:
+    """``config`` with former rule ids translated and every selector checked against the
+    rule table (an unknown one raises, exit code 2)."""
     from dualize.lint import rule_table
 
     table = rule_table()
-    config = former_ids(with_options(load_config(start), select, ignore, fail_on), table)
+    config = former_ids(config, table)
     check_selectors(config, table)
     return config
 

@@ -109,12 +109,15 @@ class Verification:
 
     @property
     def verdict(self) -> str:
-        """``zero-gap``, ``gap`` or ``failed``."""
+        """``zero-gap``, ``infinite-agree`` (infinite optima as weak duality predicts),
+        ``gap`` or ``failed``."""
         return self.report.verdict
 
     @property
     def ok(self) -> bool:
-        return self.report.verdict == "zero-gap"
+        from dualize.numeric.verify_words import CONSISTENT
+
+        return self.report.verdict in ("zero-gap", CONSISTENT)
 
     def text(self) -> str:
         from dualize.checking.check_report import verify_text

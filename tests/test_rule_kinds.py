@@ -45,6 +45,8 @@ TRIGGERS = [
     ('shape-mismatch', 'data A in R^(m,n)\nminimize sum(A * x) over x in R^m\n', 2, 14),
     ('nonscalar-objective', 'minimize x over x in R^n\n', 1, 10),
     ('unknown-function', 'minimize sine(x) over x in R\n', 1, 10),
+    ('other-notation', 'data P in S^n_+\nminimize quad_form(x, P) over x in R^n\n', 2, 10),
+    ('entry-indexing', 'minimize x[1] over x in R^n\n', 1, 11),
     ('argument-count', 'minimize max(x) over x in R\n', 1, 10),
     ('wrong-argument', 'data A in R^(m,n)\nminimize trace(A) + x over x in R\n', 2, 10),
     ('inverse-of-variable', 'minimize trace(inv(X)) over X in S^n\n', 1, 16),

@@ -115,7 +115,7 @@ class _Rules:
         return self._product(node.factor, node.arg)
 
     def _hadamard(self, node: E.Hadamard) -> Curvature:
-        if _is_entropy(node, self):
+        if _is_entropy(node, self) or _is_relative_entropy(node, self):
             return "convex"
         return self._product(node.left, node.right)
 
@@ -185,6 +185,10 @@ class _Rules:
         inner = self.of(node.arg)
         if is_log_sum_exp(node) is not None:
             return compose("convex", "inc", self.of(is_log_sum_exp(node)))
+        if node.func == "log":
+            shifted = _log_exp_plus_constant(node, self)
+            if shifted is not None:
+                return shifted
         function = lookup(node.func)
         if function.monotone == "by-sign":
             return _abs_rule(inner, self.sign(node.arg))
@@ -259,6 +263,8 @@ def _is_psd(m: E.Expr) -> bool:
         return gram_middle(m.factors) is not None and _gram_psd(m.factors)
     if isinstance(m, E.Add):
         return all(_is_psd(t) for t in m.terms)
+    if isinstance(m, E.Diag):
+        return S.sign(m.arg) in S.NONNEG
     return False
 
 
@@ -274,6 +280,34 @@ def _is_entropy(node: E.Hadamard, rules: _Rules) -> bool:
         if isinstance(b, E.Apply) and b.func == LOG.name and b.arg == a:
             return rules.of(a) == "affine"
     return False
+
+
+def _is_relative_entropy(node: E.Hadamard, rules: _Rules) -> bool:
+    """u .* log(u ./ v) with u and v affine: the relative entropy, jointly convex as the
+    perspective of -log (Boyd and Vandenberghe, 2004, section 3.2.6, from memory)."""
+    for a, b in ((node.left, node.right), (node.right, node.left)):
+        if (isinstance(b, E.Apply) and b.func == "log" and isinstance(b.arg, E.Divide)
+                and b.arg.left == a):
+            return rules.of(a) == "affine" and rules.of(b.arg.right) in ("affine", "constant")
+    return False
+
+
+def _log_exp_plus_constant(node: E.Apply, rules: _Rules) -> Curvature | None:
+    """log(c + exp(g1) + ... + exp(gk)) with c a nonnegative constant: log-sum-exp of
+    (log c, g1, ..., gk), convex and nondecreasing in each g (Boyd and Vandenberghe, 2004,
+    section 3.1.5, from memory); with c = 1, k = 1 the softplus log(1 + exp(g))."""
+    arg = node.arg
+    if not isinstance(arg, E.Add):
+        return None
+    exps = [t for t in arg.terms if isinstance(t, E.Apply) and t.func == "exp"]
+    rest = [t for t in arg.terms if not (isinstance(t, E.Apply) and t.func == "exp")]
+    if not exps or any(rules.of(t) != "constant" or rules.sign(t) not in S.NONNEG
+                       for t in rest):
+        return None
+    out = "constant"
+    for t in exps:
+        out = combine(out, compose("convex", "inc", rules.of(t.arg)))
+    return out if out != "affine" else "convex"
 
 
 def _quad_over_lin(node: E.Divide, rules: _Rules) -> bool:

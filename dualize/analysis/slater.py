@@ -28,9 +28,14 @@ def strong_duality(problem: Problem, conv: Convexity,
                    instance: Measured | None = None) -> Verdict:
     """The verdict for ``problem`` given its convexity analysis (and, to decide it on
     numbers, an instance with its evaluator)."""
-    if not problem.constraints:
+    if not problem.constraints and conv.convex is not None:
         return Verdict("guaranteed", "no constraint is dualized: the dual function's only "
                        "value is the primal optimal value itself")
+    if not problem.constraints:
+        return Verdict("unknown", "convexity could not be decided: with no constraint the "
+                       "plain dual is the primal optimum itself, but the derivation may "
+                       "introduce auxiliary equalities (u = an affine argument) whose dual "
+                       "needs convexity")
     if conv.convex is False:
         bound = "a lower bound" if problem.sense == "minimize" else "an upper bound"
         return Verdict("not-guaranteed", WEAK_ONLY.format(bound=bound))

@@ -1,6 +1,7 @@
 """``dualize verify``: the derived dual against the primal, numerically.
 
-Exit codes: 0 when every instance shows a zero gap, 1 for a gap or a failed
+Exit codes: 0 when every instance shows a zero gap (or every instance is a pair of
+infinite optima that weak duality predicts: ``infinite-agree``), 1 for a gap or a failed
 check (a weak-duality violation, or no instance with two comparable values),
 2 for bad input (an unreadable problem, instance or option).
 """
@@ -35,7 +36,8 @@ def verify_command(file: str, data: str | None, count: int | None, seed: int, di
 
     Without --data or --random, the instance beside FILE (same name, .json or
     .toml) is used if there is one, else 3 random instances.  Exit status: 0 for
-    a zero gap everywhere, 1 for a gap or a failed check, 2 for bad input.
+    a zero gap everywhere or for infinite optima that agree (primal infeasible and
+    dual unbounded, or the reverse), 1 for a gap or a failed check, 2 for bad input.
     """
     from dualize import api
 

@@ -70,6 +70,8 @@ class Infimum:
 def recognise(term: Term, variables: frozenset[str]) -> Atom | None:
     """The atom in one collected term, or None."""
     dependent = [s for s in term.scalars if depends_on(s, variables)]
+    if not term.chain and len(dependent) > 1 and all(d.shape.is_scalar for d in dependent):
+        return _scalar_product(term, dependent, variables)
     if term.chain or len(dependent) != 1:
         return None
     coef_parts = [s for s in term.scalars if s is not dependent[0]]
@@ -154,6 +156,17 @@ def _summed(e: Expr) -> Expr | None:
     return None
 
 
+def _scalar_product(term: Term, dependent: list[Expr],
+                    variables: frozenset[str]) -> Atom | None:
+    """c * f1(x) * f2(x) * ... for a scalar x (``x * log(x)``): one scalar function."""
+    product = dependent[0]
+    for d in dependent[1:]:
+        product = Hadamard(product, d)
+    rest = tuple(s for s in term.scalars if not any(s is d for d in dependent))
+    coef = rebuild([Term(term.coef, rest, ())], b.SCALAR)
+    return _separable(coef, product, variables)
+
+
 def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> Atom | None:
     """coef * sum(E(v)) with E elementwise in one decision variable v."""
     inner = _summed(e)
@@ -161,7 +174,7 @@ def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> Atom | None:
         first, second = e.factors
         if isinstance(first, Transpose) and first.arg.shape.cols == 1:
             inner = Hadamard(first.arg, second)
-    if inner is None and e.shape.is_scalar and isinstance(e, Apply | Power):
+    if inner is None and e.shape.is_scalar and isinstance(e, Apply | Power | Hadamard):
         inner = e
     if inner is None:
         return None

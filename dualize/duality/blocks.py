@@ -14,6 +14,7 @@ from dataclasses import dataclass, field
 import sympy
 
 from dualize.duality import build as b
+from dualize.duality import pseudo
 from dualize.duality.definite import definiteness
 from dualize.duality.linear import Affine, Quadratic, hessian
 from dualize.duality.normal import tidy
@@ -111,8 +112,8 @@ def _grad_head(x: Symbol) -> Head:
 def _undetermined(x: Symbol) -> str:
     return (f"{x.name} enters the Lagrangian linearly, so minimizing it does not determine "
             f"{x.name}; recover it from the KKT conditions: complementary slackness on the "
-            "constraints whose multipliers are strictly positive (for a support vector with "
-            "a multiplier strictly inside its bounds, that constraint holds with equality)")
+            "constraints whose multipliers are strictly positive (those constraints hold with "
+            "equality at the optimum)")
 
 
 def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
@@ -137,6 +138,9 @@ def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
     r = q.r if q.r is not None else b.num(0)
     g = tidy(q.g) if q.g is not None else None
     kind = definiteness(H)
+    factored = _factored(x, H, g, r, kind)
+    if factored is not None:
+        return factored
     if kind == "pd":
         return _definite(x, H, g, r)
     if kind == "nd" and not _has_multiplier(H):
@@ -255,7 +259,22 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
         xstar = tidy(b.neg(b.mul_scalars(g, b.power(H, sympy.Integer(-1)))))
         return Outcome(value, constraints, Recovery(x.name, xstar), [Step(
             "minimize-quadratic-scalar", text, (Equation(x, "=", xstar),), block=x.name)])
+    if psd_known and pseudo.data_only(H):
+        value, c, var, step, rec = pseudo.range_witness(x, H, g, r)
+        return Outcome(value, [c], rec, [step], [var], gradient=b.add(b.mul(H, x), g))
     return _schur(x, H, g, r)
+
+
+def _factored(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Outcome | None:
+    """The convex quadratic whose linear coefficient is H w: value r - 1/2 w'H w
+    at x = -w (``pseudo.factored_value``), for H known positive (semi)definite."""
+    if g is None or kind not in ("pd", "psd") or H.shape.is_scalar:
+        return None
+    w = pseudo.factor_through(H, g)
+    if w is None:
+        return None
+    value, step, rec = pseudo.factored_value(x, H, w, r, kind)
+    return Outcome(value, recovery=rec, steps=[step], gradient=b.add(b.mul(H, x), g))
 
 
 def _identity_multiple(H: Expr) -> Expr | None:
@@ -318,6 +337,9 @@ def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome | None:
         G = tidy(b.scale(b.num(sympy.Rational(1, 2)), b.add(G, b.transpose(G))))
     if domain.kind in ("free", "symmetric"):
         return _affine_condition(X, G, r, "=", "its coefficient vanishes")
+    if domain.kind in ("nonneg", "pos"):
+        return _affine_condition(X, G, r, ">=", "its coefficient is nonnegative entry by entry "
+                                 f"({X.name} ranges over the nonnegative matrices)")
     if domain.kind in ("psd", "pd"):
         c = zero_constraint(b.neg(G), "preceq", f"the Lagrangian is linear in {X.name} over the "
                             "semidefinite cone: its coefficient must be positive semidefinite")

@@ -154,6 +154,9 @@ def _chain(chain: list[Expr]) -> Expr:
             out.pop()
             out.append(Number(f.shape.rows))
             continue
+        if out and inverse_pair(out[-1], f):
+            out.pop()
+            continue
         if out and isinstance(f, Ones) and isinstance(out[-1], Diag):
             out[-1] = out[-1].arg
             continue
@@ -174,6 +177,14 @@ def _chain(chain: list[Expr]) -> Expr:
     for n in numbers:
         body = scale(n, body)
     return body
+
+
+def inverse_pair(a: Expr, c: Expr) -> bool:
+    """Whether a c is an identity: M inv(M) or inv(M) M (M K^-1 K = M)."""
+    if isinstance(a, Diag) and isinstance(c, Diag):
+        return c.arg == power(a.arg, sympy.Integer(-1)) or a.arg == power(c.arg,
+                                                                          sympy.Integer(-1))
+    return c == Inverse(a) or a == Inverse(c)
 
 
 def _ones_pair(a: Expr, b: Expr) -> bool:

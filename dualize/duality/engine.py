@@ -23,6 +23,7 @@ from dualize.duality.kkt import conditions
 from dualize.duality.lagrangian import lagrangian, multipliers
 from dualize.duality.linear import Quadratic, hessian, quadratic, trace_linear
 from dualize.duality.normal import Term, expand, rebuild, tidy
+from dualize.duality.recovery import subgradient_note, with_split_relations
 from dualize.duality.result import (
     Derivation,
     DualConstraint,
@@ -51,6 +52,7 @@ class Work:
     extra: list[DualVariable] = field(default_factory=list)
     steps: list[Step] = field(default_factory=list)
     aux_blocks: list[tuple[Symbol, Atom, Symbol]] = field(default_factory=list)
+    aux_args: dict[str, Expr] = field(default_factory=dict)
 
     def fresh(self, base: str) -> str:
         name, k = base, 1
@@ -74,7 +76,7 @@ def derive(problem: Problem) -> Derivation:
     recovery = _substituted(recovery, substitutions(more_steps))
     if problem.sense == "maximize":
         dual = _as_minimization(dual)
-    work.steps.append(Step("dual-problem", _dual_sentence(dual)))
+    work.steps.append(Step("dual-problem", _dual_sentence(dual, problem.sense)))
     kkt = conditions(problem, outcomes)
     notes = _notes(work, dual)
     return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
@@ -139,6 +141,7 @@ def _split(work: Work, atom: Atom) -> None:
     u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
     z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
     work.aux_blocks.append((u, with_argument(atom, u), z))
+    work.aux_args[u.name] = atom.arg
     work.extra.append(DualVariable(z, "free", f"auxiliary u = {u.name}"))
     text = (f"Introduce {u.name} = (the argument of a {atom.kind} term) with a free multiplier "
             f"{z.name}: the problem is unchanged, and its Lagrangian is affine in the original "
@@ -308,6 +311,7 @@ def _split_local(work: Work, atom: Atom, polys: list[Quadratic], x: Symbol) -> N
     u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
     z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
     work.aux_blocks.append((u, with_argument(atom, u), z))
+    work.aux_args[u.name] = atom.arg
     work.extra.append(DualVariable(z, "free", f"auxiliary u = {u.name}"))
     work.steps.append(Step("split-affine-argument", (
         f"Introduce {u.name} = (the argument of a {_kind_name(atom)} term in {x.name}) with a "
@@ -353,9 +357,7 @@ def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
                    for lhs, rel, rhs in inf.constraints]
     value = tidy(b.add(r, inf.value))
     rec = Recovery(x.name, tidy(inf.minimizer) if inf.minimizer is not None else None,
-                   "" if inf.minimizer is not None else
-                   f"{x.name} is a subgradient point of the {_kind_name(atom)} term; recover it "
-                   "from the KKT conditions")
+                   "" if inf.minimizer is not None else subgradient_note(x.name, atom))
     step = Step("conjugate", f"Minimizing over {x.name}: {inf.statement}.",
                 tuple(Equation(lhs, rel, rhs) for lhs, rel, rhs in inf.constraints),  # type: ignore[arg-type]
                 block=x.name)
@@ -385,6 +387,8 @@ def _assemble(work: Work, outcomes: dict[str, Outcome], mults):  # type: ignore[
         if out.recovery is not None and name in _primal_names(work):
             recovery.append(out.recovery)
     work.extra = extra
+    norms = {u.name: z.name for u, atom, z in work.aux_blocks if atom.kind == "norm"}
+    recovery = [with_split_relations(r, work.aux_args, outcomes, norms) for r in recovery]
     variables = tuple(mults) + tuple(work.extra)
     dual = DualProblem("maximize", variables, tidy(objective), tuple(constraints),
                        tuple(inner), unbounded)
@@ -405,7 +409,23 @@ def _substituted(recovery: list[Recovery], fixed: dict[Expr, Expr]) -> list[Reco
         for _ in range(len(fixed)):
             formula = substitute(formula, fixed)
         out.append(replace(r, formula=simplify_scalar(tidy(formula))))
-    return out
+    return [_relations_substituted(r, fixed) for r in out]
+
+
+def _relations_substituted(r: Recovery, fixed: dict[Expr, Expr]) -> Recovery:
+    from dataclasses import replace
+
+    from dualize.model.expr import substitute
+
+    if not r.relations:
+        return r
+    rels = []
+    for eq in r.relations:
+        rhs = eq.rhs
+        for _ in range(len(fixed)):
+            rhs = substitute(rhs, fixed)
+        rels.append(Equation(eq.lhs, eq.relation, simplify_scalar(tidy(rhs))))
+    return replace(r, relations=tuple(rels))
 
 
 def _as_minimization(dual: DualProblem) -> DualProblem:
@@ -413,7 +433,7 @@ def _as_minimization(dual: DualProblem) -> DualProblem:
                        dual.constraints, dual.inner, dual.unbounded)
 
 
-def _dual_sentence(dual: DualProblem) -> str:
+def _dual_sentence(dual: DualProblem, sense: str = "minimize") -> str:
     if dual.unbounded:
         return ("The dual function is minus infinity for every choice of multipliers: the dual "
                 "gives no bound (the primal problem is unbounded below or its Lagrangian is).")
@@ -421,7 +441,28 @@ def _dual_sentence(dual: DualProblem) -> str:
         names = ", ".join(v.name for v in dual.inner)
         return (f"The dual problem, with the infimum over {names} kept because no rule "
                 "eliminates it in closed form.")
-    return "The dual problem collects the dual function and every condition for it to be finite."
+    text = "The dual problem collects the dual function and every condition for it to be finite."
+    return text + " " + finiteness_sentence(dual, sense) if dual.constraints else text
+
+
+def finiteness_sentence(dual: DualProblem, sense: str) -> str:
+    """Where the dual function is finite, and what its infinite cases say of the primal.
+
+    Outside the implicit constraints the infimum of the Lagrangian is minus infinity
+    (plus infinity for the supremum of a maximization); by weak duality an unbounded
+    dual proves the primal infeasible, and a dual with no feasible multiplier gives
+    no bound (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, sections 5.1.2
+    and 5.2.2, from memory).
+    """
+    if sense == "minimize":
+        return ("Outside these conditions the dual function is minus infinity. The dual is "
+                "unbounded above only if the primal is infeasible; if no multiplier "
+                "satisfies the conditions, the dual gives no bound and the primal is "
+                "unbounded below or infeasible.")
+    return ("Outside these conditions the dual function is plus infinity. The dual is "
+            "unbounded below only if the primal is infeasible; if no multiplier satisfies "
+            "the conditions, the dual gives no bound and the primal is unbounded above or "
+            "infeasible.")
 
 
 def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:

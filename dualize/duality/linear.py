@@ -407,7 +407,35 @@ def _trace_of(M: Expr, X: Symbol) -> Affine | None:
         return Affine(b.transpose(RP), None)
     if isinstance(f, Transpose) and f.arg == X:
         return Affine(_mul_chain(R, P, X), None)
+    if isinstance(f, Hadamard):
+        return _trace_hadamard(P, f, R, X)
     return None
+
+
+def _trace_hadamard(P: Expr | None, f: Hadamard, R: Expr | None, X: Symbol) -> Affine | None:
+    """trace(P (D .* X) R) = <(R P)' .* D, X> for D free of X.
+
+    Entry by entry, trace(P (D .* X) R) = sum_ij (R P)_ji D_ij X_ij.  With a row
+    u' = P and a column v = R this is <diag(u) D diag(v), X>, and with P and R the
+    ones vectors (sum(D .* X)) it is <D, X>: the elementwise product with data is
+    a linear functional of X.
+    """
+    D = f.left if f.right == X else f.right if f.left == X else None
+    if D is None or not _free(D, X):
+        return None
+    if P is None and R is None:
+        return None  # a matrix, not a scalar: no functional
+    if P is not None and R is not None and P.shape.rows == 1 and R.shape.cols == 1:
+        u, v = b.transpose(P), R
+        G = b.mul(*(m for m in (_diag_unless_ones(u), D, _diag_unless_ones(v)) if m is not None))
+        return Affine(G, None)
+    return Affine(b.hadamard(b.transpose(_mul_chain(R, P, X)), D), None)
+
+
+def _diag_unless_ones(u: Expr) -> Expr | None:
+    from dualize.model.expr import Ones
+
+    return None if isinstance(u, Ones) else b.diag(u)
 
 
 def _mul_chain(R: Expr | None, P: Expr | None, X: Symbol) -> Expr:

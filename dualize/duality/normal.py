@@ -11,8 +11,8 @@ v'u), so the textbook form -(1/4) nu'AA'nu - b'nu comes out however the
 Lagrangian was written.  Anything nonlinear (norms, exp, log, ...) is an atom
 whose arguments are put in canonical form recursively.
 
-``tidy`` rebuilds an IR expression from the canonical form; ``node_key`` gives
-a deterministic sort key for any expression.
+``tidy`` rebuilds an IR expression from the canonical form; ``node_key``
+(``dualize.duality.keys``) gives a deterministic sort key for any expression.
 """
 
 from __future__ import annotations
@@ -22,6 +22,7 @@ from dataclasses import dataclass, fields
 import sympy
 
 from dualize.duality import build as b
+from dualize.duality.keys import node_key
 from dualize.model.expr import (
     Add,
     Apply,
@@ -54,31 +55,6 @@ class Term:
     coef: sympy.Expr
     scalars: tuple[Expr, ...]
     chain: tuple[Expr, ...]
-
-
-def node_key(e: Expr) -> str:
-    """A deterministic structural key (no hash order, no object ids)."""
-    if isinstance(e, Symbol):
-        return f"S:{e.name}"
-    if isinstance(e, Number):
-        return f"N:{sympy.srepr(e.value)}"
-    parts = [type(e).__name__]
-    for f in fields(e):  # type: ignore[arg-type]
-        if f.name == "span":
-            continue
-        value = getattr(e, f.name)
-        parts.append(_value_key(value))
-    return "(" + " ".join(parts) + ")"
-
-
-def _value_key(value: object) -> str:
-    if isinstance(value, Expr):
-        return node_key(value)
-    if isinstance(value, tuple):
-        return "[" + ",".join(_value_key(v) for v in value) + "]"
-    if isinstance(value, sympy.Basic):
-        return sympy.srepr(value)
-    return str(value)
 
 
 def expand(e: Expr, keep_forms: bool = True) -> list[Term]:
@@ -213,6 +189,9 @@ def _diag(e: Diag, keep: bool) -> list[Term]:
 
 
 def _hadamard(e: Hadamard, keep: bool) -> list[Term]:
+    relative = _relative_entropy_with_data(e, keep)
+    if relative is not None:
+        return _expand(relative, keep)
     entropy = _entropy_form(e, keep)
     if entropy is not None:
         return [Term(sympy.Integer(1), (), (entropy,))]
@@ -223,6 +202,27 @@ def _hadamard(e: Hadamard, keep: bool) -> list[Term]:
         for tr in _expand(e.right, keep):
             out.extend(_hadamard_terms(tl, tr, e))
     return out
+
+
+def _relative_entropy_with_data(e: Hadamard, keep: bool) -> Expr | None:
+    """a .* log(a ./ q) = a .* log(a) - a .* log(q) for data q known positive.
+
+    With q > 0, a ./ q > 0 exactly when a > 0, so both sides have one domain; the
+    relative entropy to fixed positive weights is the negative entropy plus a
+    linear term (the entropy stays one building block).
+    """
+    from dualize.duality.scalar import known_sign
+    from dualize.model.expr import symbols_of
+
+    for a, f in ((e.left, e.right), (e.right, e.left)):
+        if not (isinstance(f, Apply) and f.func == "log" and isinstance(f.arg, Divide)):
+            continue
+        top, q = f.arg.left, f.arg.right
+        data = all(s.role == "data" for s in symbols_of(q))
+        if (tidy(top, keep) == tidy(a, keep) and data and known_sign(q) == "pos"
+                and q.shape == a.shape):
+            return b.sub(Hadamard(a, Apply("log", a)), Hadamard(a, Apply("log", q)))
+    return None
 
 
 def _entropy_form(e: Hadamard, keep: bool) -> Expr | None:
@@ -341,6 +341,9 @@ def _clean_chain(chain: tuple[Expr, ...]) -> tuple[Expr, ...]:
     for f in chain:
         if isinstance(f, Identity) and (out or len(chain) > 1):
             continue
+        if out and b.inverse_pair(out[-1], f):
+            out.pop()
+            continue
         if out and isinstance(f, Ones) and _is_ones_row(out[-1]):
             out.pop()
             out.append(Number(f.n))
@@ -352,6 +355,8 @@ def _clean_chain(chain: tuple[Expr, ...]) -> tuple[Expr, ...]:
             out[-1] = b.transpose(f.arg)
             continue
         out.append(f)
+    if not out and chain and not _chain_shape_is_scalar(chain):
+        return (Identity(chain[0].shape.rows),)
     return tuple(out)
 
 

@@ -129,6 +129,9 @@ class Recovery:
     variable: str
     formula: Expr | None
     note: str = ""
+    relations: tuple[Equation, ...] = ()
+    """Equations the variable satisfies at the optimum when no formula gives it, e.g.
+    the stationarity of a split variable: A x - y = z/2 for u = A x - y."""
 
 
 @dataclass(frozen=True)

@@ -16,7 +16,7 @@ import sympy
 
 from dualize.duality import build as b
 from dualize.duality.elementwise import data_symbol
-from dualize.duality.normal import node_key
+from dualize.duality.keys import node_key
 from dualize.model.expr import (
     Add,
     Apply,
@@ -77,9 +77,23 @@ def known_sign(e: Expr) -> str | None:
         return "pos"
     if isinstance(e, MatMul) and _is_gram(e.factors):
         return "nonneg"
+    if isinstance(e, MatMul) and _inner_of_nonnegatives(e.factors):
+        return "nonneg"
     if isinstance(e, Apply) and lookup(e.func).sign in ("pos", "nonneg"):
         return lookup(e.func).sign
     return None
+
+
+def _inner_of_nonnegatives(factors: tuple[Expr, ...]) -> bool:
+    """u'v with u and v entrywise nonnegative (1'lambda for a multiplier lambda >= 0)."""
+    if len(factors) != 2 or not isinstance(factors[0], Transpose):
+        return False
+
+    def nonneg(v: Expr) -> bool:
+        return isinstance(v, b.Ones) or (isinstance(v, Symbol) and v.shape.cols == 1 and bool(
+            v.facts & {"nonneg", "pos"}))
+
+    return nonneg(factors[0].arg) and nonneg(factors[1])
 
 
 def _is_sum_of_exp(e: Expr) -> bool:

@@ -16,11 +16,11 @@ import threading
 from collections.abc import Iterator
 
 import sympy
-from sympy.calculus.util import continuous_domain
 
 from dualize.duality import build as b
+from dualize.duality import derivation_cache as cache
 from dualize.duality.atoms import Atom, Infimum
-from dualize.duality.conjugate import NoClosedForm, conjugate
+from dualize.duality.conjugate import Conjugate, NoClosedForm, conjugate
 from dualize.duality.elementwise import LiftError, lift, lift_interval, scalar_form
 from dualize.duality.scalar import Scope, to_sympy
 from dualize.model.expr import Expr, Number, Symbol, symbols_of
@@ -51,6 +51,10 @@ class _OutOfTime(Exception):  # noqa: N818 - private control flow
     pass
 
 
+class _TimedOut(NoClosedForm):
+    """No conjugate within the time budget: an outcome of this machine, never cached."""
+
+
 @contextlib.contextmanager
 def _time_limit(seconds: float) -> Iterator[None]:
     """A wall-clock limit by SIGALRM, where signals can be used (the main thread)."""
@@ -78,7 +82,7 @@ def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # typ
         with _time_limit(CONJUGATE_SECONDS):
             return conjugate(phi, t, region)
     except _OutOfTime:
-        raise NoClosedForm(f"no conjugate found within {CONJUGATE_SECONDS:.0f} s") from None
+        raise _TimedOut(f"no conjugate found within {CONJUGATE_SECONDS:.0f} s") from None
 
 
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
@@ -93,14 +97,10 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
     if f is None:
         return None
     phi = to_sympy(atom.coef, Scope()) * f
-    natural = continuous_domain(phi, t, sympy.S.Reals)
-    region = natural.intersect(interval)
-    if not isinstance(region, sympy.Interval):
+    found = _conjugate_on(phi, t, interval)
+    if found is None:
         return None
-    try:
-        conj = _conjugate(phi, t, region)
-    except NoClosedForm:
-        return None
+    conj, shown = found
     data = {d.name: d for d in symbols_of(atom.body) + symbols_of(atom.coef) if d.role == "data"}
     try:
         entries = lift(conj.value, conj.s, s, data)
@@ -111,6 +111,58 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
     total = b.sum_all(entries) if not entries.shape.is_scalar else entries
     constraints = tuple((lhs, _CLOSED.get(rel, rel), rhs) for lhs, rel, rhs in relations)
     statement = (f"the term is separable, sum_i phi({var.name}_i) with phi(t) = {phi}; its "
-                 f"conjugate is phi*(s) = {sympy.simplify(conj.value)} (derived by the "
+                 f"conjugate is phi*(s) = {shown} (derived by the "
                  "Legendre transform and checked numerically)")
     return Infimum(b.neg(total), constraints, minimizer, statement)
+
+
+Found = tuple[Conjugate, sympy.Expr] | None
+"""phi* with its value as shown in the step (simplified), or None: no closed form."""
+
+
+def _conjugate_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
+    """phi* over the part of ``interval`` where phi is continuous, read from the disk
+    cache when an earlier process derived and checked it (see conjugate_cache)."""
+    try:
+        return cache.memo(cache.key_of("conjugate", phi, t, interval),  # type: ignore[no-any-return]
+                          lambda: _derive_on(phi, t, interval), _to_payload, _from_payload)
+    except _TimedOut:
+        return None
+
+
+def _derive_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
+    from sympy.calculus.util import continuous_domain
+
+    region = continuous_domain(phi, t, sympy.S.Reals).intersect(interval)
+    if not isinstance(region, sympy.Interval):
+        return None
+    try:
+        conj = _conjugate(phi, t, region)
+    except _TimedOut:
+        raise
+    except NoClosedForm:
+        return None
+    return conj, sympy.simplify(conj.value)
+
+
+def _to_payload(found: Found) -> dict[str, object]:
+    if found is None:
+        return {"closed_form": False}
+    conj, shown = found
+    e = cache.encode
+    return {"closed_form": True, "value": e(conj.value), "s": e(conj.s),
+            "domain": e(conj.domain), "checked": conj.checked, "shown": e(shown),
+            "maximizer": None if conj.maximizer is None else e(conj.maximizer),
+            "boundary": [[e(p), e(v)] for p, v in conj.boundary]}
+
+
+def _from_payload(payload: dict[str, object]) -> Found:
+    if payload["closed_form"] is False:
+        return None
+    d, get = cache.decode, payload.__getitem__
+    maximizer = get("maximizer")
+    boundary = tuple((d(p), d(v)) for p, v in get("boundary"))  # type: ignore[attr-defined]
+    conj = Conjugate(d(get("value")), d(get("s")), d(get("domain")),
+                     None if maximizer is None else d(maximizer), get("checked") is True,
+                     boundary)
+    return conj, d(get("shown"))

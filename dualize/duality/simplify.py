@@ -20,6 +20,7 @@ from dataclasses import replace
 import sympy
 
 from dualize.duality import build as b
+from dualize.duality import derivation_cache as cache
 from dualize.duality.normal import Term, expand, node_key, rebuild, tidy
 from dualize.duality.result import DualConstraint, DualProblem, DualVariable, Equation, Step
 from dualize.duality.scalar import Scope, from_sympy, to_sympy
@@ -189,6 +190,19 @@ def _maximize_over(objective: Expr, v: DualVariable) -> tuple[Expr, Expr] | None
     nu = scope.symbol_for(v.symbol)
     if nu not in expr.free_symbols or _opaque_uses(scope, v.name):
         return None
+    found = cache.memo(cache.key_of("maximize-free", expr, nu), lambda: _stationary(expr, nu),
+                       _pair_payload, _pair_from_payload)
+    if found is None:
+        return None
+    value, root = found
+    try:
+        return tidy(from_sympy(value, scope)), tidy(from_sympy(root, scope))
+    except (ValueError, KeyError):
+        return None
+
+
+def _stationary(expr: sympy.Expr, nu: sympy.Symbol) -> tuple[sympy.Expr, sympy.Expr] | None:
+    """(max value, argmax) of expr over nu from its one real stationary point, if concave there."""
     d1 = sympy.diff(expr, nu)
     try:
         roots = sympy.solve(d1, nu, dict=False)
@@ -200,11 +214,18 @@ def _maximize_over(objective: Expr, v: DualVariable) -> tuple[Expr, Expr] | None
     second = sympy.simplify(sympy.diff(expr, nu, 2).subs(nu, roots[0]))
     if second.is_negative is not True:
         return None
-    value = sympy.simplify(sympy.expand_log(expr.subs(nu, roots[0]), force=False))
-    try:
-        return tidy(from_sympy(value, scope)), tidy(from_sympy(roots[0], scope))
-    except (ValueError, KeyError):
+    return sympy.simplify(sympy.expand_log(expr.subs(nu, roots[0]), force=False)), roots[0]
+
+
+def _pair_payload(found: tuple[sympy.Expr, sympy.Expr] | None) -> object:
+    return None if found is None else [cache.encode(found[0]), cache.encode(found[1])]
+
+
+def _pair_from_payload(payload: object) -> tuple[sympy.Expr, sympy.Expr] | None:
+    if payload is None:
         return None
+    value, root = payload  # type: ignore[misc]
+    return cache.decode(value), cache.decode(root)
 
 
 def _opaque_uses(scope: Scope, name: str) -> bool:

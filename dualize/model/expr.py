@@ -257,7 +257,7 @@ Elementwise = str
 
 @dataclass(frozen=True)
 class Apply(Expr):
-    """An elementwise function of the function table (exp, log, sqrt, abs, softplus, ...)."""
+    """An elementwise function, one entry of the function table (``model/functions.py``)."""
 
     func: Elementwise
     arg: Expr

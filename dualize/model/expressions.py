@@ -29,6 +29,7 @@ from dualize.model.expr import (
     symbols_of,
 )
 from dualize.model.functions import ABS, BY_SPELLING, Function
+from dualize.model.notation import rewrite_for
 from dualize.model.scope import FUNCTIONS, ResolveError, Scope
 from dualize.syntax import ast
 
@@ -115,6 +116,10 @@ class ExprResolver:
             hint = f"did you mean `{close[0]}`?" if close else "the functions are " + \
                 ", ".join(FUNCTIONS)
             hint = _WRITTEN_AS.get(node.func, hint)
+            rewrite = rewrite_for(node.func)
+            if rewrite is not None and node.func not in _WRITTEN_AS:
+                raise self.scope.fail(M.OTHER_NOTATION, node.func_span, name=node.func,
+                                      hint=rewrite)
             raise self.scope.fail(M.UNKNOWN_FUNCTION, node.func_span, name=node.func, hint=hint)
         if node.func in BY_SPELLING:
             return self._elementwise(node, BY_SPELLING[node.func])

@@ -64,6 +64,11 @@ UNKNOWN_FUNCTION = _model(
     "unknown-function", "unknown function `{name}`",
     "The functions are sum, exp, log, sqrt, max, min, diag, trace, inv, ones and "
     "identity.")
+OTHER_NOTATION = _model(
+    "other-notation", "`{name}` is a function name from another notation",
+    "The language writes building blocks as mathematics (x' * P * x, ||e||^2, "
+    "log(sum(exp(e))), semidefinite constraints for eigenvalues) rather than by name; "
+    "the hint gives the rewrite.")
 ARGUMENT_COUNT = _model(
     "argument-count", "`{name}` takes {expected}, not {count}",
     "Each function has a fixed number of arguments.")

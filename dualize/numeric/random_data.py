@@ -94,8 +94,10 @@ def draw_value(symbol: ir.Symbol, dims: dict[str, int],
     """A value of ``symbol``'s shape inside the set its facts describe."""
     rows, cols = shape_of(symbol.sym_shape, dims)
     facts = symbol.facts
-    if facts & {"psd", "pd"}:
+    if "pd" in facts:
         return _gram(rows, rng, 0.1)
+    if "psd" in facts:
+        return _low_rank_gram(rows, rng)
     if "symmetric" in facts:
         b = rng.normal(size=(rows, rows))
         return (b + b.T) / 2
@@ -115,6 +117,13 @@ def draw_value(symbol: ir.Symbol, dims: dict[str, int],
 def _gram(n: int, rng: np.random.Generator, shift: float) -> np.ndarray:
     g = rng.normal(size=(n, n))
     return g @ g.T / n + shift * np.eye(n)
+
+
+def _low_rank_gram(n: int, rng: np.random.Generator) -> np.ndarray:
+    """A singular member of S^n_+ (rank about n/2): S^n_+ data need not be invertible,
+    and the singular case is the one that tests the range conditions."""
+    g = rng.normal(size=(n, max(1, n // 2)))
+    return g @ g.T / n
 
 
 def _stored(arr: np.ndarray) -> np.ndarray | float:

@@ -108,6 +108,8 @@ def _transpose_of(e: ir.Expr) -> ir.Expr:
         return ir.Scale(e.factor, _transpose_of(e.arg))
     if e.shape.is_scalar or (isinstance(e, ir.Symbol) and "symmetric" in e.facts):
         return e
+    if isinstance(e, ir.Diag | ir.Identity):
+        return e
     return ir.Transpose(e)
 
 
@@ -167,8 +169,28 @@ def _neg_entropy(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     if not isinstance(expr, ir.Hadamard):
         return None
     for a, b in ((expr.left, expr.right), (expr.right, expr.left)):
-        if isinstance(b, ir.Apply) and b.func == LOG.name and b.arg == a:
+        if isinstance(b, ir.Apply) and b.func == LOG.name and _same(b.arg, a):
             return -ctx.cp.entr(ctx(a))
+    return None
+
+
+def _same(a: ir.Expr, c: ir.Expr) -> bool:
+    from dualize.duality.normal import tidy
+
+    return a == c or tidy(a) == tidy(c)
+
+
+def _softplus(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    """log(1 + exp(g)) entrywise is cvxpy's logistic(g), convex."""
+    if not (isinstance(expr, ir.Apply) and expr.func == "log" and isinstance(expr.arg, ir.Add)
+            and len(expr.arg.terms) == 2):
+        return None
+    for one, e in (expr.arg.terms, reversed(expr.arg.terms)):
+        ones = isinstance(one, ir.Ones) or (isinstance(one, ir.Number) and one.value == 1) or (
+            isinstance(one, ir.Broadcast) and isinstance(one.arg, ir.Number)
+            and one.arg.value == 1)
+        if ones and isinstance(e, ir.Apply) and e.func == "exp":
+            return ctx.cp.logistic(ctx(e.arg))
     return None
 
 
@@ -197,7 +219,7 @@ def _as_2d(cp: Any, e: CvxExpr) -> CvxExpr:
 
 
 _RECOGNISERS: tuple[Callable[[ir.Expr, _Ctx], CvxExpr | None], ...] = (
-    _quad_form, _squared_norm, _neg_entropy, _entropy_product, _log_sum_exp,
+    _quad_form, _squared_norm, _neg_entropy, _entropy_product, _log_sum_exp, _softplus,
 )
 
 

@@ -34,8 +34,9 @@ from dualize.numeric.random_data import random_instance
 from dualize.numeric.samples import WeakDualitySamples, weak_duality_samples
 from dualize.numeric.solution import status_word
 from dualize.numeric.tolerance import tolerance
+from dualize.numeric.verify_words import CONSISTENT
 
-__all__ = ["InstanceCheck", "VerifyReport", "WeakDualitySamples", "check_instance",
+__all__ = ["CONSISTENT", "InstanceCheck", "VerifyReport", "WeakDualitySamples", "check_instance",
            "dual_function_value", "report_dict", "tolerance", "verify", "weak_duality_samples"]
 
 
@@ -142,25 +143,47 @@ def _multiplier_error(derivation: Derivation, reference: dict[str, Any],
     return max(errors) if errors else None
 
 
+
+_PAIRS = {("infeasible", "unbounded"): "the primal is infeasible and the dual unbounded",
+          ("unbounded", "infeasible"): "the primal is unbounded and the dual infeasible"}
+
+
+def infinite_pair(c: InstanceCheck) -> str | None:
+    """Why an instance with no finite values still agrees with weak duality, or None.
+
+    Weak duality (d <= p for a minimization) forces d = -inf when p = -inf, so an
+    unbounded primal leaves the dual infeasible; an infeasible primal (p = +inf)
+    allows any dual, and an unbounded dual (d = +inf) proves the primal infeasible
+    (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 5.2.2, from memory).
+    """
+    return _PAIRS.get((c.primal_status, c.dual_status))
+
+
 def summarize(checks: tuple[InstanceCheck, ...]) -> VerifyReport:
     """The verdict: failed on any weak-duality violation or when nothing was comparable."""
     messages = [f"weak duality violated on {c.source}: primal {c.primal_value:.10g}, dual "
                 f"{c.dual_value:.10g}; the derived dual is wrong"
                 for c in checks if not c.weak_duality_ok]
+    pairs = [c for c in checks if infinite_pair(c) is not None]
+    agree = [f"{infinite_pair(c)} on {c.source}: both optimal values are infinite, as "
+             "weak duality predicts" for c in pairs]
+    if pairs and len(pairs) == len(checks) and not messages:
+        return VerifyReport(checks, float("nan"), CONSISTENT, tuple(agree))
     usable = [c for c in checks if math.isfinite(c.gap)]
     max_gap = max((abs(c.gap) for c in usable), default=float("nan"))
     if messages or not usable:
         if not usable and not messages:
-            pairs = {f"{status_word(c.primal_status)}/{status_word(c.dual_status)}"
-                     for c in checks}
+            seen = {f"{status_word(c.primal_status)}/{status_word(c.dual_status)}"
+                    for c in checks}
             messages.append("no instance gave two comparable finite values: "
-                            + ", ".join(sorted(pairs)))
-        return VerifyReport(checks, max_gap, "failed", tuple(messages))
+                            + ", ".join(sorted(seen)))
+        return VerifyReport(checks, max_gap, "failed", tuple(messages + agree))
     gaps = [c for c in usable if c.gap > tolerance(c.primal_value, c.dual_value)]
     for c in gaps:
         bound = " (the primal value is only a local bound)" if c.primal_status == "local" else ""
         messages.append(f"duality gap {c.gap:.6g} on {c.source}{bound}")
-    skipped = len(checks) - len(usable)
+    skipped = len(checks) - len(usable) - len(pairs)
+    messages += agree
     if skipped:
         messages.append(f"{skipped} instance(s) not comparable (see statuses)")
     return VerifyReport(checks, max_gap, "gap" if gaps else "zero-gap", tuple(messages))

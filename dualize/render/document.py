@@ -128,6 +128,7 @@ class RecoveryView:
     variable: str
     formula: str | None
     note: str
+    relations: tuple[Line, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -296,7 +297,10 @@ def condition_line(condition: Condition, fmt: Formatter) -> Line:
 
 def recovery_view(recovery: Recovery, fmt: Formatter) -> RecoveryView:
     formula = None if recovery.formula is None else fmt.expr(recovery.formula)
-    return RecoveryView(fmt.name(recovery.variable), formula, fmt.prose(recovery.note))
+    relations = tuple(Line(fmt.expr(e.lhs), fmt.relation(e.relation), fmt.expr(e.rhs))
+                      for e in recovery.relations if isinstance(e.lhs, ir.Expr))
+    return RecoveryView(fmt.name(recovery.variable), formula, fmt.prose(recovery.note),
+                        relations)
 
 
 def verdict_view(analysis: Analysis, fmt: Formatter, problem: Problem) -> VerdictView:

@@ -177,7 +177,12 @@ def kkt_json(condition: Condition) -> dict[str, Any]:
 
 def recovery_json(recovery: Recovery) -> dict[str, Any]:
     formula = None if recovery.formula is None else math_pair(recovery.formula)
-    return {"variable": recovery.variable, "formula": formula, "note": recovery.note}
+    out = {"variable": recovery.variable, "formula": formula, "note": recovery.note}
+    if recovery.relations:
+        out["relations"] = [{"lhs": math_pair(e.lhs), "relation": e.relation,
+                             "rhs": math_pair(e.rhs)} for e in recovery.relations
+                            if not isinstance(e.lhs, Head)]
+    return out
 
 
 def diagnostic_json(d: Diagnostic) -> dict[str, Any]:

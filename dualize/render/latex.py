@@ -215,8 +215,9 @@ def _context(view: DocumentView) -> dict[str, Any]:
         "unbounded": unbounded_sentence(view.dual, r"$-\infty$", r"$+\infty$"),
         "kkt": [{"group": k.group[:1].upper() + k.group[1:], "statements": k.statements,
                  "math": align_block(k.equations) if k.equations else ""} for k in view.kkt],
-        "recovery": [{"math": align_block((Line(r.variable, "=", r.formula),))
-                      if r.formula is not None else "", "variable": r.variable,
+        "recovery": [{"math": align_block(((Line(r.variable, "=", r.formula),)
+                                           if r.formula is not None else ()) + r.relations)
+                      if r.formula is not None or r.relations else "", "variable": r.variable,
                       "note": r.note} for r in view.recovery],
         "verdict": view.verdict,
         "witness": ", ".join(_inline(w) for w in view.verdict.witness) if view.verdict else "",

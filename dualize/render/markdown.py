@@ -108,8 +108,9 @@ def _context(view: DocumentView) -> dict[str, Any]:
         "kkt": [{"group": k.group[:1].upper() + k.group[1:], "statements": k.statements,
                  "math": display(aligned(k.equations)) if k.equations else ""}
                 for k in view.kkt],
-        "recovery": [{"math": display(aligned((Line(r.variable, "=", r.formula),)))
-                      if r.formula is not None else "", "variable": r.variable,
+        "recovery": [{"math": display(aligned(((Line(r.variable, "=", r.formula),)
+                                               if r.formula is not None else ()) + r.relations))
+                      if r.formula is not None or r.relations else "", "variable": r.variable,
                       "note": r.note} for r in view.recovery],
         "notes": view.notes,
         "caution": view.caution,

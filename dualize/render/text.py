@@ -212,7 +212,8 @@ def _context(view: DocumentView, convex: bool | None, color: bool) -> dict[str, 
         "unbounded": unbounded_sentence(view.dual, "-∞", "+∞"),
         "kkt": [{"group": k.group, "rows": equation_rows(k.lines)} for k in view.kkt],
         "recovery": [line for r in view.recovery
-                     for line in _recovery_rows(r.variable, r.formula, r.note)],
+                     for line in _recovery_rows(r.variable, r.formula, r.note)
+                     + [INDENT + row for row in equation_rows(r.relations)]],
         "notes": [line for note in view.notes for line in wrap(note, width=WIDTH - 2)],
         "caution": wrap(view.caution, width=WIDTH - 2),
     }

@@ -93,7 +93,8 @@ class NumpyPrinter(Printer):
     """Prints IR expressions as numpy code under the conventions above."""
 
     printmethod = "_dualize_numpy"
-    _default_settings: dict[str, Any] = {"names": {}, "constants": None, "hoist": True}
+    _default_settings: dict[str, Any] = {"names": {}, "constants": None, "hoist": True,
+                                         "sparse": False}
 
     def __init__(self, settings: dict[str, Any] | None = None) -> None:
         super().__init__(settings)
@@ -127,7 +128,8 @@ class NumpyPrinter(Printer):
 
     def _hoisted(self, expr: ir.Expr) -> str:
         code, reads = self._inline(expr)
-        name = self.constants.add(expr, code, reads)
+        key = ("sparse", expr) if self._settings["sparse"] else expr
+        name = self.constants.add(key, code, reads)
         self.used.add(name)
         return name
 
@@ -184,6 +186,10 @@ class NumpyPrinter(Printer):
         return f"np.ones({self.size(expr.n)})"
 
     def _print_ir_Identity(self, expr: ir.Identity) -> str:  # noqa: N802
+        """Dense, except where the caller asked for sparse (a Jacobian for HiGHS): an
+        m x m identity must never cost m^2 memory there."""
+        if self._settings["sparse"]:
+            return f"scipy.sparse.eye_array({self.size(expr.n)}, format=\"csr\")"
         return f"np.eye({self.size(expr.n)})"
 
     def _print_ir_Zero(self, expr: ir.Zero) -> str:  # noqa: N802

@@ -9,10 +9,12 @@ linted module with unit tests of its own.  The imports above a marker serve lint
 and the tests only.
 """
 
+import contextlib
 import json
 from dataclasses import dataclass, field
 
 import numpy as np
+import scipy.sparse
 
 # ---- copied into the generated module from here ----
 
@@ -24,6 +26,13 @@ CERTIFY = GAP_TOL
 """A minimizer of the Lagrangian is kept as x only when it passes the same two tests."""
 MAX_DEPTH = 32
 """The deepest nesting of lists an instance file may hold (a matrix needs two)."""
+BLAS_THREADS = 1
+"""BLAS threads for the solve.  The module's products are matrix-vector or thin
+(m x r with r small), where extra threads only add synchronisation, and on a busy
+machine they can cost a thousand times the product itself.  Run as a script the
+module sets OPENBLAS_NUM_THREADS (and the OpenMP and MKL ones) to 1 before numpy
+loads, unless already set; imported, it holds BLAS to this many threads during
+``solve`` when threadpoolctl is installed, and leaves the caller's setting otherwise."""
 
 
 @dataclass(frozen=True)
@@ -62,6 +71,15 @@ class Spec:
     caution: str = ""
 
 
+def _blas_threads():
+    """A context holding BLAS to BLAS_THREADS threads (a no-op without threadpoolctl)."""
+    try:
+        import threadpoolctl
+    except ImportError:
+        return contextlib.nullcontext()
+    return threadpoolctl.threadpool_limits(limits=BLAS_THREADS, user_api="blas")
+
+
 class InputError(Exception):
     """Bad instance data: reported in one line, exit status 2."""
 
@@ -86,6 +104,13 @@ def _block(value, rows, cols):
     return value.reshape(rows, cols)
 
 
+def _sparse_block(value, rows, cols):
+    """``_block`` for a Jacobian that may be sparse: a scipy sparse array either way."""
+    if scipy.sparse.issparse(value):
+        return scipy.sparse.csr_array(value.reshape((rows, cols)))
+    return scipy.sparse.csr_array(_block(value, rows, cols))
+
+
 def _split(z, sizes, scalars):
     """The stacked vector z cut into one part per variable; scalars as numbers."""
     if not sizes:
@@ -108,39 +133,34 @@ def _no_constant(text):
     raise InputError(f"{text} is not a number an instance may hold")
 
 
-def _finite_float(text):
-    value = float(text)
-    if not np.isfinite(value):
-        raise InputError(f"the number {text[:40]} is beyond the floating-point range")
-    return value
-
-
-def _checked_int(text):
-    value = int(text)
-    if abs(value) > 1e300:
-        raise InputError(f"the number {text[:40]}... is beyond the floating-point range")
-    return value
-
-
 def load_instance(raw):
     """The instance in the bytes ``raw``: a JSON object of names to numbers or nested lists.
 
     Strict where ``json`` is lenient: UTF-8 only, no repeated names, no NaN or
-    Infinity, no number past the float range, nesting at most MAX_DEPTH deep.
+    Infinity, nesting at most MAX_DEPTH deep (numbers past the float range are
+    caught when the arrays are read).
     """
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as err:
         raise InputError(f"the instance is not valid UTF-8 (byte {err.start})") from None
+    deep = _bracket_depth(raw) > MAX_DEPTH
     try:
-        data = json.loads(text, object_pairs_hook=_unique_keys, parse_constant=_no_constant,
-                          parse_float=_finite_float, parse_int=_checked_int)
+        data = json.loads(text, object_pairs_hook=_unique_keys, parse_constant=_no_constant)
     except RecursionError:
         raise InputError("the instance is nested too deeply") from None
     except ValueError as err:
         raise InputError(f"the instance is not valid JSON: {err}") from None
-    _depth(data, 0)
+    if deep:  # the byte count may include brackets inside strings: confirm on the data
+        _depth(data, 0)
     return data
+
+
+def _bracket_depth(raw):
+    """An upper bound on the nesting depth, counted on the bytes (fast on large files)."""
+    codes = np.frombuffer(raw, dtype=np.uint8)
+    steps = np.isin(codes, (91, 123)).astype(np.int64) - np.isin(codes, (93, 125))
+    return int(np.cumsum(steps).max(initial=0))
 
 
 def _depth(value, level):
@@ -149,19 +169,22 @@ def _depth(value, level):
     items = value.values() if isinstance(value, dict) else value if isinstance(value, list) \
         else ()
     for item in items:
-        _depth(item, level + 1)
+        if isinstance(item, list | dict):
+            _depth(item, level + 1)
 
 
 def _numbers_only(name, value, level=0):
     """Refuse what numpy would quietly turn into a number: true/false, strings, objects."""
-    if isinstance(value, bool):
-        raise InputError(f"{name}: holds true/false where a number belongs")
     if isinstance(value, list):
         if level >= 2:
             raise InputError(f"{name}: nested deeper than a matrix")
+        if all(type(item) is float or type(item) is int for item in value):
+            return
         for item in value:
             _numbers_only(name, item, level + 1)
-    elif not isinstance(value, int | float):
+    elif isinstance(value, bool | np.bool_):
+        raise InputError(f"{name}: holds true/false where a number belongs")
+    elif not isinstance(value, int | float | np.ndarray | np.number):
         raise InputError(f"{name}: not a number or a (nested) list of numbers")
 
 
@@ -177,12 +200,21 @@ def _bind_size(size, length, name, dims):
 def _array(name, value):
     _numbers_only(name, value)
     try:
-        with np.errstate(all="ignore"):
-            array = np.asarray(value, dtype=float)
+        array = np.asarray(value)
     except (TypeError, ValueError, OverflowError):
         raise InputError(f"{name}: not a number or a rectangular list of numbers") from None
+    if array.dtype.kind == "b":
+        raise InputError(f"{name}: holds true/false where a number belongs")
+    if array.dtype.kind not in "iuf":
+        raise InputError(f"{name}: holds a number beyond the floating-point range or a "
+                         "value that is not a number")
+    if array.ndim > 2:
+        raise InputError(f"{name}: nested deeper than a matrix")
+    with np.errstate(all="ignore"):
+        array = array.astype(float)
     if not np.all(np.isfinite(array)):
-        raise InputError(f"{name}: contains a value that is not finite")
+        raise InputError(f"{name}: holds a value that is not finite or beyond the "
+                         "floating-point range")
     return array
 
 

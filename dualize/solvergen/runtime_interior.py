@@ -7,65 +7,86 @@ imports above it serve linting and the unit tests only.
 import numpy as np
 import scipy.linalg
 
-from dualize.solvergen.runtime_methods import _linear_parts, _solve_augmented, _solve_slsqp
+from dualize.solvergen.runtime_methods import (
+    _keep_multipliers,
+    _linear_parts,
+    _solve_augmented,
+    _solve_slsqp,
+)
 
 # ---- copied into the generated module from here ----
 
 
-def _gram_factor(p, d, size, probes=48):
-    """F with H = F F' when the Hessian's rank is below ``probes``, else None.
-
-    A randomized range finder (N. Halko, P.-G. Martinsson and J. Tropp, SIAM Review,
-    2011, algorithm 4.1) with a fixed seed, on Hessian-vector products taken as
-    gradient differences (exact for a quadratic up to rounding), accepted only when
-    fresh probes confirm that the factor reproduces H to rounding error.
-    """
-    if size < 2 * probes:
-        return None
+def _hessian_times(p, d, size):
+    """v -> H v for a block of columns, from gradient differences (exact for a quadratic
+    dual up to rounding), and the rounding scale of those differences."""
     base = p.gradient(np.zeros(size), d)
 
     def times_h(block):
         return np.column_stack([p.gradient(column, d) - base for column in block.T])
 
-    rng = np.random.default_rng(0)
-    q, _ = np.linalg.qr(times_h(rng.standard_normal((size, probes))))
-    small = q.T @ times_h(q)
-    values, vectors = np.linalg.eigh(0.5 * (small + small.T))
-    top = max(float(values.max(initial=0.0)), 0.0)
-    keep = values > 1e-10 * top
-    if top == 0.0 or keep.sum() > probes - 8:
-        return None
-    factor = (q @ vectors[:, keep]) * np.sqrt(values[keep])
-    check = rng.standard_normal((size, 4))
+    return times_h, np.abs(base).max(initial=0.0) * np.sqrt(size)
+
+
+def _diagonal_hessian(p, d, size):
+    """The diagonal of a constant Hessian that is diagonal (checked on two random
+    probes), else None: such a dual needs no matrix at all."""
+    times_h, rounding = _hessian_times(p, d, size)
+    diagonal = times_h(np.ones((size, 1)))[:, 0]
+    check = np.random.default_rng(1).standard_normal((size, 2))
     exact = times_h(check)
-    rounding = np.abs(exact).max() + np.abs(base).max(initial=0.0) * np.sqrt(size)
-    return factor if np.abs(exact - factor @ (factor.T @ check)).max() <= 1e-8 * rounding else None
+    scale = np.abs(exact).max(initial=0.0) + rounding
+    return diagonal if np.abs(exact - diagonal[:, None] * check).max() <= 1e-9 * scale else None
+
+
+def _gram_factor(p, d, size, probes=48):
+    """F with H = F F' when the Hessian has low rank, else None.
+
+    A randomized range finder (N. Halko, P.-G. Martinsson and J. Tropp, SIAM Review,
+    2011, algorithm 4.1) with a fixed seed, on Hessian-vector products taken as
+    gradient differences; when the rank reaches the number of probes, the probes
+    double (a rank that grows as needed) until they pass a quarter of the size.  A
+    factor is accepted only when fresh probes confirm it reproduces H to rounding.
+    """
+    times_h, rounding = _hessian_times(p, d, size)
+    rng = np.random.default_rng(0)
+    while 2 * probes <= size:
+        q, _ = np.linalg.qr(times_h(rng.standard_normal((size, probes))))
+        small = q.T @ times_h(q)
+        values, vectors = np.linalg.eigh(0.5 * (small + small.T))
+        top = max(float(values.max(initial=0.0)), 0.0)
+        keep = values > 1e-10 * top
+        if top == 0.0:
+            return None
+        if keep.sum() <= probes - 8:
+            factor = (q @ vectors[:, keep]) * np.sqrt(values[keep])
+            check = rng.standard_normal((size, 4))
+            exact = times_h(check)
+            scale = np.abs(exact).max() + rounding
+            good = np.abs(exact - factor @ (factor.T @ check)).max() <= 1e-8 * scale
+            return factor if good else None
+        probes *= 2
+    return None
 
 
 def _kkt_solver(h, factor, diagonal, a):
-    """A solver for [[H + D, -A'], [A, 0]] (dz, dy) = (r1, r2), H + D by Woodbury or Cholesky.
+    """A solver for [[H + D, -A'], [A, 0]] (dz, dy) = (r1, r2).
 
-    D gets a small ridge (primal regularization: A. Altman and J. Gondzio, Optimization
-    Methods and Software, 1999), so a dual that is flat along some direction still
-    gives a definite system; the residuals are recomputed exactly at every iterate.
+    H + D is solved through its structure: D alone (H diagonal, folded into D), D
+    plus F F' by the Woodbury identity, or a dense Cholesky factor.  D gets a small
+    ridge (primal regularization: A. Altman and J. Gondzio, Optimization Methods and
+    Software, 1999), so a dual that is flat along some direction still gives a
+    definite system; one step of iterative refinement follows each solve, and the
+    Schur complement A (H + D)^-1 A' is formed with one solve on all of A's rows.
     """
     if factor is not None:
-        diagonal = diagonal + 1e-9 * max(1.0, float(np.square(factor).sum(axis=1).max()))
-        inverse = 1.0 / diagonal
-        small = scipy.linalg.cho_factor(
-            np.eye(factor.shape[1]) + factor.T @ (inverse[:, None] * factor))
-
-        def apply_k(v):
-            return factor @ (factor.T @ v) + diagonal * v
-
-        def solve_k(r):
-            return inverse * (r - factor @ scipy.linalg.cho_solve(small, factor.T @ (inverse * r)))
+        apply_k, solve_k = _low_rank_parts(factor, diagonal)
     else:
         diagonal = diagonal + 1e-9 * max(1.0, float(np.abs(np.diag(h)).max(initial=0.0)))
         full = scipy.linalg.cho_factor(h + np.diag(diagonal))
 
         def apply_k(v):
-            return h @ v + diagonal * v
+            return h @ v + (diagonal * v.T).T
 
         def solve_k(r):
             return scipy.linalg.cho_solve(full, r)
@@ -76,7 +97,7 @@ def _kkt_solver(h, factor, diagonal, a):
 
     if a is None:
         return lambda r1, r2: (refined(r1), None)
-    k_at = np.column_stack([refined(row) for row in a])
+    k_at = refined(np.ascontiguousarray(a.T))
     schur = scipy.linalg.cho_factor(a @ k_at)
 
     def solve(r1, r2):
@@ -85,6 +106,31 @@ def _kkt_solver(h, factor, diagonal, a):
         return base + k_at @ dy, dy
 
     return solve
+
+
+def _low_rank_parts(factor, diagonal):
+    """(v -> (F F' + D) v, r -> (F F' + D)^-1 r) by the Woodbury identity, for vectors
+    and blocks of columns alike; a factor of rank 0 leaves D alone."""
+    scale = float(np.square(factor).sum(axis=1).max(initial=0.0))
+    diagonal = diagonal + 1e-9 * max(1.0, scale)
+    inverse = 1.0 / diagonal
+
+    def scaled(vector_or_block, by):
+        return (by * vector_or_block.T).T
+
+    if factor.shape[1] == 0:
+        return (lambda v: scaled(v, diagonal)), (lambda r: scaled(r, inverse))
+    small = scipy.linalg.cho_factor(
+        np.eye(factor.shape[1]) + factor.T @ (inverse[:, None] * factor))
+
+    def apply_k(v):
+        return factor @ (factor.T @ v) + scaled(v, diagonal)
+
+    def solve_k(r):
+        inner = scipy.linalg.cho_solve(small, factor.T @ scaled(r, inverse))
+        return scaled(r - factor @ inner, inverse)
+
+    return apply_k, solve_k
 
 
 class _Iterate:
@@ -140,9 +186,9 @@ def _with_slacks(p, d, z0, lo, hi):
     """The constraints as A (z, s) = b with slacks s >= 0 for the inequality rows.
 
     Returns the objective and gradient on (z, s), a function giving the Hessian at
-    an iterate as (dense matrix or None, Gram factor or None), A, b and the widened
-    start and bounds.  A constant Hessian is looked at once: factored when it is a
-    low-rank Gram matrix, else formed densely.
+    an iterate as (dense matrix or None, Gram factor or None, diagonal), A, b and the
+    widened start and bounds.  A constant Hessian is looked at once: kept as its
+    diagonal or a low-rank Gram factor when it is one, else formed densely.
     """
     (a_ub, b_ub), (a_eq, b_eq) = _linear_parts(p, z0, d)
     size, extra = len(z0), 0 if a_ub is None else a_ub.shape[0]
@@ -157,14 +203,12 @@ def _with_slacks(p, d, z0, lo, hi):
 
     fixed = None
     if p.constant_hessian:
-        factor = _gram_factor(p, d, size) if np.all(np.isfinite(lo) | np.isfinite(hi)) else None
-        if factor is not None:
-            fixed = (None, np.vstack([factor, np.zeros((extra, factor.shape[1]))]))
-        else:
-            fixed = (widened(p.hessian(z0, d)), None)
+        fixed = _structured_hessian(p, d, size, extra, lo, hi)
+        if fixed is None:
+            fixed = (widened(p.hessian(z0, d)), None, 0.0)
 
     def hessian(z):
-        return fixed if fixed is not None else (widened(p.hessian(z[:size], d)), None)
+        return fixed if fixed is not None else (widened(p.hessian(z[:size], d)), None, 0.0)
 
     def objective(z):
         return p.objective(z[:size], d)
@@ -180,6 +224,18 @@ def _with_slacks(p, d, z0, lo, hi):
             np.concatenate([lo, np.zeros(extra)]), np.concatenate([hi, np.full(extra, np.inf)]))
 
 
+def _structured_hessian(p, d, size, extra, lo, hi):
+    """(None, F, h) with H = F F' + diag(h) on (z, slacks), without forming H, when the
+    constant Hessian is diagonal (F has no columns) or a low-rank Gram matrix."""
+    diagonal = _diagonal_hessian(p, d, size)
+    if diagonal is not None:
+        return None, np.zeros((size + extra, 0)), np.concatenate([diagonal, np.zeros(extra)])
+    factor = _gram_factor(p, d, size) if np.all(np.isfinite(lo) | np.isfinite(hi)) else None
+    if factor is None:
+        return None
+    return None, np.vstack([factor, np.zeros((extra, factor.shape[1]))]), 0.0
+
+
 def _interior(p, d, z0, lo, hi, tol, max_iter):
     """Mehrotra's predictor-corrector for min f(z) s.t. A z (<= or =) b, lo <= z <= hi.
 
@@ -189,6 +245,7 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
     it happened.
     """
     objective, gradient, hessian, a, b, z, lo, hi = _with_slacks(p, d, z0, lo, hi)
+    extra = len(z) - len(z0)
     low, up = np.isfinite(lo), np.isfinite(hi)
     wl, wu = low.astype(float), up.astype(float)
     y = np.zeros(0 if a is None else len(b))
@@ -204,12 +261,16 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
                 and np.abs(primal_res).max(initial=0.0) <= tol * target
                 and np.isfinite(objective(z))
                 and mu * count <= tol * (1.0 + abs(objective(z)))):
+            equalities = 0 if a is None else len(b) - extra
+            _keep_multipliers(p, z[:len(z0)], d, y[equalities:], y[:equalities],
+                              (wl[:len(z0)], wu[:len(z0)]))
             return z[:len(z0)], True, "interior point: residuals and complementarity below " \
                 "the tolerance"
         if not (np.all(it.sl > 0) and np.all(it.su > 0) and np.all(np.isfinite(dual_res))):
             return z[:len(z0)], False, "interior point: lost interiority to rounding"
         weights = np.where(low, wl / it.sl, 0.0) + np.where(up, wu / it.su, 0.0)
-        solve = _kkt_solver(*hessian(z), weights, a)
+        dense, factor, diagonal = hessian(z)
+        solve = _kkt_solver(dense, factor, weights + diagonal, a)
         dz, _, dwl, dwu = it.direction(solve, dual_res, primal_res, 0.0, 0.0)
         predicted = it.gap_after(it.longest(dz, dwl, dwu), dz, dwl, dwu) / count
         sigma = (max(predicted, 0.0) / mu) ** 3 if mu > 0 else 0.0

@@ -35,6 +35,30 @@ def _linear_parts(p, z, d):
     return stack[0], stack[1]
 
 
+def _by_block(p, z, d, ub, eq):
+    """Row multipliers of the inequality rows ``ub`` and the equality rows ``eq``, cut back
+    into one vector per general constraint, in the order of ``p.constraints``."""
+    out, i, j = [], 0, 0
+    for relation, value, _ in p.constraints(z, d):
+        count = np.size(value)
+        if relation == "=":
+            out.append(np.asarray(eq[j:j + count], dtype=float))
+            j += count
+        else:
+            out.append(np.asarray(ub[i:i + count], dtype=float))
+            i += count
+    return out
+
+
+def _keep_multipliers(p, z, d, ub, eq, bounds=()):
+    """Store the multipliers a method found, for the recovery of the primal (KKT): one
+    vector per general constraint, then one per dual variable and side of its bounds."""
+    sizes = p.sizes(d)
+    cut = np.cumsum(sizes)[:-1] if sizes else []
+    parts = [q for w in bounds for q in np.split(np.asarray(w, dtype=float), cut)]
+    d["_row_multipliers"] = _by_block(p, z, d, ub, eq) + parts
+
+
 def _solve_linprog(p, d, z0, lo, hi, tol, max_iter):
     (a_ub, b_ub), (a_eq, b_eq) = _linear_parts(p, z0, d)
     res = scipy.optimize.linprog(
@@ -45,6 +69,10 @@ def _solve_linprog(p, d, z0, lo, hi, tol, max_iter):
     if res.status in (2, 3):  # HiGHS proved the (negated) dual infeasible or unbounded
         raise NoFiniteDual("infeasible" if res.status == 2 else "unbounded", str(res.message))
     z = res.x if res.x is not None else z0
+    if res.status == 0:
+        _keep_multipliers(p, z, d, res.ineqlin.marginals if a_ub is not None else [],
+                          res.eqlin.marginals if a_eq is not None else [],
+                          (res.lower.marginals, res.upper.marginals))
     return z, res.status == 0, res.message
 
 
@@ -184,6 +212,7 @@ def _solve_augmented(p, d, z0, lo, hi, tol, max_iter):
         residual = a_eq @ z - b_eq
         mult = mult + rho * residual
         if np.max(np.abs(residual), initial=0.0) <= tol * max(1.0, np.abs(b_eq).max(initial=0.0)):
+            _keep_multipliers(p, z, d, [], mult)
             message = "equalities met; inner problems by projected gradient"
             return z, ok, message if ok else "an inner problem hit its iteration limit"
         rho = min(rho * 10.0, 1e10)

@@ -6,6 +6,7 @@ imports above it serve linting and the unit tests only.
 
 import numpy as np
 import scipy.optimize
+import scipy.sparse
 
 from dualize.solvergen.runtime import CERTIFY
 from dualize.solvergen.runtime_methods import _start, _walled
@@ -14,10 +15,14 @@ from dualize.solvergen.runtime_methods import _start, _walled
 
 
 def _fill_unrecovered(p, x, z, d, dual_value):
-    """The unrecovered variables from the primal's LP, else from minimizing the Lagrangian.
+    """The unrecovered variables from the dual's multipliers, else from the primal's LP,
+    else from minimizing the Lagrangian.
 
-    Returns (None, how they were found) or (the reasons neither applied, None).
+    Returns (None, how they were found) or (the reasons none applied, None).
     """
+    if _fill_by_multipliers(p, x, d, dual_value):
+        return None, "the multipliers of the dual's own constraints (KKT: the dual of the " \
+            "dual is the primal), certified by the duality gap and the constraint violation"
     failure = _fill_by_linear_program(p, x, d)
     if failure is None:
         return None, "the primal as a linear program in the unrecovered variables (HiGHS)"
@@ -28,6 +33,41 @@ def _fill_unrecovered(p, x, z, d, dual_value):
         return None, "a numeric minimization of the Lagrangian at the optimal multipliers " \
             "(L-BFGS-B), certified by the duality gap and the constraint violation"
     return f"{failure}; {more}", None
+
+
+def _candidates(rows, size):
+    """Vectors that may be a primal variable of ``size`` entries: each block of the dual's
+    multipliers of that size and the difference of two (the two sides of a norm ball,
+    whose multipliers give a variable's positive and negative parts), with either sign."""
+    same = [r for r in rows if r.size == size and np.all(np.isfinite(r))]
+    found = [r for r in same]
+    found += [same[i] - same[j] for i in range(len(same)) for j in range(i + 1, len(same))]
+    return [sign * r for r in found for sign in (1.0, -1.0)]
+
+
+def _fill_by_multipliers(p, x, d, dual_value):
+    """Whether the unrecovered variables were found among the dual's multipliers.
+
+    The multipliers of the constraint a variable entering the Lagrangian linearly
+    imposes on the dual are that variable, up to the sign convention of the method;
+    which block and sign is not recorded, so the few candidates are tried and one is
+    kept only when the duality gap and the violation certify it.
+    """
+    rows = d.get("_row_multipliers")
+    if not rows or dual_value is None:
+        return False
+    spec = p.unknowns(d)
+    choices = [_candidates(rows, size) for _, size, _, _ in spec]
+    if not all(choices) or np.prod([len(c) for c in choices]) > 256:
+        return False
+    for pick in np.ndindex(*[len(c) for c in choices]):
+        trial = dict(x)
+        for (name, size, low, high), options, k in zip(spec, choices, pick, strict=True):
+            _place(p, trial, [(name, size)], [np.clip(options[k], low, high)])
+        if not _uncertified(p, trial, d, dual_value):
+            x.update(trial)
+            return True
+    return False
 
 
 def _fill_by_linear_program(p, x, d):
@@ -44,9 +84,9 @@ def _fill_by_linear_program(p, x, d):
     eq = [(j, -v) for relation, v, j in rows if relation == "="]
     bounds = [(lo, hi) for _, size, lo, hi in variables for _ in range(size)]
     res = scipy.optimize.linprog(
-        c, A_ub=np.vstack([j for j, _ in ub]) if ub else None,
+        c, A_ub=scipy.sparse.vstack([j for j, _ in ub], format="csr") if ub else None,
         b_ub=np.concatenate([b for _, b in ub]) if ub else None,
-        A_eq=np.vstack([j for j, _ in eq]) if eq else None,
+        A_eq=scipy.sparse.vstack([j for j, _ in eq], format="csr") if eq else None,
         b_eq=np.concatenate([b for _, b in eq]) if eq else None,
         bounds=bounds, method="highs",
     )

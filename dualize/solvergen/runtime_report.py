@@ -14,6 +14,7 @@ from dualize.solvergen.runtime import (
     VIOLATION_TOL,
     InputError,
     NoFiniteDual,
+    _blas_threads,
     _read,
     _split,
     load_instance,
@@ -69,7 +70,7 @@ def run(p, data, tol=1e-9, max_iter=20000):
         raise NeedsConicSolver("this dual has a semidefinite constraint: it needs a conic "
                                "(SDP) solver, which this module does not include")
     d = _read(p, data)
-    with np.errstate(all="ignore"):
+    with np.errstate(all="ignore"), _blas_threads():
         d.update(p.prepare(d))
         lo, hi = p.bounds(d)
         try:

@@ -33,11 +33,12 @@ class Emitter:
         self.scope = scope
         self.constants = Constants()
 
-    def code(self, expr: ir.Expr, hoist: bool = True) -> tuple[str, set[str]]:
-        """Numpy code for ``expr``; data-only parts go to ``_prepare`` when ``hoist``."""
-        printer = NumpyPrinter(
-            {"names": self.scope.names, "constants": self.constants, "hoist": hoist}
-        )
+    def code(self, expr: ir.Expr, hoist: bool = True, sparse: bool = False
+             ) -> tuple[str, set[str]]:
+        """Numpy code for ``expr``; data-only parts go to ``_prepare`` when ``hoist``; an
+        identity matrix becomes a sparse one when ``sparse``."""
+        printer = NumpyPrinter({"names": self.scope.names, "constants": self.constants,
+                                "hoist": hoist, "sparse": sparse})
         return bare(printer.code(normalize(expr))), printer.used
 
     def size(self, value: object) -> tuple[str, set[str]]:

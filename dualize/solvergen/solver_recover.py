@@ -169,7 +169,7 @@ def restricted(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
         size, sreads = emitter.size(length(expr.shape))
         value, vreads = emitter.code(_at_zero(expr, moving))
         used |= sreads | vreads
-        jac = _jac_blocks(emitter, expr, moving, size, used)
+        jac = _jac_blocks(emitter, expr, moving, size, used, sparse=True)
         body.append(f"rows.append(({relation!r}, _flat({value}, {size}), {jac}))")
     variables = _domain_bounds(emitter, unknown, used) + _free(emitter, lift.auxiliary, used)
     body.append(f"return c, rows, [{', '.join(variables)}]")
@@ -177,13 +177,17 @@ def restricted(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
 
 
 def _jac_blocks(emitter: Emitter, expr: ir.Expr, moving: list[ir.Symbol], rows: str,
-                used: set[str]) -> str:
+                used: set[str], sparse: bool = False) -> str:
+    """The Jacobian of ``expr`` in ``moving``, side by side; as a sparse matrix when
+    ``sparse`` (the restricted linear program, whose identity blocks are m x m)."""
     blocks = []
     for symbol in moving:
-        code, reads = emitter.code(jacobian(expr, symbol))
+        code, reads = emitter.code(jacobian(expr, symbol), sparse=sparse)
         cols, creads = emitter.size(length(symbol.shape))
         used |= reads | creads
-        blocks.append(f"_block({code}, {rows}, {cols})")
+        blocks.append(f"{'_sparse_block' if sparse else '_block'}({code}, {rows}, {cols})")
+    if sparse:
+        return f"scipy.sparse.hstack([{', '.join(blocks)}], format=\"csr\")"
     return f"np.hstack([{', '.join(blocks)}])"
 
 

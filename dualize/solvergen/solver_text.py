@@ -59,6 +59,12 @@ def _recovery_lines(derivation: Derivation, missing: dict[str, str], how: str) -
     if missing and how:
         lines.extend(textwrap.wrap(f"{', '.join(sorted(missing))}: {how}.", width=86,
                                    initial_indent="  ", subsequent_indent="    "))
+    if missing:
+        first = "Before that, each is sought among the multipliers of the dual's own " \
+            "constraints (KKT: the dual of the dual is the primal), kept only when the " \
+            "duality gap and the violation certify it."
+        lines.extend(textwrap.wrap(first, width=86, initial_indent="  ",
+                                   subsequent_indent="  "))
     return lines
 
 

@@ -42,7 +42,8 @@ def explain(err: UnexpectedInput, text: str, path: str) -> Diagnostic:
     token = getattr(err, "token", None)
     pos = error_position(err, text)
     expected = sorted(getattr(err, "expected", None) or getattr(err, "accepts", None) or ())
-    for check in (_dangling, _unclosed_bracket, _unbalanced_bar, _objective_relation):
+    for check in (_dangling, _indexing, _unclosed_bracket, _unbalanced_bar,
+                  _objective_relation):
         found = check(text, pos, token, path)
         if found is not None:
             return found
@@ -135,6 +136,25 @@ def _objective_relation(text: str, pos: int, token: Token | None,
         return None
     return make(R.OBJECTIVE_RELATION, path, token_span(token), relation=str(token),
                 hint="move the condition under `subject to`")
+
+
+INDEXED = re.compile(r"[\w)'\]]$")
+
+
+def _indexing(text: str, pos: int, token: Token | None, path: str) -> Diagnostic | None:
+    """``x[1]`` or ``A[i, j]``: a bracket right after a name selects entries, which the
+    language does not do; the hint says how to single entries out with data."""
+    if token is None or token.type != "LSQB" or not INDEXED.search(text[:pos]):
+        return None
+    close = text.find("]", pos, _line_end(text, pos))
+    end = close + 1 if close >= 0 else pos + 1
+    head = re.search(r"[\w']*$", text[:pos])
+    written = (head.group(0) if head else "") + text[pos:end]
+    return make(R.ENTRY_INDEXING, path, span_of(text, pos, end), written=written,
+                hint="relations and functions act entry by entry (x >= 0 bounds every "
+                     "entry); to single entries out, declare a selector as data, e.g. "
+                     "`data e in R^n` (a unit vector) and write e' * x, or `data S in "
+                     "R^(k,n)` and write S * x")
 
 
 def _statement_kind(text: str, pos: int) -> str:

@@ -20,6 +20,7 @@ from dualize.syntax.explain import error_position, explain
 from dualize.syntax.grammar_file import grammar_text
 from dualize.syntax.newlines import NewlineFilter
 from dualize.syntax.outline import outline
+from dualize.syntax.parser_tables import cached_parser
 from dualize.syntax.positions import START, span_of, tree_span
 from dualize.syntax.recovery import later_errors
 from dualize.syntax.span import Span
@@ -38,9 +39,15 @@ class ParseResult:
 
 @lru_cache(maxsize=1)
 def lark_parser() -> Lark:
-    """The LALR parser, built once per process (building takes a tenth of a second)."""
-    return Lark(grammar_text(), parser="lalr", propagate_positions=True,
-                postlex=NewlineFilter(), maybe_placeholders=True)
+    """The LALR parser, once per process: from the cached tables, or built (a tenth of
+    a second or more) and its tables cached for the next run (see parser_tables)."""
+    grammar = grammar_text()
+
+    def build() -> Lark:
+        return Lark(grammar, parser="lalr", propagate_positions=True,
+                    postlex=NewlineFilter(), maybe_placeholders=True)
+
+    return cached_parser(grammar, build, NewlineFilter())
 
 
 def parse(text: str, path: str = "<string>") -> ParseResult:

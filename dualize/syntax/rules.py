@@ -38,6 +38,11 @@ UNCLOSED_BRACKET = _syntax(
     "unclosed-bracket", "`{bracket}` is never closed",
     "Inside brackets newlines do not end a statement, so an unclosed bracket swallows "
     "the rest of the file.")
+ENTRY_INDEXING = _syntax(
+    "entry-indexing", "`{written}` selects entries by index, which the language does not do",
+    "Expressions are whole vectors and matrices, as in the mathematics of a paper; "
+    "entries are singled out by products with data (a unit vector or a selection "
+    "matrix), and relations hold entry by entry.")
 OBJECTIVE_RELATION = _syntax(
     "objective-relation", "the objective cannot contain the relation `{relation}`",
     "`minimize` and `maximize` take an expression; conditions belong under "

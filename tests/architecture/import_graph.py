@@ -20,7 +20,7 @@ ROOT = Path(__file__).resolve().parents[2] / PACKAGE
 # stage and from the stages below it.  Stages on one line are peers: neither may
 # import the other.
 LAYERS: tuple[tuple[str, ...], ...] = (
-    ("errors", "span"),
+    ("errors", "span", "disk_cache"),
     ("diagnostics", "deadline"),
     ("syntax",),
     ("model",),
@@ -34,7 +34,8 @@ LAYERS: tuple[tuple[str, ...], ...] = (
     ("lint_config",),
     ("results",),
     ("api",),
-    ("commands", "lsp"),
+    ("lsp",),
+    ("commands",),
     ("cli",),
     ("__main__",),
 )

@@ -18,8 +18,6 @@ MAX_FUNCTION_LINES = 40
 # Functions still over the limit, each to be split; the list only shrinks (a test
 # fails when an entry is no longer needed).
 LONG_FUNCTIONS_LEFT: frozenset[str] = frozenset({
-    "dualize.solvergen.runtime_interior._kkt_solver",
-    "dualize.solvergen.runtime_interior._with_slacks",
     "dualize.solvergen.runtime_interior._interior",
 })
 

@@ -149,6 +149,13 @@ def _traffic_softmax(d: Data) -> Any:
     return cp.Problem(cp.Minimize(cp.log_sum_exp(d["A"] @ x + d["b"])))
 
 
+def _weighbridge_ridge(d: Data) -> Any:
+    import cvxpy as cp
+    x = cp.Variable(d["A"].shape[1])
+    fit = cp.sum_squares(d["A"] @ x - d["b"])
+    return cp.Problem(cp.Minimize(fit + d["w"] * cp.sum_squares(x)))
+
+
 CONVEX: dict[str, tuple[Builder, tuple[str, ...]]] = {
     "antenna_norm_min": (_antenna_norm_min, ("A", "b")),
     "charging_box": (_charging_box, ("A", "b", "c")),
@@ -169,6 +176,7 @@ CONVEX: dict[str, tuple[Builder, tuple[str, ...]]] = {
     "survey_least_norm": (_survey_least_norm, ("A", "b")),
     "traffic_softmax": (_traffic_softmax, ("A", "b")),
     "vibration_sdp": (_vibration_sdp, ("A1", "C", "b1", "n")),
+    "weighbridge_ridge": (_weighbridge_ridge, ("A", "b", "w")),
     "window_scalar": (_window_scalar, ()),
 }
 

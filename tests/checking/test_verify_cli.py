@@ -116,16 +116,32 @@ def test_nonconvex_partitioning_shows_a_gap_with_weak_duality_only() -> None:
 
 def test_infeasible_instance_gives_nulls_with_statuses(tmp_path: Path) -> None:
     # x <= -1 and -x <= -1 have no solution (common practice): the primal is infeasible,
-    # the dual unbounded, so no finite value can be reported.
+    # the dual unbounded, so no finite value can be reported; that pair is what weak
+    # duality predicts (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section
+    # 5.2.2, from memory), so the verdict is infinite-agree and the exit status 0.
     data = tmp_path / "empty.json"
     data.write_text(json.dumps({"A": [[1], [-1]], "b": [-1, -1], "c": [1]}))
     result = _run(str(EXAMPLES / "joinery_lp.prob"), "--data", str(data), "--format", "json")
-    assert result.exit_code == 1
+    assert result.exit_code == 0, result.output
     report = json.loads(result.output)
-    assert report["verdict"] == "failed"
+    assert report["verdict"] == "infinite-agree"
     [inst] = report["instances"]
     assert inst["primal_value"] is None and inst["primal_status"] == "infeasible"
+    assert inst["dual_status"] == "unbounded"
     assert inst["gap"] is None
+
+
+def test_unbounded_primal_with_infeasible_dual_agrees(tmp_path: Path) -> None:
+    # minimize c'x s.t. A x <= b with A = [-1], c = -1 (minimize -x over x >= -1) falls
+    # without bound; its dual max -b'l s.t. A'l + c = 0, l >= 0 needs l = -1, so it is
+    # infeasible: the other pair weak duality predicts (Boyd and Vandenberghe, 2004,
+    # section 5.2.2, from memory).
+    data = tmp_path / "ray.json"
+    data.write_text(json.dumps({"A": [[-1]], "b": [1], "c": [-1]}))
+    result = _run(str(EXAMPLES / "joinery_lp.prob"), "--data", str(data))
+    assert result.exit_code == 0, result.output
+    assert "verdict: infinite-agree" in result.output
+    assert "unbounded" in result.output and "infeasible" in result.output
 
 
 def test_bad_input_exits_2(tmp_path: Path) -> None:

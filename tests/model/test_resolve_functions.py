@@ -78,3 +78,34 @@ def test_function_the_language_writes_as_mathematics_gets_its_spelling() -> None
     assert "|e|" in diagnostics[0].hint
     diagnostics = load("minimize norm(x) over x in R^n").diagnostics
     assert "||e||" in diagnostics[0].hint
+
+
+def test_names_from_other_notations_get_the_rewrite() -> None:
+    # A reader who knows a quadratic-form or a largest-eigenvalue function by name gets
+    # the spelling of this language (x' * P * x; an eigenvalue bound as the semidefinite
+    # constraint A preceq t I, S. Boyd and L. Vandenberghe, Convex Optimization, 2004,
+    # section 4.6.3, from memory).
+    from dualize.model import load
+
+    cases = {
+        "data P in S^n_+\nminimize quad_form(x, P) over x in R^n\n": "x' * P * x",
+        "data A in S^n\nminimize lambda_max(A) + sum(x) over x in R^n\n": "preceq t * identity(n)",
+        "minimize log_sum_exp(x) over x in R^n\n": "log(sum(exp(e)))",
+    }
+    for text, rewrite in cases.items():
+        loaded = load(text, "case.prob")
+        [d] = loaded.diagnostics
+        assert d.rule == "other-notation" and rewrite in (d.hint or ""), d
+
+
+def test_indexing_is_located_with_a_rewrite() -> None:
+    # Entries are singled out by products with data in this language (common practice
+    # in papers: e_i' x for the i-th entry).
+    from dualize.model import load
+
+    loaded = load("data c in R^n\nminimize c' * x over x in R^n\ns.t.\n  x[2] <= 1\n",
+                  "case.prob")
+    [d] = loaded.diagnostics
+    assert d.rule == "entry-indexing" and "`x[2]`" in d.message
+    assert (d.span.line, d.span.column, d.span.end_column) == (4, 4, 7)
+    assert "e' * x" in (d.hint or "")

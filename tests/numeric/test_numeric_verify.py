@@ -149,9 +149,10 @@ def test_random_lp_made_dual_feasible_is_bounded() -> None:
     assert report.checks[0].primal_status == "optimal"
 
 
-def test_verify_fails_when_nothing_is_comparable() -> None:
+def test_infeasible_primal_with_unbounded_dual_agrees() -> None:
     # An infeasible primal (x <= -1 and x >= 1) has no finite value to compare; its dual
-    # (L = x + a (x + 1) + b (1 - x): 1 + a - b = 0, g = a + b) is unbounded above.
+    # (L = x + a (x + 1) + b (1 - x): 1 + a - b = 0, g = a + b) is unbounded above, the
+    # pair weak duality predicts (Boyd and Vandenberghe, 2004, section 5.2.2, from memory).
     from numeric_handbuilt import con
 
     x = var("x")
@@ -163,6 +164,20 @@ def test_verify_fails_when_nothing_is_comparable() -> None:
                        ir.Add((a, b)), (DualConstraint(ir.Add((num(1), a, neg(b))), "=",
                                                             num(0), "stationarity"),))
     report = verify(derivation(p, dual), seeds=[0])
+    [check] = report.checks
+    assert (check.primal_status, check.dual_status) == ("infeasible", "unbounded")
+    assert report.verdict == "infinite-agree"
+    assert "as weak duality predicts" in report.messages[0]
+
+
+def test_verify_fails_when_nothing_is_comparable() -> None:
+    # A dual that cannot be solved (status failed) beside a solved primal proves nothing:
+    # the verdict is failed, never a pair of infinities.
+    from dualize.numeric.verify import InstanceCheck, summarize
+
+    check = InstanceCheck("x", None, 1.0, float("nan"), float("nan"), "optimal", "failed",
+                          None, True)
+    report = summarize((check,))
     assert report.verdict == "failed"
     assert "no instance gave two comparable" in report.messages[0]
 

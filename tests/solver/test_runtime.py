@@ -72,8 +72,6 @@ def test_block_and_flat_broadcast_a_scalar():
 @pytest.mark.parametrize(("raw", "words"), [
     (b'{"A": [[1, 2]], "A": [[3, 4]]}', "given twice"),
     (b'{"b": [1, NaN]}', "not a number"),
-    (b'{"b": [1, 1e400]}', "floating-point range"),
-    (b'{"b": [1, 1' + b"0" * 320 + b"]}", "floating-point range"),
     (b'{"b": "\xff\xfe"}', "UTF-8"),
     (b"[" * 5000 + b"]" * 5000, "nested"),
     (b'{"b": ' + b"[" * 40 + b"]" * 40 + b"}", "nested"),
@@ -92,6 +90,9 @@ def test_load_instance_refuses_in_one_line(raw, words):
     ([[1, "2"], [0, 1]], "not a number"),
     ([[[1]], [[2]]], "deeper than a matrix"),
     ([[1, 2], [3]], "rectangular"),
+    ([[1, 1e400], [0, 1]], "floating-point range"),
+    ([[1, 10**320], [0, 1]], "floating-point range"),
+    ([[1, 2], [3, float("nan")]], "not finite"),
 ])
 def test_read_refuses_what_numpy_would_coerce(value, words):
     spec = least_norm_spec("lbfgsb")

@@ -1,0 +1,80 @@
+"""A user cache folder of JSON entries, safe under concurrent processes.
+
+Costly results that depend only on the program's own inputs (derived
+conjugates, the parser's tables) are kept here between runs.  The folder is
+``$DUALIZE_CACHE_DIR`` if set, else ``$XDG_CACHE_HOME/dualize``, else
+``~/.cache/dualize``; ``DUALIZE_CACHE=off`` turns caching off.
+
+Every entry records its exact key and a stamp (the version of what produced
+it); an entry with another key or stamp, or one that does not parse, reads as
+a miss.  Entries are written to a temporary file in the same folder and moved
+into place with ``os.replace``, so a reader never sees half an entry.  Entries
+are plain JSON: nothing read back is ever executed.  A folder that cannot be
+written costs only the speed-up.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import os
+import tempfile
+from pathlib import Path
+from typing import Any
+
+MAX_BYTES = 4_000_000
+
+
+def cache_root() -> Path | None:
+    """The cache folder, or None when caching is turned off."""
+    if os.environ.get("DUALIZE_CACHE", "").lower() in ("off", "0", "no", "false"):
+        return None
+    explicit = os.environ.get("DUALIZE_CACHE_DIR")
+    if explicit:
+        return Path(explicit)
+    base = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
+    return Path(base) / "dualize"
+
+
+def entry_path(section: str, key: str) -> Path | None:
+    """Where the entry for ``key`` lives in ``section`` (a sub-folder), or None."""
+    root = cache_root()
+    if root is None:
+        return None
+    return root / section / (hashlib.sha256(key.encode()).hexdigest() + ".json")
+
+
+def lookup(section: str, key: str, stamp: str) -> Any | None:
+    """The stored payload, or None on a miss, a foreign stamp or a damaged entry."""
+    path = entry_path(section, key)
+    if path is None:
+        return None
+    try:
+        if path.stat().st_size > MAX_BYTES:
+            return None
+        entry = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError, RecursionError):
+        return None
+    if not isinstance(entry, dict) or entry.get("stamp") != stamp or entry.get("key") != key:
+        return None
+    return entry.get("payload")
+
+
+def store(section: str, key: str, stamp: str, payload: Any) -> None:
+    """Write the entry atomically; any failure to write is ignored."""
+    path = entry_path(section, key)
+    if path is None:
+        return
+    text = json.dumps({"stamp": stamp, "key": key, "payload": payload}, sort_keys=True)
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=".tmp-", suffix=".json")
+        try:
+            with os.fdopen(fd, "w", encoding="utf-8") as handle:
+                handle.write(text)
+            os.replace(tmp, path)
+        except BaseException:
+            Path(tmp).unlink(missing_ok=True)
+            raise
+    except OSError:
+        return

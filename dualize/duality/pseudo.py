@@ -1,0 +1,115 @@
+"""Quadratics whose Hessian is known positive semidefinite but not definite.
+
+A singular or unknown-rank Hessian (a kernel or covariance matrix declared in
+S^n_+, a Gram form X'X with more columns than rows, a diagonal of a
+nonnegative vector) has no inverse, but the infimum of the quadratic is still
+known in closed form (S. Boyd and L. Vandenberghe, Convex Optimization, 2004,
+appendix A.5.4, minimizing a quadratic with the pseudo-inverse; from memory):
+
+    inf_x 1/2 x'Hx + g'x + r = r - 1/2 g'H^+ g   if g lies in range(H),
+                             = -infinity          otherwise.
+
+Papers state the range condition with a witness: g = -H v for some v; then
+g'H^+ g = v'H H^+ H v = v'H v, so the value is r - 1/2 v'H v, concave in v for
+data H, and x = v minimizes the Lagrangian.  When g is visibly H times
+something (g = H w, the kernel machine's g = -K diag(y) alpha) the condition
+holds by construction and no witness is needed: the value is r - 1/2 w'H w
+and x = -w.  That is also how H H^-1 H = H is simplified away.
+"""
+
+from __future__ import annotations
+
+import sympy
+
+from dualize.duality import build as b
+from dualize.duality.normal import Term, equal, expand, rebuild, tidy
+from dualize.duality.result import DualConstraint, DualVariable, Equation, Head, Recovery, Step
+from dualize.model.expr import Expr, Symbol, symbols_of
+
+HALF = sympy.Rational(1, 2)
+
+
+def factor_through(H: Expr, g: Expr) -> Expr | None:
+    """w with g = H w proved by the canonical form, when H is one product term and
+    every term of g starts with H's product; None otherwise."""
+    h_terms = expand(H)
+    if len(h_terms) != 1 or h_terms[0].scalars or not h_terms[0].chain:
+        return None
+    head = h_terms[0]
+    k = len(head.chain)
+    rest: list[Term] = []
+    for t in expand(g):
+        if t.chain[:k] != head.chain or len(t.chain) <= k:
+            return None
+        rest.append(Term(t.coef / head.coef, t.scalars, t.chain[k:]))
+    if not rest:
+        return None
+    w = rebuild(rest, g.shape)
+    return w if equal(b.mul(H, w), g) else None
+
+
+def data_only(e: Expr) -> bool:
+    """Whether ``e`` holds data and numbers only (no multiplier, no variable)."""
+    return all(s.role == "data" for s in symbols_of(e))
+
+
+def factored_value(x: Symbol, H: Expr, w: Expr, r: Expr, kind: str) -> tuple[Expr, Step,
+                                                                          Recovery]:
+    """inf_x 1/2 x'Hx + (H w)'x + r = r - 1/2 w'H w at x = -w, for H psd.
+
+    The gradient H x + H w vanishes at x = -w, and a convex quadratic is least
+    where its gradient vanishes; every other minimizer differs by a null-space
+    direction of H.
+    """
+    value = tidy(b.sub(r, b.scale(b.num(HALF), b.mul(b.transpose(w), H, w))))
+    xstar = tidy(b.neg(w))
+    why = ("positive definite" if kind == "pd" else
+           "positive semidefinite (possibly singular)")
+    text = (f"The Lagrangian is a convex quadratic in {x.name} with Hessian H {why}, and its "
+            f"linear coefficient is H w for the w shown: the gradient H ({x.name} + w) vanishes "
+            f"at {x.name} = -w, so the infimum is r - 1/2 w'H w, with no inverse (H H^+ H = H).")
+    note = _kernel_note(x, H, w)
+    if kind != "pd":
+        note = (note + "; " if note else "") + (f"every {x.name} = -w + d with H d = 0 "
+                                                "minimizes the Lagrangian as well")
+    step = Step("minimize-quadratic-factored", text,
+                (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name)
+    return value, step, Recovery(x.name, xstar, note)
+
+
+def _kernel_note(x: Symbol, H: Expr, w: Expr) -> str:
+    """The kernel-expansion reading when the Hessian is one declared psd data matrix."""
+    if not (isinstance(H, Symbol) and H.role == "data" and {"psd", "pd"} & H.facts):
+        return ""
+    return (f"the data enter only through the matrix {H.name} (a kernel or Gram matrix), so "
+            f"the fitted values {H.name} {x.name} are the kernel expansion sum_i "
+            f"{x.name}_i k(t_i, t): a prediction at a new point t needs only the kernel values "
+            "k(t_i, t)")
+
+
+def range_witness(x: Symbol, H: Expr, g: Expr, r: Expr) -> tuple[Expr, DualConstraint,
+                                                                 DualVariable, Step, Recovery]:
+    """inf_x 1/2 x'Hx + g'x + r for data H psd of unknown rank and g not visibly in range(H).
+
+    Finite iff g = -H v for some v, and then equal to r - 1/2 v'H v, attained at
+    x = v; the witness v joins the dual as a free variable.
+    """
+    v = Symbol(f"v_{x.name}", "multiplier", x.shape)
+    value = tidy(b.sub(r, b.scale(b.num(HALF), b.mul(b.transpose(v), H, v))))
+    lhs = tidy(b.add(b.mul(H, v), g))
+    c = DualConstraint(lhs, "=", b.zeros(lhs.shape),
+                       f"the infimum over {x.name} is finite only where its linear coefficient "
+                       f"lies in the range of the Hessian: g = -H v for some v")
+    text = (f"The Lagrangian is a convex quadratic in {x.name} whose Hessian H is positive "
+            "semidefinite, possibly singular: its infimum is r - 1/2 g'H^+ g when g lies in "
+            "the range of H and minus infinity otherwise. Writing the range condition as "
+            f"g = -H v with a witness v, the value is r - 1/2 v'H v and {x.name} = v "
+            "minimizes the Lagrangian.")
+    var = DualVariable(v, "free", f"range witness of the quadratic in {x.name}")
+    step = Step("minimize-quadratic-range", text,
+                (Equation(tidy(g), "=", tidy(b.neg(b.mul(H, v)))), Equation(x, "=", v)),
+                block=x.name)
+    rec = Recovery(x.name, v, f"every {x.name} = {v.name} + d with H d = 0 minimizes the "
+                   "Lagrangian; where H is singular, choose d so that the primal constraints and "
+                   "complementary slackness hold")
+    return value, c, var, step, rec
