@@ -16,12 +16,11 @@ docs/python-api.md for a walk-through.
 
 from __future__ import annotations
 
-import os
-import tempfile
 from collections.abc import Callable, Iterable, Mapping, Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+from dualize.deadline import Deadline
 from dualize.errors import DualizeError
 from dualize.render.formats import render
 from dualize.results import (
@@ -47,6 +46,14 @@ __all__ = ["CheckVerdict", "DerivedDual", "DraftVerdicts", "GeneratedSolver", "L
 
 Progress = Callable[[list[Any], str], Iterable[Any]]
 DEFAULT_RANDOM = 3  # random instances when none are asked for
+DEFAULT_TIME_LIMIT = 60.0  # seconds for a derivation, as the command line's --time-limit
+
+
+def _budget(time_limit: float | Deadline | None) -> Deadline:
+    """The run's deadline: a ``Deadline`` as given, else one of ``time_limit`` seconds."""
+    if isinstance(time_limit, Deadline):
+        return time_limit
+    return Deadline(DEFAULT_TIME_LIMIT if time_limit is None else time_limit)
 
 
 def _each(items: list[Any], label: str) -> Iterable[Any]:
@@ -137,17 +144,19 @@ def lint(paths: Sequence[str | Path], select: Iterable[str] = (), ignore: Iterab
 
 
 def derive(source: str | Path | Problem, data: str | None = None,
-           with_analysis: bool = False) -> DerivedDual:
+           with_analysis: bool = False,
+           time_limit: float | Deadline | None = None) -> DerivedDual:
     """The Lagrange dual, with its steps, KKT conditions and recovery.
 
     ``with_analysis`` adds the strong-duality verdict and the lint findings (the
     printers then state the verdict); ``data``, an instance file, decides the
-    verdict on its values.
+    verdict on its values.  Past ``time_limit`` (seconds, or a ``Deadline``) the
+    steps not done are kept unevaluated and the derivation says which was cut.
     """
-    from dualize.duality import derive as _derive
+    from dualize.duality.engine import derive as _derive
 
     problem = load_problem(source, "nothing was derived")
-    derivation = _derive(problem)
+    derivation = _derive(problem, _budget(time_limit))
     if not (with_analysis or data is not None):
         return shown(derivation)
     return shown(derivation, analyze(problem, _read(data, problem)))
@@ -181,23 +190,25 @@ def sibling_instance(path: str | Path) -> str | None:
 
 def verify(source: str | Path | Problem, data: str | None = None, random: int | None = None,
            seed: int = 0, dims: str | Mapping[str, int] | None = None,
-           progress: Progress = _each) -> Verification:
+           progress: Progress = _each,
+           time_limit: float | Deadline | None = None) -> Verification:
     """The derived dual against the primal, solved on instances by an independent reference.
 
     Instances: ``data`` (a file), or ``random`` random ones from seed ``seed`` on
     (``dims`` fixes sizes); with neither, the instance beside a problem file
     (same name, .json or .toml) if there is one, else three random ones.
-    ``progress(items, label)`` may wrap the instances (a progress bar).
+    ``progress(items, label)`` may wrap the instances (a progress bar);
+    ``time_limit`` bounds the derivation (see ``derive``).
     """
     from dualize.analysis.convexity import analyse_convexity
-    from dualize.duality import derive as _derive
+    from dualize.duality.engine import derive as _derive
     from dualize.numeric.verify import check_instance, summarize
 
     if data is not None and random is not None:
         raise DualizeError("give --data or --random, not both", exit_code=2)
     problem = load_problem(source, "nothing was checked")
     sizes = _dims(dims)
-    derivation = _derive(problem)
+    derivation = _derive(problem, _budget(time_limit))
     items = _verify_items(derivation, source, data, random, seed, sizes)
     checks = [check_instance(derivation, *item) for item in progress(items, "verifying")]
     convex = analyse_convexity(problem).convex
@@ -227,7 +238,8 @@ def _is_source_path(source: Any) -> bool:
 def check(source: str | Path | Problem, claim: str | Path, name_map: str = "",
           data: str | None = None, random: int = DEFAULT_RANDOM, seed: int = 0,
           dims: str | Mapping[str, int] | None = None, save_counterexample: str | None = None,
-          progress: Progress = _each) -> CheckVerdict:
+          progress: Progress = _each,
+          time_limit: float | Deadline | None = None) -> CheckVerdict:
     """A dual written by hand against the derived one, symbolically and on instances.
 
     ``claim`` is a claim file (a problem whose variables are the multipliers; it may
@@ -236,10 +248,12 @@ def check(source: str | Path | Problem, claim: str | Path, name_map: str = "",
 
     ``name_map`` ("alpha=a,w=w") maps a LaTeX claim's names to the problem's.  A
     refuting instance is written to ``save_counterexample`` (default: beside the
-    claim).  The verdict is ``equivalent`` only with a proof or agreement everywhere.
+    claim).  The verdict is ``equivalent`` only with a proof or agreement everywhere;
+    ``time_limit`` bounds the derivation (see ``derive``).
     """
     from dualize.checking import check_claim
     from dualize.checking.counterexample import default_path
+    from dualize.duality.engine import derive as _derive
     from dualize.numeric.instance import read_instance
 
     problem = load_problem(source, "nothing was checked")
@@ -250,7 +264,8 @@ def check(source: str | Path | Problem, claim: str | Path, name_map: str = "",
         raise DualizeError("nothing to check on: give --data or --random N with N >= 1", 2)
     given = "\n" in claim  # the claim's text itself: no file beside which to save
     save = save_counterexample or (None if given else default_path(claim.partition("#")[0]))
-    report = check_claim(problem, text, instances, [seed + k for k in range(random)], sizes,
+    derivation = _derive(problem, _budget(time_limit))
+    report = check_claim(derivation, text, instances, [seed + k for k in range(random)], sizes,
                          "<claim>" if given else claim, save,
                          progress=lambda items: progress(items, "checking"))
     return CheckVerdict(report, note)
@@ -295,41 +310,31 @@ def check_draft(draft: str | Path, name_map: str = "", random: int = DEFAULT_RAN
     return DraftVerdicts(draft, tuple(checks))
 
 
-def generate_solver(source: str | Path | Problem) -> GeneratedSolver:
+def generate_solver(source: str | Path | Problem,
+                    time_limit: float | Deadline | None = None) -> GeneratedSolver:
     """A standalone Python module (numpy and scipy only) that solves the dual on an
-    instance, recovers the primal solution and reports the duality gap."""
-    from dualize.duality import derive as _derive
+    instance, recovers the primal solution and reports the duality gap;
+    ``time_limit`` bounds the derivation (see ``derive``)."""
+    from dualize.duality.engine import derive as _derive
     from dualize.solvergen.solver import render_solver
 
-    return GeneratedSolver(render_solver(_derive(load_problem(source, "no solver was written"))))
+    problem = load_problem(source, "no solver was written")
+    return GeneratedSolver(render_solver(_derive(problem, _budget(time_limit))))
 
 
 def write_atomically(path: str, text: str) -> None:
-    """Write ``text`` to ``path`` so that a failure leaves no partial file and an
-    existing file untouched: a temporary file in the same folder, then a rename."""
-    write_bytes_atomically(path, text.encode("utf-8"))
+    """Write ``text`` to ``path`` (``-`` is standard output) so that a failure leaves no
+    partial file and an existing file untouched; the rules are in ``dualize.outfile``."""
+    from dualize.outfile import write_output
+
+    write_output(path, text)
 
 
 def write_bytes_atomically(path: str, data: bytes) -> None:
-    """``write_atomically`` for any content (a PNG picture). The file gets the mode a
-    newly created file would get (the temporary file's private 0600 is not kept)."""
-    folder = os.path.dirname(os.path.abspath(path))
-    fd, tmp = tempfile.mkstemp(prefix=".dualize-", dir=folder)
-    try:
-        with os.fdopen(fd, "wb") as handle:
-            handle.write(data)
-        os.chmod(tmp, 0o666 & ~_umask())
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
+    """``write_atomically`` for any content (a PNG picture), by the same rules."""
+    from dualize.outfile import write_output
 
-
-def _umask() -> int:
-    mask = os.umask(0o022)
-    os.umask(mask)
-    return mask
+    write_output(path, data)
 
 
 def instance_of(problem: Problem, data: object) -> object:

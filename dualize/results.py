@@ -149,8 +149,8 @@ class CheckVerdict:
 
     @property
     def ok(self) -> bool:
-        """Only ``equivalent`` passes."""
-        return self.report.verdict == "equivalent"
+        """The claim's optimum is the primal's: ``equivalent`` or ``tight, not attained``."""
+        return bool(self.report.ok)
 
     def text(self) -> str:
         from dualize.checking.check_report import check_text

@@ -1,8 +1,8 @@
 """``dualize check``: a dual written by hand against the derived one.
 
-Exit codes: 0 only for the verdict "equivalent"; 1 for every other verdict
-(not tight, invalid, infeasible or unbounded, undecided); 2 for bad input
-(an unreadable problem, claim, instance or option).
+Exit codes: 0 for the verdicts "equivalent" and "tight, not attained"; 1 for every
+other verdict (not tight, invalid, infeasible or unbounded, undecided); 2 for bad
+input (an unreadable problem, claim, instance or option).
 """
 
 from __future__ import annotations
@@ -11,7 +11,13 @@ import sys
 
 import click
 
-from dualize.commands.common import emit, emit_json, progress, reports_user_errors
+from dualize.commands.common import (
+    emit,
+    emit_json,
+    progress,
+    reports_user_errors,
+    time_limit_option,
+)
 
 DEFAULT_RANDOM = 3
 
@@ -35,9 +41,11 @@ DEFAULT_RANDOM = 3
               "[default: <claim>.counterexample.json].")
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
               show_default=True, help="How to print the report.")
+@time_limit_option
 @reports_user_errors
 def check_command(file: str, claim_path: str, name_map: str, data: str | None, count: int,
-                  seed: int, dims: str, save_path: str | None, fmt: str) -> None:
+                  seed: int, dims: str, save_path: str | None, fmt: str,
+                  time_limit: float) -> None:
     """Check the dual claimed in CLAIM against the dual of FILE.
 
     The claim may omit the data declarations of FILE.  It is compared
@@ -47,7 +55,8 @@ def check_command(file: str, claim_path: str, name_map: str, data: str | None, c
     from dualize import api
 
     result = api.check(file, claim_path, name_map=name_map, data=data, random=count,
-                       seed=seed, dims=dims, save_counterexample=save_path, progress=progress)
+                       seed=seed, dims=dims, save_counterexample=save_path, progress=progress,
+                       time_limit=time_limit)
     if result.note:
         click.echo(result.note, err=True)
     emit_json(result.json()) if fmt == "json" else emit(result.text())

@@ -7,7 +7,7 @@ import sys
 
 import click
 
-from dualize.commands.common import reports_user_errors
+from dualize.commands.common import reports_user_errors, time_limit_option
 
 
 @click.command("derive")
@@ -15,18 +15,19 @@ from dualize.commands.common import reports_user_errors
 @click.option("--format", "fmt", type=click.Choice(["text", "latex", "markdown", "json"]),
               default="text", show_default=True, help="The output format.")
 @click.option("-o", "--output", type=click.Path(), default=None,
-              help="Write to this file (atomically) instead of standard output.")
+              help="Write to this file, atomically (- is standard output).")
 @click.option("--standalone", is_flag=True, help="LaTeX: a complete document for pdflatex.")
 @click.option("--data", type=click.Path(), default=None,
               help="An instance (JSON or TOML): strong duality is decided on these values.")
+@time_limit_option
 @reports_user_errors
 def derive_command(file: str, fmt: str, output: str | None, standalone: bool,
-                   data: str | None) -> None:
+                   data: str | None, time_limit: float) -> None:
     """Derive the Lagrange dual of a problem file, with its steps, KKT and recovery."""
     from dualize import api
 
-    derived = api.derive(file, data=data, with_analysis=True)
-    color = output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
+    derived = api.derive(file, data=data, with_analysis=True, time_limit=time_limit)
+    color = output in (None, "-") and sys.stdout.isatty() and "NO_COLOR" not in os.environ
     text = derived.render(fmt, standalone=standalone, color=color)
     if output is None:
         click.echo(text, nl=not text.endswith("\n"))

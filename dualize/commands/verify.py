@@ -12,7 +12,13 @@ import sys
 
 import click
 
-from dualize.commands.common import emit, emit_json, progress, reports_user_errors
+from dualize.commands.common import (
+    emit,
+    emit_json,
+    progress,
+    reports_user_errors,
+    time_limit_option,
+)
 
 DEFAULT_RANDOM = 3
 
@@ -29,9 +35,10 @@ DEFAULT_RANDOM = 3
               help="Sizes for random instances (others are drawn).")
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
               show_default=True, help="How to print the report.")
+@time_limit_option
 @reports_user_errors
 def verify_command(file: str, data: str | None, count: int | None, seed: int, dims: str,
-                   fmt: str) -> None:
+                   fmt: str, time_limit: float) -> None:
     """Derive the dual of FILE and compare both optima on instances.
 
     Without --data or --random, the instance beside FILE (same name, .json or
@@ -42,6 +49,6 @@ def verify_command(file: str, data: str | None, count: int | None, seed: int, di
     from dualize import api
 
     result = api.verify(file, data=data, random=count, seed=seed, dims=dims,
-                        progress=progress)
+                        progress=progress, time_limit=time_limit)
     emit_json(result.json()) if fmt == "json" else emit(result.text())
     sys.exit(0 if result.ok else 1)

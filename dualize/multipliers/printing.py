@@ -50,11 +50,20 @@ def measured(row: Rate) -> str:
     return f"{num(row.left)} / {num(row.right)}"
 
 
+def single_rate(row: Rate) -> bool:
+    """False at a kink or an edge of p*: there the derivative does not exist."""
+    return not row.check.startswith(("kink", "edge"))
+
+
+def rate_cell(row: Rate) -> str:
+    return num(row.rate) if single_rate(row) else "none (one-sided)"
+
+
 def table_rows(report: Sensitivity) -> list[list[str]]:
     head = ["entry", "as written", "multiplier", "slack", "binds",
             f"rate {rate_word(report)}", "re-solved (left / right)", "check"]
     rows = [[r.name, r.relation, num(r.multiplier), num(r.slack), "yes" if r.binds else "no",
-             num(r.rate), measured(r), CHECK_WORDS[r.check]] for r in report.rows]
+             rate_cell(r), measured(r), CHECK_WORDS[r.check]] for r in report.rows]
     return [head, *rows]
 
 
@@ -114,14 +123,14 @@ def _header(report: Sensitivity) -> list[str]:
 def sensitivity_text(report: Sensitivity) -> str:
     lines = _header(report) + [""]
     if report.rows:
-        lines += [CONVENTION, "", *aligned(table_rows(report)), ""]
-        lines += [f"  {r.name}: {r.note}" for r in report.rows if r.note]
-        lines += ["", METHOD, rates_sentence(report)]
+        lines += [CONVENTION, "", *_aligned(table_rows(report)), ""]
+        notes = [f"  {r.name}: {r.note}" for r in report.rows if r.note]
+        lines += notes + ([""] if notes else []) + [METHOD, rates_sentence(report)]
     lines += ["", bound_sentence(report), "", CAUTION]
     return "\n".join(lines) + "\n"
 
 
-def aligned(rows: list[list[str]]) -> list[str]:
+def _aligned(rows: list[list[str]]) -> list[str]:
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     return ["  ".join(c.ljust(w) for c, w in zip(r, widths, strict=True)).rstrip()
             for r in rows]
@@ -132,15 +141,15 @@ def sensitivity_markdown(report: Sensitivity) -> str:
     lines = [f"### {head}", "", *[f"- {s}" for s in _header(report)[1:]], ""]
     if report.rows:
         rows = table_rows(report)
-        lines += [CONVENTION, "", md_row(rows[0]), md_row(["---"] * len(rows[0]))]
-        lines += [md_row(r) for r in rows[1:]] + [""]
+        lines += [CONVENTION, "", _md_row(rows[0]), _md_row(["---"] * len(rows[0]))]
+        lines += [_md_row(r) for r in rows[1:]] + [""]
         lines += [f"- `{r.name}`: {r.note}" for r in report.rows if r.note]
         lines += ["", METHOD, "", rates_sentence(report)]
     lines += ["", bound_sentence(report), "", f"*{CAUTION}*"]
     return "\n".join(lines) + "\n"
 
 
-def md_row(cells: list[str]) -> str:
+def _md_row(cells: list[str]) -> str:
     return "| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |"
 
 
@@ -169,7 +178,7 @@ def sensitivity_json(report: Sensitivity) -> str:
     p = report.problem
     data: dict[str, Any] = {
         "title": p.title, "file": p.path, "instance": report.instance, "sense": p.sense,
-        "status": report.status, "value": json_number(report.value),
+        "status": report.status, "value": _j(report.value),
         "strong_duality": {"status": report.verdict, "reason": report.verdict_reason},
         "perturbation": CONVENTION, "method": {"step_relative": STEP_REL,
                                                "agreement_relative": AGREE_REL},
@@ -182,13 +191,14 @@ def sensitivity_json(report: Sensitivity) -> str:
 
 def _row_json(r: Rate) -> dict[str, Any]:
     return {"entry": r.name, "constraint": r.constraint, "relation": r.relation,
-            "multiplier": json_number(r.multiplier), "slack": json_number(r.slack),
-            "binds": r.binds, "rate": json_number(r.rate), "step": json_number(r.step),
-            "left_rate": json_number(r.left), "right_rate": json_number(r.right),
-            "tolerance": json_number(r.tolerance), "check": r.check, "note": r.note}
+            "multiplier": _j(r.multiplier), "slack": _j(r.slack), "binds": r.binds,
+            "rate": _j(r.rate) if single_rate(r) else None,
+            "multiplier_rate": _j(r.rate), "step": _j(r.step), "left_rate": _j(r.left),
+            "right_rate": _j(r.right), "tolerance": _j(r.tolerance), "check": r.check,
+            "note": r.note}
 
 
-def json_number(value: float) -> float | None:
+def _j(value: float) -> float | None:
     """JSON has no nan or infinity: null stands for a value that does not exist."""
     if not math.isfinite(value):
         return None

@@ -20,8 +20,8 @@ ROOT = Path(__file__).resolve().parents[2] / PACKAGE
 # stage and from the stages below it.  Stages on one line are peers: neither may
 # import the other.
 LAYERS: tuple[tuple[str, ...], ...] = (
-    ("errors", "span", "disk_cache"),
-    ("diagnostics", "deadline"),
+    ("errors", "span"),
+    ("diagnostics", "deadline", "disk_cache", "outfile"),
     ("syntax",),
     ("model",),
     ("analysis", "duality"),
