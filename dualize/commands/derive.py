@@ -8,12 +8,13 @@ import sys
 import click
 
 from dualize.commands.common import reports_user_errors, time_limit_option
+from dualize.render.formats import FORMATS
 
 
 @click.command("derive")
 @click.argument("file", type=click.Path())
-@click.option("--format", "fmt", type=click.Choice(["text", "latex", "markdown", "json"]),
-              default="text", show_default=True, help="The output format.")
+@click.option("--format", "fmt", type=click.Choice(FORMATS), default="text",
+              show_default=True, help="The output format.")
 @click.option("-o", "--output", type=click.Path(), default=None,
               help="Write to this file, atomically (- is standard output).")
 @click.option("--standalone", is_flag=True, help="LaTeX: a complete document for pdflatex.")

@@ -1,4 +1,9 @@
-"""A derivation in the output format asked for by name (text, latex, markdown, json)."""
+"""A derivation in the output format asked for by name (text, latex, markdown, json).
+
+``FORMATS`` is the one list of formats: ``dualize derive --format`` offers it,
+and a new format is a printer module plus one entry here.  The module imports
+nothing heavy, so the command line can read the list at start-up.
+"""
 
 from __future__ import annotations
 
@@ -8,7 +13,7 @@ if TYPE_CHECKING:
     from dualize.analysis.report import Analysis
     from dualize.duality.result import Derivation
 
-FORMATS = ("text", "latex", "markdown", "json")
+FORMATS = ("text", "latex", "markdown", "json")  # the order --help shows
 
 
 def render(derivation: Derivation, fmt: str, analysis: Analysis | None = None,

@@ -25,8 +25,9 @@ SURVEY = str(ROOT / "examples" / "survey_least_norm.prob")
 
 # Besides the API, commands may import formatters (printers, pictures) and the server
 # they start; nothing that computes.
-FORMATTERS = ("dualize.render.diagnostics", "dualize.multipliers.printing",
-              "dualize.multipliers.path_print", "dualize.multipliers.plot", "dualize.lsp.run")
+FORMATTERS = ("dualize.render.diagnostics", "dualize.render.formats",
+              "dualize.multipliers.printing", "dualize.multipliers.path_print",
+              "dualize.multipliers.plot", "dualize.lsp.run")
 # Commands that still compute something themselves; the list only shrinks.
 STILL_COMPUTING = {("dualize.commands.trade_off", "dualize.multipliers.path")}
 
