@@ -18,7 +18,6 @@ MAX_FUNCTION_LINES = 40
 # Functions still over the limit, each to be split; the list only shrinks (a test
 # fails when an entry is no longer needed).
 LONG_FUNCTIONS_LEFT: frozenset[str] = frozenset({
-    "dualize.duality.blocks.affine_block",
     "dualize.solvergen.runtime_interior._interior",
 })
 # Modules still over the limit, each to be split; the list only shrinks.
