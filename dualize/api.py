@@ -354,9 +354,11 @@ def prices(source: str | Path | Problem, data: object, limit: int = 200,
     path or an ``Instance``.
     """
     from dualize.multipliers.sensitivity import sensitivity
+    from dualize.multipliers.views import shown as view
 
     problem = load_problem(source)
-    return sensitivity(problem, instance_of(problem, data), limit, seconds)  # type: ignore[arg-type]
+    return view(sensitivity(problem, instance_of(problem, data), limit,  # type: ignore[arg-type]
+                            seconds))
 
 
 def other_form(source: str | Path | Problem, weight: str | None = None,
@@ -364,8 +366,9 @@ def other_form(source: str | Path | Problem, weight: str | None = None,
     """The penalized and constrained forms of a problem (a ``Pair``), the other one
     written as a problem file's text (``pair.other_text``)."""
     from dualize.multipliers.reform import other_form as _other
+    from dualize.multipliers.views import shown as view
 
-    return _other(load_problem(source), weight=weight, bound=bound, new_name=name)
+    return view(_other(load_problem(source), weight=weight, bound=bound, new_name=name))
 
 
 def trade_off(source: object, data: object, weights: list[float] | None = None,
@@ -375,6 +378,7 @@ def trade_off(source: object, data: object, weights: list[float] | None = None,
     the plot in a notebook).  ``source`` is a problem (or path) or a ``Pair``."""
     from dualize.multipliers.forms import Pair
     from dualize.multipliers.path import Forms, sweep
+    from dualize.multipliers.views import shown as view
 
     if (weights is None) == (bounds is None):
         raise DualizeError("give weights or bounds, not both and not neither", exit_code=2)
@@ -386,4 +390,5 @@ def trade_off(source: object, data: object, weights: list[float] | None = None,
         pair = other_form(original, weight=weight, bound=bound)
     instance = instance_of(original, data)
     given = "weight" if weights is not None else "bound"
-    return sweep(Forms(pair, instance), given, list(weights or bounds or []), tick)  # type: ignore[arg-type]
+    return view(sweep(Forms(pair, instance), given, list(weights or bounds or []),  # type: ignore[arg-type]
+                      tick))

@@ -85,22 +85,6 @@ class Sensitivity:
     def failed_checks(self) -> tuple[Rate, ...]:
         return tuple(r for r in self.rows if r.check.endswith("disagrees"))
 
-    def _repr_markdown_(self) -> str:
-        from dualize.multipliers.printing import sensitivity_markdown
-
-        return sensitivity_markdown(self)
-
-    def _repr_html_(self) -> str:
-        from dualize.multipliers.printing import sensitivity_html
-
-        return sensitivity_html(self)
-
-    def _repr_svg_(self) -> str | None:
-        """The rates as bars (None, so a notebook shows no picture, when nothing is priced)."""
-        from dualize.multipliers.plot import prices_svg
-
-        return prices_svg(self) if self.rows else None
-
 
 def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT,
                 seconds: float = DEFAULT_SECONDS) -> Sensitivity:
