@@ -30,6 +30,13 @@ def time_limit_option(command: F) -> F:
         "unevaluated and the output says which step was cut.")(command)
 
 
+def deadline_of(seconds: float) -> Any:
+    """The run's time budget, started when the command runs (``--time-limit``)."""
+    from dualize.deadline import Deadline
+
+    return Deadline(seconds)
+
+
 def version() -> str:
     """The installed version of dualize (package metadata, read only when asked)."""
     from importlib.metadata import PackageNotFoundError
