@@ -33,7 +33,8 @@ STILL_COMPUTING = {("dualize.commands.trade_off", "dualize.multipliers.path")}
 
 
 def _reached() -> set[tuple[str, str]]:
-    allowed = ("dualize.api", "dualize.commands", "dualize.errors", *FORMATTERS)
+    allowed = ("dualize.api", "dualize.commands", "dualize.errors", "dualize.deadline",
+               *FORMATTERS)
     return {(a.source, a.target) for a in arrows() if a.source.startswith("dualize.commands")
             and not a.target.startswith(allowed)}
 
