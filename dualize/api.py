@@ -46,14 +46,14 @@ __all__ = ["CheckVerdict", "DerivedDual", "DraftVerdicts", "GeneratedSolver", "L
 
 Progress = Callable[[list[Any], str], Iterable[Any]]
 DEFAULT_RANDOM = 3  # random instances when none are asked for
-DEFAULT_TIME_LIMIT = 60.0  # seconds for a derivation, as the command line's --time-limit
 
 
-def _budget(time_limit: float | Deadline | None) -> Deadline:
-    """The run's deadline: a ``Deadline`` as given, else one of ``time_limit`` seconds."""
-    if isinstance(time_limit, Deadline):
+def _budget(time_limit: float | Deadline | None) -> Deadline | None:
+    """The run's deadline: a ``Deadline`` as given, one of ``time_limit`` seconds, or
+    None (no limit: a library call waits as long as the derivation takes)."""
+    if time_limit is None or isinstance(time_limit, Deadline):
         return time_limit
-    return Deadline(DEFAULT_TIME_LIMIT if time_limit is None else time_limit)
+    return Deadline(time_limit)
 
 
 def _each(items: list[Any], label: str) -> Iterable[Any]:

@@ -128,3 +128,14 @@ def test_reports_speak_their_own_status_words() -> None:
     rows = result.json()["instances"]
     assert {(r["primal_status"], r["dual_status"]) for r in rows} == {("solved", "solved")}
     assert "solved/solved" in result.text() and "optimal/" not in result.text()
+
+
+def test_a_time_limit_reaches_the_engine() -> None:
+    # A budget spent before the first step: the derivation says which steps were cut,
+    # and a library call without a limit cuts nothing.
+    from dualize.deadline import Deadline
+
+    entropy = str(ROOT / "examples" / "route_entropy.prob")
+    cut = api.derive(entropy, time_limit=Deadline(1e-9))
+    assert any(note.startswith("Time limit:") for note in cut.notes)
+    assert api.derive(entropy).notes == ()
