@@ -115,7 +115,7 @@ Found = tuple[Conjugate, sympy.Expr] | None
 
 def _conjugate_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
     """phi* over the part of ``interval`` where phi is continuous, read from the disk
-    cache when an earlier process derived and checked it (see conjugate_cache)."""
+    cache when an earlier process derived and checked it (see derivation_cache)."""
     return cache.memo(cache.key_of("conjugate", phi, t, interval),  # type: ignore[no-any-return]
                       lambda: _derive_on(phi, t, interval), _to_payload, _from_payload)
 
