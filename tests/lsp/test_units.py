@@ -88,3 +88,17 @@ def test_hover_on_the_objective_states_the_dual() -> None:
     shown, _ = hover_text(snap, text.index("minimize") + 3, derive(snap.loaded.problem))
     assert "dual: maximize over l" in shown and "`-bᵀ l`" in shown
     assert "`Aᵀ l = -c`" in shown and "`l ∈ ℝ^m_+`" in shown
+
+
+def test_hover_on_functions_states_domain_and_curvature() -> None:
+    # log is concave and increasing on the positive reals, exp convex and increasing
+    # on all reals (Boyd and Vandenberghe, Convex Optimization, 2004, section 3.1.5)
+    text = "data a in R^n\nminimize sum(exp(x)) - sum(log(x + a))\nover x in R^n\n"
+    snap = snapshot("untitled:f", 1, text)
+    shown, mention = hover_text(snap, text.index("log") + 1, None)
+    assert mention is not None and mention.kind == "function"
+    assert "concave, increasing" in shown and "positive numbers" in shown
+    shown, _ = hover_text(snap, text.index("exp"), None)
+    assert "convex, increasing" in shown and "every real number" in shown
+    shown, _ = hover_text(snap, text.index("sum"), None)
+    assert "affine" in shown
