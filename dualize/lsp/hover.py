@@ -140,6 +140,12 @@ def constraint_hover(c: Constraint, derivation: Derivation | None,
         lines.append(f"multiplier `{multiplier.name}` ∈ `{_set_text(multiplier)}`: "
                      f"{SET_WORD.get(multiplier.set, multiplier.set)}")
     lines += ["", *_dual_constraints(c.multiplier.name, derivation)]
+    dual = derivation.dual
+    if dual.unbounded:
+        lines += ["", "The dual function is unbounded for every multiplier: no bound."]
+    elif dual.inner:
+        lines += ["", "The dual keeps an infimum over " + ", ".join(v.name for v in dual.inner)
+                  + ": conditions it implies are not listed."]
     return "\n".join(lines)
 
 
