@@ -193,9 +193,9 @@ def _questions(server: ProblemServer) -> None:
                     lsp.CompletionOptions(trigger_characters=["^", "("]))
     async def complete(ls: ProblemServer, params: lsp.CompletionParams) -> lsp.CompletionList:
         snap = await ls.current(params.text_document.uri)
-        offset = ls.text_map(snap).offset(params.position)
-        items = await ls.ask(navigate.completions, snap, offset,
-                             ls.work.last_parsed.get(snap.uri))
+        text = ls.text_map(snap)
+        items = await ls.ask(navigate.completions, snap, text.offset(params.position),
+                             ls.work.last_parsed.get(snap.uri), text)
         return lsp.CompletionList(is_incomplete=False, items=items)
 
     @server.feature(lsp.TEXT_DOCUMENT_CODE_ACTION, lsp.CodeActionOptions(
