@@ -211,7 +211,9 @@ def command(p, argv):
         print(f"error: cannot read {argv[0]}: {err.strerror}", file=sys.stderr)
         return 2
     try:
-        report = run(p, load_instance(raw))
+        data = load_instance(raw)
+        del raw  # the parsed instance is all that is needed from here on
+        report = run(p, data)
     except (InputError, NeedsConicSolver) as err:
         print(f"error: {argv[0]}: {err}", file=sys.stderr)
         return 2
