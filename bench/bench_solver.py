@@ -134,18 +134,23 @@ def main() -> None:
     parser = argparse.ArgumentParser()
     parser.add_argument("--quick", action="store_true", help="the small size of each case")
     parser.add_argument("--only", help="run only this case (soft_margin, lp, lasso, ...)")
+    parser.add_argument("--size", help="run only this size of the case(s), e.g. 10000x100")
     parser.add_argument("--timeout", type=float, default=600.0)
+    parser.add_argument("--out", help="where to write the figures (default: bench/results_"
+                        "solver.json, or results_solver_quick.json with --quick)")
     args = parser.parse_args()
     plan = QUICK if args.quick else [(n, s) for n, c in CASES.items() for s in c.sizes]
     rows = []
     with tempfile.TemporaryDirectory() as scratch:
         for name, size in plan:
-            if args.only and name != args.only:
+            if (args.only and name != args.only) or \
+                    (args.size and "x".join(map(str, size)) != args.size):
                 continue
             rows.append(one_case(name, size, Path(scratch), args.timeout))
             print(json.dumps(rows[-1]), flush=True)
     print(table(rows))
-    out = ROOT / "bench" / ("results_solver_quick.json" if args.quick else "results_solver.json")
+    out = Path(args.out) if args.out else \
+        ROOT / "bench" / ("results_solver_quick.json" if args.quick else "results_solver.json")
     out.write_text(json.dumps(rows, indent=2) + "\n", encoding="utf-8")
 
 
