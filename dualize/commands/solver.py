@@ -14,8 +14,9 @@ from dualize.errors import DualizeError
 @click.option("-o", "--output", type=click.Path(), required=True,
               help="The Python module to write (atomically).")
 def solver_command(file: str, output: str) -> None:
-    """Write a Python module (numpy and scipy only) that solves the dual of FILE on an
-    instance, recovers the primal solution and reports the duality gap."""
+    """Write a Python module (numpy and scipy; clarabel for a semidefinite dual) that
+    solves the dual of FILE on an instance, recovers the primal solution and reports
+    the duality gap with a status word (certified, infeasible, ...)."""
     from dualize.api import write_atomically
     from dualize.commands.common import load_problem, user_errors
     from dualize.duality import derive
