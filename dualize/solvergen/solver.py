@@ -278,7 +278,7 @@ def _size_spec(size: object) -> str:
 
 
 def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagrangian: bool,
-          constant_hessian: bool, printed: bool) -> list[tuple[str, str]]:
+          constant_hessian: bool) -> list[tuple[str, str]]:
     """The keyword arguments of the module's ``Spec``, as code."""
     problem = derivation.problem
     dual = derivation.dual
@@ -297,9 +297,7 @@ def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagra
         ("constant_hessian", repr(constant_hessian)),
         ("caution", json.dumps(CAUTION)),
     ]
-    if printed:
-        entries += [(name, f"_{code}") for name, code in _PRINTED]
-    return entries
+    return entries + [(name, f"_{code}") for name, code in _PRINTED]
 
 
 _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "objective"),
@@ -347,5 +345,5 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         scalars=_scalars(derivation, plan.auxiliary),
         functions="\n\n\n".join(functions),
         spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",
-                   plan.constant_hessian, True),
+                   plan.constant_hessian),
     )
