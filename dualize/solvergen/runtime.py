@@ -114,11 +114,19 @@ def _sparse_block(value, rows, cols):
 
 
 def _split(z, sizes, scalars):
-    """The stacked vector z cut into one part per variable; scalars as numbers."""
+    """The stacked vector z cut into one part per variable: a number (scalar True), a
+    vector (False) or a square matrix ("square", its entries row by row)."""
     if not sizes:
         return []
     parts = np.split(np.asarray(z, dtype=float), np.cumsum(sizes)[:-1])
-    return [np.float64(q[0]) if scalar else q for q, scalar in zip(parts, scalars, strict=True)]
+    return [_shaped(q, kind) for q, kind in zip(parts, scalars, strict=True)]
+
+
+def _shaped(part, kind):
+    if kind == "square":
+        k = int(round(np.sqrt(part.size)))
+        return part.reshape(k, k)
+    return np.float64(part[0]) if kind else part
 
 
 def _unique_keys(pairs):
