@@ -13,7 +13,6 @@ constant computed once per instance.  An IR node without a rule raises
 
 from __future__ import annotations
 
-import keyword
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -24,32 +23,11 @@ from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.functions import LOG, lookup
 from dualize.solvergen.ir_rewrite import LogSumExp, Softmax, is_scalar, is_vector_like
-
-RESERVED = frozenset({"np", "scipy", "json", "sys", "d", "z", "x", "p", "c", "math"})
-"""Names the generated module uses itself; user names equal to these get a suffix."""
+from dualize.solvergen.pynames import python_names  # noqa: F401 - re-exported
 
 
 class UnknownNode(DualizeError):
     """An IR node the code printer has no rule for."""
-
-
-def python_names(names: list[str]) -> dict[str, str]:
-    """Map problem names to safe Python identifiers, deterministically.
-
-    A name must be an identifier; keywords (``lambda``) and the module's own
-    names get a trailing underscore, repeated until the result is unique.
-    """
-    out: dict[str, str] = {}
-    taken: set[str] = set()
-    for name in sorted(set(names)):
-        if not name.isidentifier() or name.startswith("_"):
-            raise DualizeError(f"the name {name!r} cannot be used in a Python module", 2)
-        ident = name
-        while keyword.iskeyword(ident) or ident in RESERVED or ident in taken:
-            ident += "_"
-        out[name] = ident
-        taken.add(ident)
-    return out
 
 
 @dataclass

@@ -11,7 +11,6 @@ pastes no user text except validated identifiers.
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 from dualize.duality.result import Derivation
@@ -20,6 +19,7 @@ from dualize.model import expr as ir
 from dualize.model.ops import is_zero
 from dualize.render.caution import CAUTION
 from dualize.solvergen.ir_rewrite import length
+from dualize.solvergen.pynames import literal
 from dualize.solvergen.python_code import python_names
 from dualize.solvergen.solver_conic import conic_plan
 from dualize.solvergen.solver_emit import Emitter, Scope, function
@@ -221,7 +221,7 @@ def _recovery(emitter: Emitter, derivation: Derivation) -> str:
         if rec.formula is not None:
             code, reads = emitter.code(rec.formula)
             used |= reads
-            body.append(f"x[{json.dumps(rec.variable)}] = {code}")
+            body.append(f"x[{literal(rec.variable)}] = {code}")
     body.append("return x")
     return function(emitter, "def _recover(z, d):", body, used)
 
@@ -258,7 +258,7 @@ def _prepare(emitter: Emitter) -> str:
         reads |= {u for u in used if not u.startswith("_k")}
         body.append(f"{name} = {code}")
     names = [n for n, _, _ in emitter.constants.entries]
-    body.append("return {" + ", ".join(f"{json.dumps(n)}: {n}" for n in names) + "}")
+    body.append("return {" + ", ".join(f"{literal(n)}: {n}" for n in names) + "}")
     return function(emitter, "def _prepare(d):", body, reads)
 
 
@@ -268,8 +268,8 @@ def _declarations(derivation: Derivation, scope: Scope) -> str:
     for decl in derivation.problem.data:
         shape = decl.symbol.shape
         facts = sorted(decl.symbol.facts)
-        rows.append(f"    ({json.dumps(decl.name)}, {_size_spec(shape.rows)}, "
-                    f"{_size_spec(shape.cols)}, {json.dumps(facts)}),")
+        rows.append(f"    ({literal(decl.name)}, {_size_spec(shape.rows)}, "
+                    f"{_size_spec(shape.cols)}, {literal(facts)}),")
     return "DATA = [\n" + "\n".join(rows) + "\n]" if rows else "DATA = []"
 
 
@@ -278,7 +278,7 @@ def _size_spec(size: object) -> str:
     if text.isdigit():
         return text
     if text.isidentifier():
-        return json.dumps(text)
+        return literal(text)
     raise DualizeError(f"cannot generate a solver: a data size {text} is not a plain name", 2)
 
 
@@ -288,19 +288,19 @@ def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagra
     problem = derivation.problem
     dual = derivation.dual
     entries = [
-        ("method", json.dumps(method)),
-        ("dual_names", json.dumps([v.name for v in dual.variables])),
-        ("dual_sense", json.dumps(dual.sense)),
-        ("primal_sense", json.dumps(problem.sense)),
-        ("primal_names", json.dumps([v.name for v in problem.variables])),
+        ("method", literal(method)),
+        ("dual_names", literal([v.name for v in dual.variables])),
+        ("dual_sense", literal(dual.sense)),
+        ("primal_sense", literal(problem.sense)),
+        ("primal_names", literal([v.name for v in problem.variables])),
         ("primal_scalar", repr([v.symbol.shape.is_scalar for v in problem.variables])),
         ("scalars", "SCALARS"),
         ("data", "DATA"),
         ("dims", "DIMS"),
-        ("unrecovered", json.dumps(dict(sorted(missing.items())))),
+        ("unrecovered", literal(dict(sorted(missing.items())))),
         ("by_lagrangian", repr(by_lagrangian)),
         ("constant_hessian", repr(constant_hessian)),
-        ("caution", json.dumps(CAUTION)),
+        ("caution", literal(CAUTION)),
     ]
     return entries + [(name, f"_{code}") for name, code in _PRINTED]
 
@@ -353,7 +353,7 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
         runtime=runtime_source(),
         declarations=_declarations(derivation, scope),
-        dims=json.dumps(sorted(str(s) for s in derivation.problem.dims)),
+        dims=literal(sorted(str(s) for s in derivation.problem.dims)),
         scalars=_scalars(derivation, plan.auxiliary),
         functions="\n\n\n".join(functions),
         spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",

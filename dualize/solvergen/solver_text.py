@@ -7,6 +7,7 @@ import textwrap
 from dualize.duality.result import Derivation
 from dualize.model import expr as ir
 from dualize.render.caution import CAUTION
+from dualize.solvergen.pynames import comment_text
 
 _RELATIONS = {"<=": "<=", ">=": ">=", "==": "=", "=": "=", "succeq": ">= (psd)",
               "preceq": "<= (psd)", "in": "in"}
@@ -23,7 +24,7 @@ def plain(expr: ir.Expr) -> str:
 
 def _safe(text: str) -> str:
     """Docstring-safe: no backslashes or triple quotes can end the string early."""
-    return text.replace("\\", "/").replace('"""', "'''")
+    return comment_text(text.replace("\\", "/").replace('"""', "'''"))
 
 
 def _primal_lines(derivation: Derivation) -> list[str]:
