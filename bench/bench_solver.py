@@ -19,6 +19,7 @@ import argparse
 import json
 import os
 import shutil
+import signal
 import subprocess
 import sys
 import tempfile
@@ -52,11 +53,16 @@ def measured(command: list[str], timeout: float) -> dict:
     timer = shutil.which("time") and Path("/usr/bin/time").exists()
     full = ["/usr/bin/time", "-v", *command] if timer else command
     start = time.perf_counter()
-    try:
-        done = subprocess.run(full, capture_output=True, text=True, env=env, timeout=timeout,
-                              check=False)
-    except subprocess.TimeoutExpired:
-        return {"error": f"killed after {timeout:.0f} s"}
+    # A session of its own, so that a timeout ends the solver too, not only /usr/bin/time.
+    with subprocess.Popen(full, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+                          env=env, start_new_session=True) as child:
+        try:
+            stdout, stderr = child.communicate(timeout=timeout)
+        except subprocess.TimeoutExpired:
+            os.killpg(child.pid, signal.SIGKILL)
+            child.communicate()
+            return {"error": f"killed after {timeout:.0f} s"}
+    done = subprocess.CompletedProcess(full, child.returncode, stdout, stderr)
     seconds = time.perf_counter() - start
     peak = None
     for line in done.stderr.splitlines():
