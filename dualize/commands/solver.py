@@ -14,8 +14,9 @@ from dualize.commands.common import reports_user_errors, time_limit_option
 @time_limit_option
 @reports_user_errors
 def solver_command(file: str, output: str, time_limit: float) -> None:
-    """Write a Python module (numpy and scipy only) that solves the dual of FILE on an
-    instance, recovers the primal solution and reports the duality gap."""
+    """Write a Python module (numpy and scipy; clarabel for a semidefinite dual) that
+    solves the dual of FILE on an instance, recovers the primal solution and reports
+    the duality gap with a status word (certified, infeasible, ...)."""
     from dualize import api
 
     api.write_atomically(output, api.generate_solver(file, time_limit=time_limit).code)
