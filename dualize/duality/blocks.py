@@ -104,7 +104,7 @@ def _said(**formulas: object) -> tuple[tuple[str, object], ...]:
 
 def _affine_condition(x: Symbol, g: Expr, r: Expr, rel: str, why: str) -> Outcome:
     text = (f"The Lagrangian is affine in ${x.name}$; it is bounded below only where "
-            f"{why}, and then its infimum is the constant part, $#value$.")
+            f"{why}, and then the block contributes its constant part, $#value$.")
     c = zero_constraint(g, rel, f"the Lagrangian is affine in {x.name}: {why}")
     shown = (Equation(_grad_head(x), "=", tidy(g)),
              Equation(tidy(g), rel, b.zeros(g.shape)))  # type: ignore[arg-type]
