@@ -155,6 +155,11 @@ def _summed(e: Expr) -> Expr | None:
             return second
         if isinstance(second, Ones) and isinstance(first, Transpose):
             return first.arg
+    if isinstance(e, MatMul) and len(e.factors) == 3:  # 1' E 1: every entry of a matrix
+        first, middle, last = e.factors
+        if isinstance(first, Transpose) and isinstance(first.arg, Ones) and isinstance(
+                last, Ones):
+            return middle
     return None
 
 

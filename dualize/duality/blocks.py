@@ -297,7 +297,7 @@ def _factored(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Outcome
     w = pseudo.factor_through(H, g)
     if w is None:
         return None
-    value, step, rec = pseudo.factored_value(x, H, w, r, kind)
+    value, step, rec = pseudo.factored_value(x, H, w, g, r, kind)
     return Outcome(value, recovery=rec, steps=[step], gradient=b.add(b.mul(H, x), g))
 
 

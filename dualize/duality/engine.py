@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
 from dualize.duality.atoms import Atom, atom_expression, infimum, recognise, with_argument
 from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
@@ -53,6 +54,8 @@ class Work:
     steps: list[Step] = field(default_factory=list)
     aux_blocks: list[tuple[Symbol, Atom, Symbol]] = field(default_factory=list)
     aux_args: dict[str, Expr] = field(default_factory=dict)
+    deadline: Deadline = field(default_factory=Deadline.unlimited)
+    cut: list[str] = field(default_factory=list)
 
     def fresh(self, base: str) -> str:
         name, k = base, 1
@@ -62,16 +65,20 @@ class Work:
         return name
 
 
-def derive(problem: Problem) -> Derivation:
-    """The dual of ``problem`` with its recorded steps, KKT conditions and recovery."""
+def derive(problem: Problem, deadline: Deadline | None = None) -> Derivation:
+    """The dual of ``problem`` with its recorded steps, KKT conditions and recovery.
+
+    Past ``deadline`` the blocks not yet minimized keep their infimum unevaluated and
+    the simplification of the dual is skipped; the notes say which step was cut.
+    """
     shown, L = lagrangian(problem)
     mults = multipliers(problem)
-    work = Work(problem, _names(problem))
+    work = Work(problem, _names(problem), deadline=deadline or Deadline.unlimited())
     work.steps.append(_lagrangian_step(problem, shown, mults))
     _distribute(work, expand(L))
     outcomes = _minimize_blocks(work)
     dual, recovery = _assemble(work, outcomes, mults)
-    dual, more_steps = simplify(dual, problem)
+    dual, more_steps = _simplified(work, dual)
     work.steps.extend(more_steps)
     recovery = _substituted(recovery, substitutions(more_steps))
     if problem.sense == "maximize":
@@ -81,6 +88,15 @@ def derive(problem: Problem) -> Derivation:
     notes = _notes(work, dual)
     return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
                       kkt, tuple(recovery), notes)
+
+
+def _simplified(work: Work, dual: DualProblem) -> tuple[DualProblem, list[Step]]:
+    """The simplification of the dual, skipped (and noted) past the deadline."""
+    if work.deadline.expired():
+        work.cut.append(str(DeadlineExceeded("simplifying the dual", work.deadline.seconds or 0))
+                        + ": the dual is shown as assembled, without simplification")
+        return dual, []
+    return simplify(dual, work.problem)
 
 
 def _names(problem: Problem) -> set[str]:
@@ -178,7 +194,13 @@ def _guarded_block(work: Work, v: Variable) -> Outcome:
     anticipate: a missing closed form is reported, never a guessed one."""
     marks = (len(work.aux_blocks), len(work.extra), len(work.steps), set(work.names))
     try:
+        work.deadline.check(f"minimizing the Lagrangian over {v.name}")
         return _block(work, v)
+    except DeadlineExceeded as cut:
+        del work.aux_blocks[marks[0]:], work.extra[marks[1]:], work.steps[marks[2]:]
+        work.names = marks[3]
+        work.cut.append(f"{cut}: the infimum over {v.name} is kept unevaluated")
+        return _kept(v, work.by_var.get(v.name, []), str(cut))
     except (ValueError, TypeError, KeyError, AttributeError, AssertionError,
             NotImplementedError, ZeroDivisionError, RecursionError):
         del work.aux_blocks[marks[0]:], work.extra[marks[1]:], work.steps[marks[2]:]
@@ -197,7 +219,8 @@ def _block(work: Work, v: Variable) -> Outcome:
     if not x.shape.is_scalar and not x.shape.is_vector:
         lin = trace_linear(rebuild(terms, SCALAR), x)
         if lin is None:
-            return _kept(v, terms, "the matrix variable enters other than linearly")
+            return _matrix_separable(work, v, terms) or _kept(
+                v, terms, "the matrix variable enters other than linearly")
         return matrix_block(x, v.domain, lin) or _kept(v, terms, _domain_why(v))
     atoms, polys, others = _classify(terms, x)
     if others:
@@ -226,6 +249,28 @@ def _block(work: Work, v: Variable) -> Outcome:
         _split_local(work, a, polys, x)
     polys = polys + [_square_poly(a, x) for a in bare]
     return _quadratic(v, polys) or _kept_quadratic(v, polys)
+
+
+def _matrix_separable(work: Work, v: Variable, terms: list[Term]) -> Outcome | None:
+    """inf over X of c sum(phi(X)) + <G, X> + r = r - c sum(phi*(-G/c)), entry by entry.
+
+    A matrix variable that enters through one separable building block of its own
+    entries (the entropy X .* log(X) of an entropic transport plan) and linearly
+    otherwise is minimized entry by entry, exactly like a vector.
+    """
+    x = v.symbol
+    names = frozenset({x.name})
+    atoms = [(t, recognise(t, names)) for t in terms]
+    own = [a for _, a in atoms if a is not None and a.kind == "separable" and a.arg == x]
+    rest = [t for t, a in atoms if a is None or a.kind != "separable" or a.arg != x]
+    if len(own) != 1:
+        return None
+    lin = trace_linear(rebuild(rest, SCALAR), x)
+    if lin is None:
+        return None
+    s = tidy(b.neg(lin.lin)) if lin.lin is not None else b.zeros(x.shape)
+    r = lin.const if lin.const is not None else b.num(0)
+    return _conjugate_outcome(x, own[0], s, r, v.domain, work)
 
 
 def _convex_remainder(polys: list[Quadratic], x: Symbol) -> bool:
@@ -348,7 +393,8 @@ def _aux_block(u: Symbol, atom: Atom, z: Symbol) -> Outcome:
 def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
                        work: Work | None) -> Outcome:
     if atom.kind == "separable":
-        inf = separable_infimum(atom, s, x, domain)
+        inf = separable_infimum(atom, s, x, domain,
+                                work.deadline if work is not None else Deadline.unlimited())
     else:
         inf = infimum(atom, s, x) if domain.kind == "free" else None
     if inf is None:
@@ -472,7 +518,7 @@ def finiteness_sentence(dual: DualProblem, sense: str) -> str:
 
 
 def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:
-    notes = []
+    notes = [f"Time limit: {cut}." for cut in work.cut]
     if work.aux_blocks:
         notes.append("Auxiliary variables were introduced, each equal to the affine argument of a "
                      "building block; the dual is that of this equivalent reformulation, with the "

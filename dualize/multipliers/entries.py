@@ -83,7 +83,11 @@ def slack(entry: Entry, problem: Problem, instance: Instance,
           x: dict[str, np.ndarray]) -> float:
     """``-g_i(x*)`` (>= 0 when feasible); for a matrix inequality, ``-lambda_max(G(x*))``."""
     point = {**instance.values, **{k: np.asarray(v, dtype=float) for k, v in x.items()}}
-    value = evaluate_2d(entry.constraint.function, point, instance.dims)
+    try:
+        with np.errstate(all="ignore"):
+            value = evaluate_2d(entry.constraint.function, point, instance.dims)
+    except (ValueError, TypeError, ArithmeticError, np.linalg.LinAlgError):
+        return float("nan")
     if entry.index is None:
         return float(-np.max(np.linalg.eigvalsh((value + value.T) / 2)))
     return float(-value[entry.index])

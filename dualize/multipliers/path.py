@@ -132,7 +132,13 @@ class _Scalar:
 
     def solve(self, value: float) -> Point:
         inst = Instance(self.values(value), self.instance.dims, self.instance.source)
-        return Posed(self.problem, inst).solve()  # type: ignore[arg-type]
+        try:
+            posed = Posed(self.problem, inst)  # type: ignore[arg-type]
+        except (ValueError, TypeError, ArithmeticError):
+            return Point("unsupported", float("nan"), {}, {})
+        if not posed.convex():
+            return Point("not certifiably convex", float("nan"), {}, {})
+        return posed.solve()
 
 
 def smallest_r(forms: Forms) -> float:
@@ -170,9 +176,9 @@ def from_weight(forms: Forms, w: float, floor: float) -> Match:
 
 
 def _reproduced(forms: Forms, m: Match) -> Match:
-    """A multiplier off ``w`` beyond 1e-4 is still the matching weight when the penalized
-    form at the multiplier gives back the same bound and value (the multiplier is then
-    as accurate as the conic solve that produced it)."""
+    """A multiplier off ``w`` beyond 1e-4 still matches when the penalized form at the
+    multiplier gives back the same bound and value: both weights then give this ``t``
+    (the solver's accuracy on the bound, or an interval of weights with one ``t``)."""
     again = forms.penalized(max(m.check_weight, 0.0))
     if not again.solved:
         return m
@@ -181,9 +187,10 @@ def _reproduced(forms: Forms, m: Match) -> Match:
         return m
     off = abs(m.check_weight - m.weight) / max(abs(m.weight), 1.0)
     return replace(m, status="agrees", note=(
-        f"the bound's multiplier differs from the weight by {off:.1e} relative, and the "
-        "penalized form at the multiplier gives back the same bound and value: the "
-        "difference is the solver's accuracy on this bound"))
+        f"the bound's multiplier differs from the weight by {off:.1e} relative, yet the "
+        "penalized form at the multiplier gives back the same bound and value: both "
+        "weights match this bound (the solver's accuracy on the bound, or several weights "
+        "giving the same t, where the multiplier is not unique)"))
 
 
 def from_bound(forms: Forms, t: float, floor: float) -> Match:

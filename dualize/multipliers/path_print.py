@@ -28,8 +28,23 @@ def relation(pair: Pair) -> str:
             "and 5.5).")
 
 
-def conditions(pair: Pair) -> list[str]:
-    return [f"{what}: {status}" for what, status in pair.conditions]
+def condition_pairs(pair: Pair, curve: Curve | None = None) -> list[tuple[str, str]]:
+    """Each condition and its status; on an instance, the one on t is decided there."""
+    return [(what, _slater_status(curve) if curve is not None and "smallest value of r"
+             in what else status) for what, status in pair.conditions]
+
+
+def conditions(pair: Pair, curve: Curve | None = None) -> list[str]:
+    return [f"{what}: {status}" for what, status in condition_pairs(pair, curve)]
+
+
+def _slater_status(curve: Curve) -> str:
+    floor = curve.smallest_r
+    if floor != floor:  # nan: the solve of min r failed
+        return "not decided on this instance (the smallest value of r could not be found)"
+    edges = sum(1 for p in curve.points if p.status == "edge")
+    tail = f"; {edges} point(s) at it are marked edge" if edges else ""
+    return f"on this instance the smallest value of r is {num(floor)}{tail}"
 
 
 def table(curve: Curve) -> list[list[str]]:
@@ -55,15 +70,15 @@ def _lines(curve: Curve) -> list[str]:
 def curve_text(curve: Curve) -> str:
     pair = curve.pair
     lines = [f"Trade-off between {pair.weight} and {pair.bound} on {curve.instance}", "",
-             relation(pair), "", "Conditions:", *[f"  {c}" for c in conditions(pair)], "",
-             *_aligned(table(curve)), "", *_lines(curve), "", CAUTION]
+             relation(pair), "", "Conditions:", *[f"  {c}" for c in conditions(pair, curve)],
+             "", *_aligned(table(curve)), "", *_lines(curve), "", CAUTION]
     return "\n".join(lines) + "\n"
 
 
 def curve_markdown(curve: Curve) -> str:
     pair, rows = curve.pair, table(curve)
     lines = [f"### Trade-off between {pair.weight} and {pair.bound} on {curve.instance}", "",
-             relation(pair), "", *[f"- {c}" for c in conditions(pair)], "",
+             relation(pair), "", *[f"- {c}" for c in conditions(pair, curve)], "",
              _md_row(rows[0]), _md_row(["---"] * len(rows[0])), *[_md_row(r) for r in rows[1:]],
              "", *[f"- {line}" for line in _lines(curve)], "", f"*{CAUTION}*"]
     return "\n".join(lines) + "\n"
@@ -73,7 +88,7 @@ def curve_html(curve: Curve) -> str:
     from dualize.multipliers.printing import html_page
 
     head = [f"Trade-off between {curve.pair.weight} and {curve.pair.bound} on "
-            f"{curve.instance}", relation(curve.pair), *conditions(curve.pair)]
+            f"{curve.instance}", relation(curve.pair), *conditions(curve.pair, curve)]
     return html_page(head, table(curve), _lines(curve) + [CAUTION])
 
 
@@ -81,7 +96,7 @@ def curve_latex(curve: Curve, standalone: bool = False) -> str:
     from dualize.multipliers.latex import escape, tabular, wrap
 
     parts = [r"\paragraph{Trade-off.} " + escape(relation(curve.pair)),
-             escape("Conditions: " + "; ".join(conditions(curve.pair)) + "."),
+             escape("Conditions: " + "; ".join(conditions(curve.pair, curve)) + "."),
              tabular(table(curve)), escape(" ".join(_lines(curve))),
              r"\emph{" + escape(CAUTION) + "}"]
     return wrap(parts, f"Trade-off between {curve.pair.weight} and {curve.pair.bound}",
@@ -94,7 +109,7 @@ def curve_json(curve: Curve) -> str:
         "weight": pair.weight, "bound": pair.bound, "label": pair.label, "sense": pair.sense,
         "f": pair.rest, "r": pair.term, "instance": curve.instance, "swept": curve.given,
         "relation": relation(pair),
-        "conditions": [{"condition": c, "status": s} for c, s in pair.conditions],
+        "conditions": [{"condition": c, "status": s} for c, s in condition_pairs(pair, curve)],
         "smallest_r": _j(curve.smallest_r),
         "points": [{k: (_j(v) if isinstance(v, float) else v) for k, v in zip(
             CSV_HEAD + ["note"], _fields(p), strict=True)} for p in curve.points],

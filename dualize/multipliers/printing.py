@@ -50,11 +50,20 @@ def measured(row: Rate) -> str:
     return f"{num(row.left)} / {num(row.right)}"
 
 
+def single_rate(row: Rate) -> bool:
+    """False at a kink or an edge of p*: there the derivative does not exist."""
+    return not row.check.startswith(("kink", "edge"))
+
+
+def rate_cell(row: Rate) -> str:
+    return num(row.rate) if single_rate(row) else "none (one-sided)"
+
+
 def table_rows(report: Sensitivity) -> list[list[str]]:
     head = ["entry", "as written", "multiplier", "slack", "binds",
             f"rate {rate_word(report)}", "re-solved (left / right)", "check"]
     rows = [[r.name, r.relation, num(r.multiplier), num(r.slack), "yes" if r.binds else "no",
-             num(r.rate), measured(r), CHECK_WORDS[r.check]] for r in report.rows]
+             rate_cell(r), measured(r), CHECK_WORDS[r.check]] for r in report.rows]
     return [head, *rows]
 
 
@@ -115,8 +124,8 @@ def sensitivity_text(report: Sensitivity) -> str:
     lines = _header(report) + [""]
     if report.rows:
         lines += [CONVENTION, "", *_aligned(table_rows(report)), ""]
-        lines += [f"  {r.name}: {r.note}" for r in report.rows if r.note]
-        lines += ["", METHOD, rates_sentence(report)]
+        notes = [f"  {r.name}: {r.note}" for r in report.rows if r.note]
+        lines += notes + ([""] if notes else []) + [METHOD, rates_sentence(report)]
     lines += ["", bound_sentence(report), "", CAUTION]
     return "\n".join(lines) + "\n"
 
@@ -183,7 +192,8 @@ def sensitivity_json(report: Sensitivity) -> str:
 def _row_json(r: Rate) -> dict[str, Any]:
     return {"entry": r.name, "constraint": r.constraint, "relation": r.relation,
             "multiplier": _j(r.multiplier), "slack": _j(r.slack), "binds": r.binds,
-            "rate": _j(r.rate), "step": _j(r.step), "left_rate": _j(r.left),
+            "rate": _j(r.rate) if single_rate(r) else None,
+            "multiplier_rate": _j(r.rate), "step": _j(r.step), "left_rate": _j(r.left),
             "right_rate": _j(r.right), "tolerance": _j(r.tolerance), "check": r.check,
             "note": r.note}
 

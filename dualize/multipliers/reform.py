@@ -53,7 +53,7 @@ def _weighted_terms(problem: Problem, doc: F.Document) -> list[tuple[str, ast.Ex
     weights, variables = _weightable(problem, doc), {v.name for v in problem.variables}
     out = []
     for sign, node in F.signed_terms(doc.doc.objective.expr):
-        if sign != wanted or not (isinstance(node, ast.BinOp) and node.op == "*"):
+        if sign != wanted or not (isinstance(node, ast.BinOp) and node.op in PRODUCT_OPS):
             continue
         found = _weight_factor(node, doc.source, weights)
         if found is not None and F.names_in(node) - {found[0]} & variables:
@@ -61,18 +61,37 @@ def _weighted_terms(problem: Problem, doc: F.Document) -> list[tuple[str, ast.Ex
     return out
 
 
+PRODUCT_OPS = ("*", ".*", "/", "./")
+
+
+def _chain(node: ast.Expr) -> list[tuple[str, ast.Expr]]:
+    """A left-associated product chain as (operator before, factor); the first has ""."""
+    if isinstance(node, ast.BinOp) and node.op in PRODUCT_OPS:
+        return _chain(node.left) + [(node.op, node.right)]
+    return [("", node)]
+
+
+def _factor_text(source: str, node: ast.Expr) -> str:
+    """A factor as written, in parentheses when it is a sum, a negation or a product
+    (a product as a factor was parenthesized in the source: ``a / (b * c)``)."""
+    text = F.cut(source, node)
+    return f"({text})" if isinstance(node, ast.BinOp | ast.Neg) else text
+
+
 def _weight_factor(node: ast.BinOp, source: str, weights: set[str]) -> tuple[str, str] | None:
-    """The weight and the text of the other factors, if a weight leads or ends the chain."""
-    right = node.right
-    if isinstance(right, ast.Name) and right.name in weights:
-        return right.name, F.factor(node.left, F.cut(source, node.left))
-    parent = node
-    while isinstance(parent.left, ast.BinOp) and parent.left.op == "*":
-        parent = parent.left
-    lead = parent.left
-    if isinstance(lead, ast.Name) and lead.name in weights:
-        rest = source[parent.right.span.start:node.span.end]
-        return lead.name, rest if parent is node else f"({rest})"
+    """The weight and the text of the other factors: the weight is a factor of the chain
+    joined by ``*`` on both sides (``w * r``, ``2 * w * r``, ``r * w``), so, being a
+    scalar, it factors out of the product."""
+    items = _chain(node)
+    for k, (op, f) in enumerate(items):
+        after = items[k + 1][0] if k + 1 < len(items) else "*"
+        if (isinstance(f, ast.Name) and f.name in weights and op in ("", "*")
+                and after == "*" and len(items) > 1):
+            rest = items[:k] + items[k + 1:]
+            rest[0] = ("", rest[0][1])
+            text = _factor_text(source, rest[0][1]) + "".join(
+                f" {o} {_factor_text(source, g)}" for o, g in rest[1:])
+            return f.name, text if len(rest) == 1 else f"({text})"
     return None
 
 

@@ -114,7 +114,11 @@ def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT
     refusal = _refusal(problem)
     if refusal:
         return Sensitivity(status="unsupported", value=float("nan"), refusal=refusal, **base)
-    posed = Posed(problem, instance)
+    try:
+        posed = Posed(problem, instance)
+    except (ValueError, TypeError, ArithmeticError) as err:
+        return Sensitivity(status="unsupported", value=float("nan"), refusal=(
+            f"the numeric reference cannot pose this problem ({err})"), **base)
     if not posed.convex():
         return Sensitivity(status="unsupported", value=float("nan"), refusal=(
             "the numeric reference cannot pose the problem in a form its curvature rules "

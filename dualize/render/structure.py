@@ -199,7 +199,8 @@ def ordered_terms(node: ir.Add) -> tuple[ir.Expr, ...]:
         return tuple(ordered)
     lead_rank = _term_rank(positive[0], roles)
     lead = [t for t in positive if _term_rank(t, roles) == lead_rank]
-    return tuple(lead + [t for t in ordered if all(t is not p for p in lead)])
+    chosen = {id(p) for p in lead}
+    return tuple(lead + [t for t in ordered if id(t) not in chosen])
 
 
 PRIMAL = frozenset({"variable", "auxiliary"})

@@ -208,3 +208,61 @@ def test_trade_off_at_a_bound_written_as_a_number(tmp_path: Path) -> None:
     point = json.loads(out)["points"][0]
     # the bound 1.5 and the weight 0.938548 match the lasso's sweep (test_forms_closed_form)
     assert point["bound"] == pytest.approx(1.5) and point["status"] == "agrees"
+
+
+def test_the_written_form_is_derived_like_any_problem(tmp_path: Path) -> None:
+    """The constrained lasso written by reform has the dual of a norm-ball least squares
+    problem: derive must succeed on it and keep the bound's multiplier (Boyd and
+    Vandenberghe, 2004, section 5.1: one multiplier per constraint, here beside the one
+    the engine adds for the residual)."""
+    from dualize.duality import derive
+
+    out_file = tmp_path / "lasso_bound.prob"
+    assert run("reform", str(EXAMPLES / "spectrum_lasso.prob"), "-o", str(out_file))[0] == 0
+    problem = load_file(out_file).problem
+    assert problem is not None
+    derivation = derive(problem)
+    assert "bound" in [v.name for v in derivation.dual.variables]
+
+
+def test_a_weight_used_elsewhere_is_refused(tmp_path: Path) -> None:
+    source = tmp_path / "twice.prob"
+    source.write_text("data c in R^n\ndata w in R_+\nminimize c' * x + w * ||x||^2\n"
+                      "over x in R^n\nsubject to\n  cap: sum(x) <= w\n")
+    code, _, err = run("reform", str(source), "--weight", "w")
+    assert code == 2 and "appears elsewhere" in err
+
+
+def test_a_nonconvex_penalty_is_reported_not_crashed(tmp_path: Path) -> None:
+    """r = -||x||^2 is concave: the conditions say so, and no point can be matched."""
+    source = tmp_path / "concave.prob"
+    source.write_text("data A in R^(m,n)\ndata y in R^m\ndata w in R_+\n"
+                      "minimize ||A*x - y||^2 + w * (-(x' * x))\nover x in R^n\n")
+    data = json.loads((EXAMPLES / "spectrum_lasso.json").read_text())
+    data["w"] = data.pop("lambda")
+    (tmp_path / "concave.json").write_text(json.dumps(data))
+    code, out, _ = run("reform", str(source), "--format", "json")
+    assert code == 0
+    statuses = {c["condition"]: c["status"] for c in json.loads(out)["conditions"]}
+    assert statuses["r is convex"].startswith("not shown")
+    code, out, err = run("trade-off", str(source), "--format", "json")
+    assert code == 1 and "internal error" not in err
+    assert json.loads(out)["points"][0]["status"] == "failed"
+
+
+@pytest.mark.parametrize("objective,r_text", [
+    ("w * a' * x ./ 2", "(a' * x ./ 2)"),
+    ("(x' * x) * w", "(x' * x)"),
+    ("2 * w * ||x||^2", "(2 * ||x||^2)"),
+    ("c' * x + w * (-(x' * x))", "(-(x' * x))"),
+])
+def test_weighted_terms_as_written(tmp_path: Path, objective: str, r_text: str) -> None:
+    """The weight factors out of a product chain (a scalar commutes, common practice);
+    the written bound keeps the term's own text and is read back by the loader."""
+    source = tmp_path / "p.prob"
+    source.write_text(f"data a in R^n\ndata c in R^n\ndata w in R_+\nminimize {objective}\n"
+                      "over x in R^n\n")
+    code, out, _ = run("reform", str(source), "--format", "json")
+    assert code == 0
+    data = json.loads(out)
+    assert data["r"] == r_text and f"bound: {r_text} <= t" in data["other_form"]
