@@ -61,7 +61,7 @@ def hover_text(snap: Snapshot, offset: int, derivation: Derivation | None,
 def objective_hover(problem: Problem, derivation: Derivation | None,
                     pending: str | None) -> str:
     """The objective and the dual problem in short: what the derivation arrives at."""
-    from dualize.render.text import text_expr, text_relation
+    from dualize.render.text_printer import text_expr, text_relation
 
     lines = [f"**objective** ({problem.sense} `{text_expr(problem.objective)}`)", ""]
     if derivation is None:
@@ -126,7 +126,7 @@ def function_hover(name: str) -> str | None:
 
 def constraint_hover(c: Constraint, derivation: Derivation | None,
                      pending: str | None) -> str:
-    from dualize.render.text import text_expr, text_relation
+    from dualize.render.text_printer import text_expr, text_relation
 
     lines = [f"**constraint `{c.label}`** ({KIND_WORD[c.kind]})", "",
              f"`{text_expr(c.lhs)} {text_relation(Comparison(c.relation).relation)} "
@@ -160,7 +160,7 @@ def _set_text(multiplier: DualVariable) -> str:
 
 def _dual_constraints(name: str, derivation: Derivation) -> list[str]:
     """The dual's constraints that involve the multiplier ``name``, with their reasons."""
-    from dualize.render.text import text_expr, text_relation
+    from dualize.render.text_printer import text_expr, text_relation
 
     word = re.compile(rf"(?<![\w]){re.escape(name)}(?![\w])")
     found = [c for c in derivation.dual.constraints
