@@ -63,9 +63,12 @@ class _Env:
         return exact_2d(expr, self.values, self.dims)
 
     def size(self, size: Any) -> int:
-        from dualize.numeric.evaluate import size_of
-
-        return size_of(size, self.dims)
+        """A symbolic size (``n``, ``m + 1``) as an integer, from the instance's sizes."""
+        value = sympy.sympify(size)
+        free = sorted(value.free_symbols, key=lambda s: s.name)
+        if any(s.name not in self.dims for s in free):
+            raise NotExact(f"no size for {value}")
+        return int(value.subs({s: int(self.dims[s.name]) for s in free}))
 
     def shape(self, shape: ir.Shape) -> tuple[int, int]:
         return self.size(shape.rows), self.size(shape.cols)
