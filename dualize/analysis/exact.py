@@ -63,9 +63,13 @@ class _Env:
         return exact_2d(expr, self.values, self.dims)
 
     def size(self, size: Any) -> int:
+        """A symbolic size (``n``, ``m + 1``) as an integer, from the instance's sizes."""
         from dualize.model.sizes import size_of
 
-        return size_of(size, self.dims)
+        try:
+            return size_of(size, self.dims)
+        except KeyError as exc:
+            raise NotExact(f"no size for {size}") from exc
 
     def shape(self, shape: ir.Shape) -> tuple[int, int]:
         return self.size(shape.rows), self.size(shape.cols)
