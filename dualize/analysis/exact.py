@@ -76,7 +76,7 @@ class _Env:
 
 
 def _rational(value: Any, dims: Mapping[str, int]) -> Fraction:
-    value = sympy.sympify(value)
+    value = value if isinstance(value, sympy.Basic) else sympy.Rational(value)
     free = sorted(value.free_symbols, key=lambda s: s.name)
     value = value.subs({s: int(dims[s.name]) for s in free}) if free else value
     if not value.is_Rational:
