@@ -24,9 +24,11 @@ CONVENTION = ("Each constraint is shifted in its normalized form: g(x) <= u for 
               "an equality, G(x) preceq u I for a matrix inequality. A vector constraint is "
               "shifted entry by entry: one row, one rate per entry.")
 METHOD = (f"Each rate is measured by re-solving at shifts +-h and +-h/2 (h = {STEP_REL:g} "
-          "times the right-hand side's scale, at most half a positive slack), one-sided "
-          "differences with Richardson extrapolation; it agrees when within "
-          f"{AGREE_REL:g} relative (with a floor for solver noise over h).")
+          "times the right-hand side's scale, at most half a positive slack; then up to two "
+          "steps 8 times smaller while the two sides disagree, or larger while solver noise "
+          "drowns the check), one-sided differences with Richardson "
+          f"extrapolation; it agrees when within {AGREE_REL:g} relative (with a floor for "
+          "solver noise over h).")
 
 
 def num(value: float) -> str:
