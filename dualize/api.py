@@ -2,10 +2,9 @@
 
 from __future__ import annotations
 
-import os
-import tempfile
 from pathlib import Path
 
+from dualize.deadline import Deadline
 from dualize.diagnostics import Diagnostic
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
@@ -40,38 +39,27 @@ def load_problem(source: str | Path | Problem) -> Problem:
     return loaded.problem
 
 
-def derive(source: str | Path | Problem) -> Derivation:
-    from dualize.duality import derive as _derive
+def derive(source: str | Path | Problem, deadline: Deadline | None = None) -> Derivation:
+    """The derivation of ``source``; past ``deadline`` unfinished steps are kept and noted."""
+    from dualize.duality.engine import derive as _derive
 
-    return _derive(load_problem(source))
+    return _derive(load_problem(source), deadline)
 
 
 def write_atomically(path: str, text: str) -> None:
-    """Write ``text`` to ``path`` so that a failure leaves no partial file and an
-    existing file untouched: a temporary file in the same folder, then a rename."""
-    write_bytes_atomically(path, text.encode("utf-8"))
+    """Write ``text`` to ``path`` (``-`` is standard output) so that a failure leaves no
+    partial file and an existing file untouched; the rules are in ``dualize.outfile``."""
+    from dualize.outfile import write_output
+
+    write_output(path, text)
 
 
 def write_bytes_atomically(path: str, data: bytes) -> None:
-    """``write_atomically`` for any content (a PNG picture). The file gets the mode a
-    newly created file would get (the temporary file's private 0600 is not kept)."""
-    folder = os.path.dirname(os.path.abspath(path))
-    fd, tmp = tempfile.mkstemp(prefix=".dualize-", dir=folder)
-    try:
-        with os.fdopen(fd, "wb") as handle:
-            handle.write(data)
-        os.chmod(tmp, 0o666 & ~_umask())
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
+    """``write_atomically`` for any content (a PNG picture), by the same rules."""
+    from dualize.outfile import write_output
 
+    write_output(path, data)
 
-def _umask() -> int:
-    mask = os.umask(0o022)
-    os.umask(mask)
-    return mask
 
 
 def render(derivation: Derivation, fmt: str, analysis: object | None,

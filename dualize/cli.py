@@ -36,6 +36,8 @@ class DualizeGroup(click.Group):
     """A click group that turns every failure into one line and an exit code."""
 
     def invoke(self, ctx: click.Context) -> object:
+        _exit_on_terminate()
+        _allow_long_numbers()
         try:
             return super().invoke(ctx)
         except DualizeError as err:
@@ -47,6 +49,37 @@ class DualizeGroup(click.Group):
             click.echo(f"internal error: {type(err).__name__}: {err}", err=True)
             ctx.exit(EXIT_INTERNAL)
         return None
+
+
+PRINTED_DIGITS = 100_000
+
+
+def _allow_long_numbers() -> None:
+    """Python refuses to print integers of more than 4,300 digits (a guard against slow
+    conversions).  Numbers a problem may hold are limited when it is read (1,000 digits,
+    rule number-too-large); results built from them (a product of a few, a square) stay
+    far below this larger bound, so printing never stops on it."""
+    if hasattr(sys, "set_int_max_str_digits") and 0 < sys.get_int_max_str_digits() < (
+            PRINTED_DIGITS):
+        sys.set_int_max_str_digits(PRINTED_DIGITS)
+
+
+def _exit_on_terminate() -> None:
+    """SIGTERM (and SIGHUP) end the run through ``SystemExit``, as Ctrl-C does through
+    ``KeyboardInterrupt``, so that ``finally`` blocks run: a temporary output file is
+    removed, never left beside its target.  Only here, at the command line."""
+    import signal
+    import threading
+
+    if threading.current_thread() is not threading.main_thread():
+        return
+
+    def terminate(signum: int, frame: object) -> None:
+        raise SystemExit(128 + signum)
+
+    for name in ("SIGTERM", "SIGHUP"):
+        if hasattr(signal, name):
+            signal.signal(getattr(signal, name), terminate)
 
 
 def _print_version(ctx: click.Context, param: click.Parameter, value: bool) -> None:

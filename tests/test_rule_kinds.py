@@ -51,6 +51,7 @@ TRIGGERS = [
     ('inverse-of-variable', 'minimize trace(inv(X)) over X in S^n\n', 1, 16),
     ('bad-exponent', 'minimize x^x over x in R\n', 1, 12),
     ('division-by-zero', 'minimize x / 0 over x in R\n', 1, 14),
+    ('number-too-large', 'minimize 2^100000 * x over x in R\n', 1, 10),
     ('not-symmetric',
      'data A in R^(n,n)\nminimize trace(X) over X in S^n\ns.t.\n A*X succeq 0\n', 4, 2),
 ]

@@ -40,7 +40,7 @@ def numeric_verdict(problem: Problem, conv: Convexity, instance: Mapping[str, An
     except SizeUnknown as exc:
         return Verdict("unknown", f"the instance does not fix the size {exc}")
     strict_labels = {p.label for p in conv.constraints if p.kind in STRICT_CLASSES}
-    rows = _Rows(problem, lay, strict_labels)
+    rows = _Rows(problem, lay, strict_labels, _exact_data(problem, lay, instance))
     state, point = rows.affine_point()
     if state == "infeasible":
         return Verdict("not-guaranteed", "the instance is infeasible: its affine constraints "
@@ -48,10 +48,35 @@ def numeric_verdict(problem: Problem, conv: Convexity, instance: Mapping[str, An
                        detail="the instance's affine constraints have no common point")
     if not rows.strict:
         if point is not None and rows.hard_ok(point):
-            return _shown(lay, point, "feasible and every constraint is affine", REFINED)
+            exact = rows.confirm(point)
+            if exact is None:
+                return _unconfirmed()
+            return _shown(lay, exact, "feasible and every constraint is affine", REFINED)
         return Verdict("unknown", "linprog could not decide the feasibility of the affine "
                        "constraints on this instance")
     return _decide(rows, lay)
+
+
+def _exact_data(problem: Problem, lay: Layout, instance: Any) -> dict[str, Any]:
+    """The data as exact fractions: the instance file's decimals when it kept them
+    (``numeric.instance``), else the exact binary value of each float."""
+    from dualize.analysis.exact import fractions_of
+
+    kept = getattr(instance, "exact", None) or getattr(getattr(instance, "values", None),
+                                                       "exact", None) or {}
+    names = {d.name for d in problem.data} | set(lay.dims)
+    out: dict[str, Any] = {}
+    for name in sorted(names & set(lay.values)):
+        out[name] = kept[name] if name in kept else fractions_of(lay.values[name])
+    return out
+
+
+def _unconfirmed() -> Verdict:
+    """The float point meets the constraints only within rounding: no certificate."""
+    detail = ("the point the solver found meets the constraints only within rounding, and "
+              "no point checked exactly on the instance's values was found: the instance may "
+              "be infeasible")
+    return Verdict("unknown", f"Slater's condition is not confirmed: {detail}", detail=detail)
 
 
 def _shown(lay: Layout, z: np.ndarray, what: str, why: str = "") -> Verdict:
@@ -65,7 +90,10 @@ def _decide(rows: _Rows, lay: Layout) -> Verdict:
     if z is None:
         return Verdict("unknown", "the phase-one solve failed on this instance")
     if s_star < -TOL and rows.check(z):
-        return _shown(lay, z, "strictly feasible")
+        exact = rows.confirm(z)
+        if exact is None or not rows.check(exact):
+            return _unconfirmed()
+        return _shown(lay, exact, "strictly feasible")
     if not rows.hard_ok(z) or s_star < -NEAR_ZERO:
         return Verdict("unknown", "the phase-one solve did not converge on this instance")
     if not converged and s_star > NEAR_ZERO:
@@ -95,11 +123,15 @@ def _short(v: list | float) -> str:
 class _Rows:
     """The phase-one rows as functions of the flat vector z."""
 
-    def __init__(self, problem: Problem, lay: Layout, strict_labels: set[str]) -> None:
+    def __init__(self, problem: Problem, lay: Layout, strict_labels: set[str],
+                 exact: dict[str, Any] | None = None) -> None:
         self.lay = lay
+        self.exact_data = exact or {}
         self.strict: list[Row] = []
         self.affine: list[Row] = []
         self.equal: list[Row] = []
+        self.exact_ineq: list[Row] = []
+        self.exact_eq: list[Row] = []
         for c in problem.constraints:
             self._add(c, c.label in strict_labels)
         for arg in _open_domain_arguments(problem):
@@ -114,8 +146,25 @@ class _Rows:
             self.strict.append(self._eig(fn, largest=True))
         elif con.kind == "eq":
             self.equal.append(self._entries(fn))
+            self.exact_eq.append(self._exact(fn))
+        elif strict:
+            self.strict.append(self._entries(fn))
         else:
-            (self.strict if strict else self.affine).append(self._entries(fn))
+            self.affine.append(self._entries(fn))
+            self.exact_ineq.append(self._exact(fn))
+
+    def _exact(self, fn: E.Expr) -> Row:
+        from dualize.analysis.exact import exact_2d
+
+        lay = self.lay
+        return lambda z: exact_2d(fn, {**self.exact_data, **lay.unpack(z)}, lay.dims).reshape(-1)
+
+    def confirm(self, z: np.ndarray) -> np.ndarray | None:
+        """An exact point (as floats for display) meeting every affine row, or None."""
+        from dualize.analysis.exact_point import exact_affine_point
+
+        point = exact_affine_point(self.exact_ineq, self.exact_eq, z)
+        return None if point is None else np.array([float(v) for v in point], dtype=float)
 
     def _entries(self, fn: E.Expr) -> Row:
         from dualize.numeric.evaluate import evaluate_2d
@@ -170,9 +219,11 @@ def _bounds(problem: Problem, lay: Layout, rows: _Rows) -> list[tuple[float | No
         lo = hi = None
         if kind in ("nonneg",):
             lo = 0.0
+            rows.exact_ineq.append(_negated_slice(at, k))
         if kind == "box":
             lo = float(evaluate(v.domain.lo, lay.values, lay.dims))
             hi = float(evaluate(v.domain.hi, lay.values, lay.dims))
+            rows.exact_ineq.extend(_box_rows(rows, v.domain, at, k))
         if kind == "pos":
             rows.strict.append(_negated_slice(at, k))
             rows.start[at:at + k] = 1.0
@@ -204,6 +255,16 @@ def _open_domain_arguments(problem: Problem) -> list[E.Expr]:
     return list(found)
 
 
+def _box_rows(rows: _Rows, domain: Any, at: int, k: int) -> list[Row]:
+    """lo - z <= 0 and z - hi <= 0 on the entries of one boxed variable, exactly."""
+    from dualize.analysis.exact import exact_2d
+
+    def bound(expr: E.Expr) -> Any:
+        return exact_2d(expr, rows.exact_data, rows.lay.dims).reshape(-1)
+
+    return [lambda z: bound(domain.lo) - z[at:at + k], lambda z: z[at:at + k] - bound(domain.hi)]
+
+
 def _negated_slice(at: int, k: int) -> Row:
     return lambda z: -z[at:at + k]
 
@@ -218,5 +279,31 @@ def _matrix_domain(rows: _Rows, at: int, n: int, kind: str) -> None:
         return np.array([-np.linalg.eigvalsh((mat + mat.T) / 2)[0]])
 
     rows.equal.append(sym)
+    rows.exact_eq.append(sym)
     if kind in ("psd", "pd"):
         rows.strict.append(neg_min_eig)
+
+
+def feasible_exactly(problem: Problem, instance: Any, point: Mapping[str, Any]) -> bool | None:
+    """Whether a solver's primal point (by name) can be made to meet every affine
+    constraint and domain bound exactly on the instance's values: True when an exact
+    point was found near it, False when none was, None when sizes are unknown or it
+    is too large to check."""
+    from dualize.analysis.convexity import analyse_convexity
+    from dualize.analysis.exact import MAX_ENTRIES
+
+    try:
+        lay = layout_for(problem, instance)
+    except SizeUnknown:
+        return None
+    conv = analyse_convexity(problem)
+    affine = {"affine-inequality", "affine-equality"}
+    nonaffine = {p.label for p in conv.constraints if p.kind not in affine}
+    rows = _Rows(problem, lay, nonaffine, _exact_data(problem, lay, instance))
+    try:
+        z = np.concatenate([np.asarray(point[n], dtype=float).reshape(-1) for n in lay.names])
+    except (KeyError, ValueError):
+        return None
+    if z.size != lay.size or z.size > MAX_ENTRIES or not np.all(np.isfinite(z)):
+        return None
+    return rows.confirm(z) is not None

@@ -57,13 +57,17 @@ def _sides(c: Constraint) -> tuple[E.Expr, E.Expr] | None:
 
 
 def _split_equalities(problem: Problem) -> list[Diagnostic]:
+    """Pairs a <= b and b <= a, found by hashing the sides (linear in the constraints)."""
     out = []
-    ineqs = [(c, _sides(c)) for c in problem.constraints if c.kind == "ineq"]
-    for i, (a, sa) in enumerate(ineqs):
-        for b, sb in ineqs[i + 1:]:
-            if sa is not None and sb is not None and sa == (sb[1], sb[0]):
-                out.append(make(R.SPLIT_EQUALITY, problem.path, b.span, first=a.label,
-                                second=b.label, hint="write one constraint with =="))
+    earlier: dict[tuple[E.Expr, E.Expr], list[Constraint]] = {}
+    for b in problem.constraints:
+        sb = _sides(b)
+        if sb is None:
+            continue
+        for a in earlier.get((sb[1], sb[0]), []):
+            out.append(make(R.SPLIT_EQUALITY, problem.path, b.span, first=a.label,
+                            second=b.label, hint="write one constraint with =="))
+        earlier.setdefault(sb, []).append(b)
     return out
 
 

@@ -10,14 +10,11 @@ file and an interrupted run leaves the old file intact.
 from __future__ import annotations
 
 import json
-import os
-import tempfile
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
-from dualize.errors import DualizeError
 from dualize.numeric.instance import Instance
 
 
@@ -42,19 +39,7 @@ def default_path(claim_path: str) -> str:
 
 def save(instance: Instance, target: str) -> str:
     """Write ``instance`` to ``target`` atomically; returns the path written."""
-    folder = Path(target).parent
-    text = json.dumps(instance_data(instance), indent=2) + "\n"
-    try:
-        fd, temp = tempfile.mkstemp(prefix=".counterexample-", suffix=".json",
-                                    dir=str(folder))
-    except OSError as err:
-        raise DualizeError(f"cannot write a counterexample in {folder}: "
-                           f"{err.strerror or err}", exit_code=2) from None
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as handle:
-            handle.write(text)
-        os.replace(temp, target)
-    except OSError as err:
-        Path(temp).unlink(missing_ok=True)
-        raise DualizeError(f"cannot write {target}: {err.strerror or err}", exit_code=2) from None
+    from dualize.outfile import write_output
+
+    write_output(target, json.dumps(instance_data(instance), indent=2) + "\n")
     return target

@@ -10,7 +10,7 @@ translated with the same reference translation as the derived dual
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 from dualize.duality import build as b
 from dualize.duality.result import Derivation, DualConstraint, DualProblem, DualVariable
@@ -36,6 +36,8 @@ class Values:
     claim_value: float
     claim_status: str
     note: str = ""
+    claim_point: dict = field(default_factory=dict, compare=False, repr=False)
+    """The claim's solution point by variable name (empty when the solve gave none)."""
 
 
 def claim_as_dual(claim: Problem) -> DualProblem:
@@ -70,18 +72,18 @@ def solve_three(derivation: Derivation, claim: DualProblem, instance: Instance,
     mine = _solve_claim(claim, instance)
     note = "; ".join(filter(None, (primal.note, dual.note, mine[2])))
     return Values(instance.source, seed, primal.value, primal.status, dual.value, dual.status,
-                  mine[0], mine[1], note)
+                  mine[0], mine[1], note, mine[3])
 
 
-def _solve_claim(claim: DualProblem, instance: Instance) -> tuple[float, str, str]:
+def _solve_claim(claim: DualProblem, instance: Instance) -> tuple[float, str, str, dict]:
     from dualize.numeric.reference import solve_dual
 
     try:
         sol = solve_dual(claim, instance)
     except (ValueError, TypeError, ArithmeticError, KeyError) as err:
-        return math.nan, "unsupported", f"the claim could not be posed: {err}"
+        return math.nan, "unsupported", f"the claim could not be posed: {err}", {}
     note = f"claim: {sol.note}" if sol.note else ""
-    return sol.value, sol.status, note
+    return sol.value, sol.status, note, dict(sol.x)
 
 
 def usable(value: float, status: str) -> bool:

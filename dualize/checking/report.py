@@ -9,19 +9,21 @@ from typing import Any
 from dualize.checking.claims import Claim, ClaimError, load_claim
 from dualize.checking.matching import Matching, match_variables
 from dualize.checking.numeric import Values, claim_as_dual, solve_three, usable
+from dualize.checking.ray import Ray, approach
 from dualize.checking.symbolic import SymbolicResult, compare_symbolically
 from dualize.checking.verdict import (
     EQUIVALENT,
     INFEASIBLE,
     INVALID,
     NOT_TIGHT,
+    TIGHT_NOT_ATTAINED,
     Reading,
     decide,
     largest_gap,
     read,
     witness,
 )
-from dualize.duality.result import Derivation
+from dualize.duality.result import Derivation, DualProblem
 from dualize.model.problem import Problem
 from dualize.numeric.instance import Instance
 
@@ -56,7 +58,8 @@ class ClaimReport:
 
     @property
     def ok(self) -> bool:
-        return self.verdict == "equivalent"
+        """The claim's optimal value is the primal optimum (attained or not)."""
+        return self.verdict in (EQUIVALENT, TIGHT_NOT_ATTAINED)
 
 
 def check_claim(problem: Problem | Derivation, claim: str | Problem | Claim,
@@ -86,7 +89,7 @@ def check_claim(problem: Problem | Derivation, claim: str | Problem | Claim,
     steps = progress(pairs) if progress is not None else pairs
     values = [solve_three(derivation, posed, inst, seed) for inst, seed in steps]
     return _report(loaded, matching, symbolic, values, [inst for inst, _ in pairs],
-                   derivation.problem.sense, counterexample_path)
+                   derivation.problem.sense, counterexample_path, posed)
 
 
 def _as_claim(primal: Problem, claim: str | Problem | Claim, path: str) -> Claim:
@@ -115,11 +118,17 @@ def instance_list(derivation: Derivation, given: Sequence[Instance], seeds: Sequ
 
 
 def _report(claim: Claim, matching: Matching, symbolic: SymbolicResult, values: list[Values],
-            instances: list[Instance], sense: str, target: str | None) -> ClaimReport:
+            instances: list[Instance], sense: str, target: str | None,
+            posed: DualProblem) -> ClaimReport:
     from dualize.checking.counterexample import save
 
     readings = [read(v, sense) for v in values]
     verdict, method = decide(readings, symbolic.proved)
+    rays: list[Ray] = []
+    if verdict == NOT_TIGHT:
+        rays = _rays(posed, readings, values, instances)
+        if rays:
+            verdict = TIGHT_NOT_ATTAINED
     index = witness(readings, verdict)
     found = instances[index] if index is not None else None
     written = save(found, target) if found is not None and target else None
@@ -127,12 +136,28 @@ def _report(claim: Claim, matching: Matching, symbolic: SymbolicResult, values: 
                  for v, r in zip(values, readings, strict=True))
     return ClaimReport(verdict, method, rows, largest_gap(readings), matching, symbolic,
                        sense, found, written, claim.borrowed,
-                       _messages(verdict, symbolic, readings, values))
+                       _messages(verdict, symbolic, readings, values, rays))
+
+
+def _rays(posed: DualProblem, readings: list[Reading], values: list[Values],
+          instances: list[Instance]) -> list[Ray]:
+    """A ray for every instance where the claim fell short, or none at all."""
+    out = []
+    for reading, value, instance in zip(readings, values, instances, strict=True):
+        if not reading.below:
+            continue
+        ray = approach(posed, value.claim_point, instance, value.primal_value)
+        if ray is None:
+            return []
+        out.append(ray)
+    return out
 
 
 def _messages(verdict: str, symbolic: SymbolicResult, readings: list[Reading],
-              values: list[Values]) -> tuple[str, ...]:
+              values: list[Values], rays: Sequence[Ray] = ()) -> tuple[str, ...]:
     """Sentences that say why the verdict is what it is, with the numbers behind it."""
+    if verdict == TIGHT_NOT_ATTAINED:
+        return (_unattained_sentence(rays[0]), *_cautions(symbolic, readings, values, verdict))
     pairs = list(zip(readings, values, strict=True))
     if verdict == EQUIVALENT:
         first = _equivalent_sentence(symbolic, len(values))
@@ -165,6 +190,12 @@ def _loose_sentence(pairs: Pairs) -> str:
 
 _HEADLINES = {INVALID: _invalid_sentence, INFEASIBLE: _broken_sentence,
               NOT_TIGHT: _loose_sentence}
+
+
+def _unattained_sentence(ray: Ray) -> str:
+    return ("the solver's value falls short of the primal optimum, but the claim rises to it "
+            "along a ray and never passes it: its supremum equals the optimum and is not "
+            "attained by any multiplier (ray: " + ray.describe() + ")")
 
 
 def _undecided_sentence(values: list[Values]) -> str:

@@ -5,7 +5,8 @@ as constraints (a derived ``y`` in R^m_+ is ``y >= 0``; a claim variable
 declared in ``R^m_+`` is too, and a box ``[lo, hi]^m`` is two inequalities),
 so a claim that writes ``alpha >= 0`` where the derivation gave a nonnegative
 multiplier matches.  A proof needs every variable paired, the objectives equal
-by the rules of linear algebra (``same_expression``) and each constraint of one
+by the rules of linear algebra (``same_expression``) or as rational functions put
+over one denominator (``rational.same_rational_form``), and each constraint of one
 side matched by one of the other up to a positive factor (``same_constraint``).
 No proof is not a disproof: the numeric half then decides.
 
@@ -22,6 +23,7 @@ from dataclasses import dataclass
 
 from dualize.checking.canonical import canonical
 from dualize.checking.matching import Matching, renamed
+from dualize.checking.rational import same_rational_form
 from dualize.duality import build as b
 from dualize.duality.result import DualProblem
 from dualize.model.expr import Expr, Symbol
@@ -114,7 +116,8 @@ def _attempt(claim: Problem, dual: DualProblem, matching: Matching,
 
     reasons = []
     objective = canonical(renamed(claim.objective, claim, matching, flips))
-    if not same_expression(canonical(dual.objective), objective):
+    derived = canonical(dual.objective)
+    if not same_expression(derived, objective) and not same_rational_form(derived, objective):
         reasons.append("the objectives were not proved equal")
     mine = [_rename(t, claim, matching, flips) for t in claim_constraints(claim)]
     theirs = [_canonical(t) for t in derived_constraints(dual)]

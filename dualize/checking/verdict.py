@@ -23,11 +23,12 @@ from dualize.numeric.verify import tolerance
 
 EQUIVALENT = "equivalent"
 NOT_TIGHT = "valid bound, not tight"
+TIGHT_NOT_ATTAINED = "tight, not attained"
 INVALID = "invalid: exceeds the primal optimum"
 INFEASIBLE = "claim infeasible or unbounded where the true dual is not"
 UNDECIDED = "undecided"
 EXACT = ("optimal", "inaccurate")
-VERDICTS = (EQUIVALENT, NOT_TIGHT, INVALID, INFEASIBLE, UNDECIDED)
+VERDICTS = (EQUIVALENT, TIGHT_NOT_ATTAINED, NOT_TIGHT, INVALID, INFEASIBLE, UNDECIDED)
 
 
 @dataclass(frozen=True)

@@ -1,8 +1,8 @@
 """``dualize check``: a dual written by hand against the derived one.
 
-Exit codes: 0 only for the verdict "equivalent"; 1 for every other verdict
-(not tight, invalid, infeasible or unbounded, undecided); 2 for bad input
-(an unreadable problem, claim, instance or option).
+Exit codes: 0 for the verdicts "equivalent" and "tight, not attained"; 1 for every
+other verdict (not tight, invalid, infeasible or unbounded, undecided); 2 for bad
+input (an unreadable problem, claim, instance or option).
 """
 
 from __future__ import annotations
@@ -12,7 +12,14 @@ from typing import Any
 
 import click
 
-from dualize.commands.common import dims_option, emit, load_problem, progress, user_errors
+from dualize.commands.common import (
+    dims_option,
+    emit,
+    load_problem,
+    progress,
+    time_limit_option,
+    user_errors,
+)
 from dualize.errors import DualizeError
 
 DEFAULT_RANDOM = 3
@@ -37,8 +44,10 @@ DEFAULT_RANDOM = 3
               "[default: <claim>.counterexample.json].")
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
               show_default=True, help="How to print the report.")
+@time_limit_option
 def check_command(file: str, claim_path: str, name_map: str, data: str | None, count: int,
-                  seed: int, dims: str, save_path: str | None, fmt: str) -> None:
+                  seed: int, dims: str, save_path: str | None, fmt: str,
+                  time_limit: float) -> None:
     """Check the dual claimed in CLAIM against the dual of FILE.
 
     The claim may omit the data declarations of FILE.  It is compared
@@ -46,15 +55,18 @@ def check_command(file: str, claim_path: str, name_map: str, data: str | None, c
     "equivalent", 1 for any other verdict, 2 for bad input.
     """
     with user_errors():
-        report = _run(file, claim_path, data, count, seed, dims, save_path, name_map)
+        report = _run(file, claim_path, data, count, seed, dims, save_path, name_map,
+                      time_limit)
         emit(_render(report, fmt))
     sys.exit(0 if report.ok else 1)
 
 
 def _run(file: str, claim_path: str, data: str | None, count: int, seed: int, dims: str,
-         save_path: str | None, name_map: str = "") -> Any:
+         save_path: str | None, name_map: str = "", time_limit: float | None = None) -> Any:
     from dualize.checking import check_claim
     from dualize.checking.counterexample import default_path
+    from dualize.deadline import Deadline
+    from dualize.duality.engine import derive
     from dualize.numeric.instance import read_instance
 
     problem = load_problem(file)
@@ -63,7 +75,8 @@ def _run(file: str, claim_path: str, data: str | None, count: int, seed: int, di
     instances = [read_instance(data, problem)] if data is not None else []
     if not instances and count == 0:
         raise DualizeError("nothing to check on: give --data or --random N with N >= 1", 2)
-    return check_claim(problem, text, instances, [seed + k for k in range(count)], sizes,
+    derivation = derive(problem, Deadline(time_limit))
+    return check_claim(derivation, text, instances, [seed + k for k in range(count)], sizes,
                        claim_path, save_path or default_path(claim_path.partition("#")[0]),
                        progress=lambda items: progress(items, "checking"))
 

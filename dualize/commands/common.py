@@ -19,6 +19,22 @@ if TYPE_CHECKING:
     from dualize.model.problem import Problem
 
 EXIT_BAD_INPUT = 2
+DEFAULT_TIME_LIMIT = 60.0
+
+
+def time_limit_option(command: Callable[..., Any]) -> Callable[..., Any]:
+    """``--time-limit SECONDS``: one budget for every step of the run (docs/index.md)."""
+    return click.option(
+        "--time-limit", "time_limit", type=click.FloatRange(min=0, min_open=True),
+        default=DEFAULT_TIME_LIMIT, show_default=True, metavar="SECONDS",
+        help="Stop deriving after this many seconds: what is not done by then is kept "
+        "unevaluated and the output says which step was cut.")(command)
+
+
+def deadline_of(seconds: float) -> Any:
+    from dualize.deadline import Deadline
+
+    return Deadline(seconds)
 
 
 @contextmanager

@@ -14,11 +14,13 @@ from typing import TYPE_CHECKING, Any
 import click
 
 from dualize.commands.common import (
+    deadline_of,
     dims_option,
     each,
     emit,
     load_problem,
     sibling_instance,
+    time_limit_option,
     user_errors,
 )
 from dualize.errors import DualizeError
@@ -43,8 +45,9 @@ DEFAULT_RANDOM = 3
               help="Sizes for random instances (others are drawn).")
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
               show_default=True, help="How to print the report.")
+@time_limit_option
 def verify_command(file: str, data: str | None, count: int | None, seed: int, dims: str,
-                   fmt: str) -> None:
+                   fmt: str, time_limit: float) -> None:
     """Derive the dual of FILE and compare both optima on instances.
 
     Without --data or --random, the instance beside FILE (same name, .json or
@@ -59,7 +62,7 @@ def verify_command(file: str, data: str | None, count: int | None, seed: int, di
         sizes = dims_option(dims)
         from dualize.duality.engine import derive
 
-        derivation = derive(problem)
+        derivation = derive(problem, deadline_of(time_limit))
         report = run_verify(derivation, _jobs(derivation, file, data, count, seed), sizes)
         emit(_render(report, derivation, fmt))
     sys.exit(0 if report.verdict in ("zero-gap", CONSISTENT) else 1)

@@ -65,6 +65,8 @@ class Infimum:
     constraints: tuple[tuple[Expr, str, Expr], ...]
     minimizer: Expr | None
     statement: str
+    formulas: tuple[tuple[str, object], ...] = ()
+    """The formulas the statement marks as ``$key$`` (see ``result.Step``)."""
 
 
 def recognise(term: Term, variables: frozenset[str]) -> Atom | None:
@@ -153,6 +155,11 @@ def _summed(e: Expr) -> Expr | None:
             return second
         if isinstance(second, Ones) and isinstance(first, Transpose):
             return first.arg
+    if isinstance(e, MatMul) and len(e.factors) == 3:  # 1' E 1: every entry of a matrix
+        first, middle, last = e.factors
+        if isinstance(first, Transpose) and isinstance(first.arg, Ones) and isinstance(
+                last, Ones):
+            return middle
     return None
 
 
@@ -188,7 +195,9 @@ def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> Atom | None:
     return Atom(coef, "separable", var, body=inner)
 
 
-PLACE = Symbol("u", "auxiliary", b.SCALAR)
+PLACE = Symbol("⟨u⟩", "auxiliary", b.SCALAR)
+"""The argument of an elementwise function while it is split off; no name of the
+language can be spelled this way, so it never captures a variable of the problem."""
 
 
 def _separable_of_affine(coef: Expr, inner: Expr, variables: frozenset[str]) -> Atom | None:
@@ -265,13 +274,10 @@ def infimum(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
 
 def _norm(atom: Atom, s: Expr, u: Expr) -> Infimum:
     q = DUAL_NORM[atom.p]
-    return Infimum(
-        b.num(0),
-        ((_norm_of(s, q) if not s.shape.is_scalar else Apply(ABS.name, s), "<=", atom.coef),),
-        None,
-        f"the infimum of c||u|| - s'u is 0 when the dual norm ||s||_{q} <= c, "
-        "and minus infinity otherwise",
-    )
+    bound = ((_norm_of(s, q) if not s.shape.is_scalar else Apply(ABS.name, s), "<=", atom.coef),)
+    return _stated(atom, s, u, b.num(0), bound, None,
+                   "the infimum of $#term$ is 0 where {conditions} (a bound on the dual norm) "
+                   "and minus infinity elsewhere")
 
 
 def _square(atom: Atom, s: Expr, u: Expr) -> Infimum:
@@ -279,33 +285,48 @@ def _square(atom: Atom, s: Expr, u: Expr) -> Infimum:
     value = b.scale(b.scale(b.num(-1), b.power(b.scale(b.num(4), c), sympy.Integer(-1))),
                     b.inner(s, s))
     minimizer = b.scale(b.power(b.scale(b.num(2), c), sympy.Integer(-1)), s)
-    return Infimum(value, (), minimizer,
-                   "c||u||^2 - s'u is minimized at u = s/(2c), with value -||s||^2/(4c)")
+    return _stated(atom, s, u, value, (), minimizer,
+                   "$#term$ is least at $#at$, where the gradient vanishes")
 
 
 def _hinge(atom: Atom, s: Expr, u: Expr) -> Infimum:
     zero = b.zeros(s.shape)
-    if atom.weight is not None:
-        c = b.scale(atom.coef, atom.weight)
-        return Infimum(b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
-                       "sum(c w .* max(u, 0)) - s'u is bounded below exactly when "
-                       "0 <= s <= c w, with infimum 0")
-    c = b.broadcast(atom.coef, s.shape)
-    return Infimum(b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
-                   "c max(u, 0) - s u is bounded below exactly when 0 <= s <= c, with infimum 0")
+    weight = atom.coef if atom.weight is None else b.scale(atom.coef, atom.weight)
+    c = b.broadcast(weight, s.shape) if atom.weight is None else weight
+    return _stated(atom, s, u, b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
+                   "$#term$ is bounded below exactly when {conditions}, with infimum 0")
 
 
 def _abs(atom: Atom, s: Expr, u: Expr) -> Infimum:
     if atom.weight is not None:
         unsigned = s.arg if isinstance(s, Scale) and isinstance(s.factor, Number) and \
             s.factor.value == -1 else s  # |-s| = |s|
-        bound = b.scale(atom.coef, atom.weight)
-        return Infimum(b.num(0), ((Apply(ABS.name, unsigned), "<=", bound),),
-                       None, "sum(c w .* |u|) - s'u is bounded below exactly when "
-                       "|s| <= c w entry by entry, with infimum 0")
+        bound = ((Apply(ABS.name, unsigned), "<=", b.scale(atom.coef, atom.weight)),)
+        return _stated(atom, s, u, b.num(0), bound, None, "$#term$ is bounded below exactly "
+                       "when {conditions} entry by entry, with infimum 0")
     lhs = Apply(ABS.name, s) if s.shape.is_scalar else _norm_of(s, "inf")
-    return Infimum(b.num(0), ((lhs, "<=", atom.coef),), None,
-                   "c|u| - s u is bounded below exactly when |s| <= c, with infimum 0")
+    return _stated(atom, s, u, b.num(0), ((lhs, "<=", atom.coef),), None,
+                   "$#term$ is bounded below exactly when {conditions}, with infimum 0")
+
+
+def _stated(atom: Atom, s: Expr, u: Expr, value: Expr,
+            constraints: tuple[tuple[Expr, str, Expr], ...], minimizer: Expr | None,
+            sentence: str) -> Infimum:
+    """An infimum with its sentence in the problem's own symbols: ``$#term$`` is the term
+    minimized, ``{conditions}`` the conditions for a finite infimum, ``$#at$`` the minimizer."""
+    from dataclasses import replace
+
+    from dualize.duality.result import Equation
+
+    term = b.sub(atom_expression(replace(atom, arg=u)), b.inner(s, u))
+    formulas: list[tuple[str, object]] = [("#term", term)]
+    for index, (lhs, rel, rhs) in enumerate(constraints):
+        formulas.append((f"#c{index}", Equation(lhs, rel, rhs)))  # type: ignore[arg-type]
+    if minimizer is not None:
+        formulas.append(("#at", Equation(u, "=", minimizer)))
+    conditions = " and ".join(f"$#c{i}$" for i in range(len(constraints)))
+    return Infimum(value, constraints, minimizer, sentence.replace("{conditions}", conditions),
+                   tuple(formulas))
 
 
 def _logsumexp(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
@@ -314,12 +335,9 @@ def _logsumexp(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
         return None
     ratio = b.scale(b.power(c, sympy.Integer(-1)), s)
     entropy = b.sum_all(b.hadamard(s, b.apply(LOG.name, ratio)))
-    return Infimum(
-        b.neg(entropy),
-        ((s, ">=", b.zeros(s.shape)), (b.sum_all(s), "=", c)),
-        None,
-        "the conjugate of log-sum-exp is the negative entropy on the simplex",
-    )
+    simplex = ((s, ">=", b.zeros(s.shape)), (b.sum_all(s), "=", c))
+    return _stated(atom, s, u, b.neg(entropy), simplex, None, "the conjugate of log-sum-exp "
+                   "is the negative entropy on the simplex {conditions}")
 
 
 _INFIMUM = {

@@ -40,6 +40,9 @@ class Outcome:
     unbounded: bool = False
     inner: bool = False
     gradient: Expr | None = None
+    smooth: bool = False
+    """True when the block's Lagrangian is differentiable where it is finite: its
+    stationarity condition is a vanishing gradient, not a subdifferential inclusion."""
 
 
 def zero_constraint(e: Expr, relation: str, reason: str) -> DualConstraint:
@@ -60,7 +63,7 @@ def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> O
     """
     r = r if r is not None else b.num(0)
     if g is None:
-        text = f"The Lagrangian does not depend on {x.name}."
+        text = f"The Lagrangian does not depend on ${x.name}$."
         return Outcome(r, recovery=Recovery(x.name, None, _undetermined(x)),
                        steps=[Step("minimize-affine", text, block=x.name)])
     g = tidy(g)
@@ -68,40 +71,44 @@ def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> O
     if kind in ("free", "integer"):
         return _affine_condition(x, g, r, "=", "its coefficient vanishes")
     if kind in ("nonneg", "pos"):
-        return _affine_condition(x, g, r, ">=", "its coefficient is nonnegative (x ranges "
-                                 "over the nonnegative orthant)")
+        return _affine_condition(x, g, r, ">=", f"its coefficient is nonnegative (${x.name}$ "
+                                 "ranges over the nonnegative orthant)")
     if kind == "box":
         lo, hi = domain.lo, domain.hi
         assert lo is not None and hi is not None
         term = b.minimum(b.scale(lo, g), b.scale(hi, g))
         value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        text = (f"Over the box [{_txt(lo)}, {_txt(hi)}] the infimum of a linear function is "
-                "attained at a corner, entry by entry.")
+        text = ("Over the box from $#lo$ to $#hi$ the infimum of the linear term $#term$ is "
+                "attained at a corner, entry by entry: the block contributes $#value$.")
+        said = _said(lo=lo, hi=hi, term=b.inner(g, x), value=tidy(value))
         return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
                        "where its coefficient is positive and at its upper bound where it is "
-                       "negative"), steps=[Step("minimize-affine-box", text, block=x.name)])
+                       "negative"), steps=[Step("minimize-affine-box", text, block=x.name,
+                                                formulas=said)])
     if kind == "binary":
         term = b.minimum(g, b.zeros(g.shape))
         value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        return Outcome(value, steps=[Step("minimize-affine-binary", "Over {0,1} the infimum of "
-                       "g x is min(g, 0), entry by entry.", block=x.name)],
+        text = ("Over binary values the infimum of the linear term $#term$ is attained entry by "
+                "entry at 0 or 1: the block contributes $#value$.")
+        said = _said(term=b.inner(g, x), value=tidy(value))
+        return Outcome(value, steps=[Step("minimize-affine-binary", text, block=x.name,
+                                          formulas=said)],
                        recovery=Recovery(x.name, None, "x_i = 1 where its coefficient is negative"))
     return None
 
 
-def _txt(e: Expr) -> str:
-    from dualize.model.expr import Number
-
-    return str(e.value) if isinstance(e, Number) else getattr(e, "name", "?")
+def _said(**formulas: object) -> tuple[tuple[str, object], ...]:
+    """The formulas a step's sentence marks as ``$#key$``, in the order given."""
+    return tuple((f"#{key}", value) for key, value in formulas.items())
 
 
 def _affine_condition(x: Symbol, g: Expr, r: Expr, rel: str, why: str) -> Outcome:
-    text = (f"The Lagrangian is affine in {x.name}; it is bounded below only where "
-            f"{why}, and then its infimum is the constant part.")
+    text = (f"The Lagrangian is affine in ${x.name}$; it is bounded below only where "
+            f"{why}, and then its infimum is the constant part, $#value$.")
     c = zero_constraint(g, rel, f"the Lagrangian is affine in {x.name}: {why}")
     shown = (Equation(_grad_head(x), "=", tidy(g)),
              Equation(tidy(g), rel, b.zeros(g.shape)))  # type: ignore[arg-type]
-    step = Step("minimize-affine", text, shown, block=x.name)
+    step = Step("minimize-affine", text, shown, block=x.name, formulas=_said(value=tidy(r)))
     return Outcome(r, [c], Recovery(x.name, None, _undetermined(x)), [step], gradient=g)
 
 
@@ -110,8 +117,8 @@ def _grad_head(x: Symbol) -> Head:
 
 
 def _undetermined(x: Symbol) -> str:
-    return (f"{x.name} enters the Lagrangian linearly, so minimizing it does not determine "
-            f"{x.name}; recover it from the KKT conditions: complementary slackness on the "
+    return (f"${x.name}$ enters the Lagrangian linearly, so minimizing it does not determine "
+            f"${x.name}$; recover it from the KKT conditions: complementary slackness on the "
             "constraints whose multipliers are strictly positive (those constraints hold with "
             "equality at the optimum)")
 
@@ -145,7 +152,7 @@ def quadratic_block(x: Symbol, domain: Domain, q: Quadratic) -> Outcome | None:
         return _definite(x, H, g, r)
     if kind == "nd" and not _has_multiplier(H):
         return Outcome(b.num(0), unbounded=True, steps=[Step(
-            "unbounded", f"The Lagrangian is a concave quadratic in {x.name} whatever the "
+            "unbounded", f"The Lagrangian is a concave quadratic in ${x.name}$ whatever the "
             "multipliers: its infimum is minus infinity, so the dual function is minus "
             "infinity everywhere.", block=x.name)])
     return _semidefinite(x, H, g, r, kind)
@@ -167,22 +174,22 @@ def _orthant(x: Symbol, H: Expr, q: Quadratic, open_set: bool) -> Outcome | None
     if q.g is None:
         return Outcome(r, recovery=Recovery(x.name, b.zeros(x.shape)), steps=[Step(
             "minimize-quadratic-orthant", f"The Lagrangian is a positive definite quadratic in "
-            f"{x.name} with no linear term: on the orthant it is least at zero.",
-            block=x.name)])
+            f"${x.name}$ with no linear term: on the orthant its gradient vanishes at zero, and "
+            "the block contributes $#value$.", block=x.name, formulas=_said(value=tidy(r)))])
     g = tidy(q.g)
     low = b.minimum(g, b.zeros(g.shape))
     form = b.power(low if g.shape.is_scalar else Norm(low, "2"), sympy.Integer(2))
     value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)), b.divide(form, h))))
     xstar = tidy(b.scale(b.power(h, sympy.Integer(-1)),
                          b.maximum(b.neg(g), b.zeros(g.shape))))
-    text = (f"The Lagrangian is a strictly convex quadratic in {x.name} with Hessian a positive "
-            f"multiple h of the identity, over the {'open ' if open_set else ''}nonnegative "
-            "orthant: entry by entry it is least at max(-g/h, 0), and the infimum is "
-            "r - ||min(g, 0)||^2/(2h).")
+    text = (f"The Lagrangian is a strictly convex quadratic in ${x.name}$ whose Hessian is "
+            f"$#h$ times the identity, over the {'open ' if open_set else ''}nonnegative "
+            "orthant: entry by entry the gradient vanishes where that point is nonnegative and "
+            "the entry sits at zero elsewhere, and the block contributes $#value$.")
     note = "where an entry is 0 the infimum is approached, not attained" if open_set else ""
     return Outcome(value, recovery=Recovery(x.name, xstar, note),
                    steps=[Step("minimize-quadratic-orthant", text, (Equation(x, "=", xstar),),
-                               block=x.name)])
+                               block=x.name, formulas=_said(h=h, value=value))])
 
 
 def _box(x: Symbol, H: Expr, q: Quadratic, domain: Domain) -> Outcome | None:
@@ -205,30 +212,33 @@ def _box(x: Symbol, H: Expr, q: Quadratic, domain: Domain) -> Outcome | None:
     half = b.scale(b.num(sympy.Rational(1, 2)), h)
     pieces = b.add(b.scale(half, b.hadamard(c, c)), b.hadamard(g, c))
     value = tidy(b.add(r, pieces if shape.is_scalar else b.sum_all(pieces)))
-    text = (f"The Lagrangian is a strictly convex quadratic in {x.name} with Hessian a positive "
-            f"multiple h of the identity, over the box [{_txt(domain.lo)}, {_txt(domain.hi)}]: "
-            "entry by entry it is least at the projection p of -g/h onto the interval, and "
-            "the infimum is r + sum(h/2 p^2 + g p).")
+    text = (f"The Lagrangian is a strictly convex quadratic in ${x.name}$ whose Hessian is "
+            "$#h$ times the identity, over the box from $#lo$ to $#hi$: entry by entry it is "
+            "least at the projection onto the interval of the point where the gradient "
+            "vanishes, and the block contributes $#value$.")
+    said = _said(h=h, lo=domain.lo, hi=domain.hi, value=value)
     return Outcome(value, recovery=Recovery(x.name, c), steps=[Step(
-        "minimize-quadratic-box", text, (Equation(x, "=", c),), block=x.name)])
+        "minimize-quadratic-box", text, (Equation(x, "=", c),), block=x.name, formulas=said)])
 
 
 def _definite(x: Symbol, H: Expr, g: Expr | None, r: Expr) -> Outcome:
     Hinv = b.inverse(H)
     if g is None:
         return Outcome(r, recovery=Recovery(x.name, b.zeros(x.shape)), steps=[Step(
-            "minimize-quadratic", f"The Lagrangian is a positive definite quadratic in {x.name} "
-            "with no linear term: minimized at zero.", block=x.name)])
+            "minimize-quadratic", f"The Lagrangian is a positive definite quadratic in ${x.name}$ "
+            "with no linear term: its gradient vanishes at zero, and the block contributes "
+            "$#value$.", block=x.name, formulas=_said(value=tidy(r)))])
     xstar = tidy(b.neg(b.mul(Hinv, g)))
     form = (b.mul_scalars(Hinv, b.power(g, sympy.Integer(2))) if g.shape.is_scalar
             else b.mul(b.transpose(g), Hinv, g))
     value = tidy(b.sub(r, b.scale(b.num(sympy.Rational(1, 2)), form)))
     grad = b.add(b.mul(H, x), g)
-    text = (f"The Lagrangian is a strictly convex quadratic in {x.name}; setting its gradient "
-            f"to zero gives the minimizer, and substituting it gives the infimum.")
+    text = (f"The Lagrangian is a strictly convex quadratic in ${x.name}$; its gradient "
+            "vanishes at the minimizer, and substituting it the block contributes $#value$.")
     eqs = (Equation(_grad_head(x), "=", tidy(grad)), Equation(x, "=", xstar))
     return Outcome(value, recovery=Recovery(x.name, xstar), steps=[Step(
-        "minimize-quadratic", text, eqs, block=x.name)], gradient=grad)  # type: ignore[arg-type]
+        "minimize-quadratic", text, eqs, block=x.name, formulas=_said(value=value))],
+        gradient=grad)  # type: ignore[arg-type]
 
 
 def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Outcome:
@@ -238,12 +248,13 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
         if not psd_known:
             constraints.append(zero_constraint(b.neg(H), "preceq" if not H.shape.is_scalar
                                                else "<=", "the quadratic must be bounded below"))
-        text = (f"The Lagrangian is a quadratic form in {x.name} with Hessian {_kind_text(kind)}; "
-                "its infimum is 0 when the Hessian is positive semidefinite and minus infinity "
-                "otherwise.")
-        return Outcome(r, constraints, Recovery(x.name, None, f"{x.name} lies in the null space "
+        text = (f"The Lagrangian is a quadratic form in ${x.name}$ with Hessian $#H$ "
+                f"{_kind_text(kind)}; its infimum is 0 when the Hessian is positive "
+                "semidefinite and minus infinity otherwise.")
+        return Outcome(r, constraints, Recovery(x.name, None, f"${x.name}$ lies in the null space "
                        "of the Hessian at the optimal multipliers"), [Step(
-                           "minimize-quadratic-semidefinite", text, block=x.name)])
+                           "minimize-quadratic-semidefinite", text, block=x.name,
+                           formulas=_said(H=H))])
     h = _identity_multiple(H)
     if h is not None and not H.shape.is_scalar:
         return _scaled_identity(x, h, g, r, psd_known)
@@ -252,13 +263,15 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
                                       Divide(b.power(g, sympy.Integer(2)), H))))
         if not psd_known:
             constraints.append(zero_constraint(b.neg(H), "<=", "the quadratic must be convex"))
-        text = (f"The Lagrangian is a quadratic in {x.name} whose curvature depends on the "
-                "multipliers; where it is positive the minimizer is -g/H and the infimum "
-                "r - g^2/(2H) (where it is zero the infimum is r if g = 0 and minus infinity "
-                "otherwise; the dual keeps the closure).")
+        text = (f"The Lagrangian is a quadratic in ${x.name}$ with curvature $#H$, which "
+                "depends on the multipliers; where it is positive the gradient vanishes at the "
+                "point below and the block contributes $#value$ (where it is zero the infimum "
+                "is finite only if the linear coefficient $#g$ vanishes; the dual keeps the "
+                "closure).")
         xstar = tidy(b.neg(b.mul_scalars(g, b.power(H, sympy.Integer(-1)))))
         return Outcome(value, constraints, Recovery(x.name, xstar), [Step(
-            "minimize-quadratic-scalar", text, (Equation(x, "=", xstar),), block=x.name)])
+            "minimize-quadratic-scalar", text, (Equation(x, "=", xstar),), block=x.name,
+            formulas=_said(H=H, value=value, g=g))], smooth=True)
     if psd_known and pseudo.data_only(H):
         value, c, var, step, rec = pseudo.range_witness(x, H, g, r)
         return Outcome(value, [c], rec, [step], [var], gradient=b.add(b.mul(H, x), g))
@@ -273,7 +286,7 @@ def _factored(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Outcome
     w = pseudo.factor_through(H, g)
     if w is None:
         return None
-    value, step, rec = pseudo.factored_value(x, H, w, r, kind)
+    value, step, rec = pseudo.factored_value(x, H, w, g, r, kind)
     return Outcome(value, recovery=rec, steps=[step], gradient=b.add(b.mul(H, x), g))
 
 
@@ -295,11 +308,14 @@ def _scaled_identity(x: Symbol, h: Expr, g: Expr, r: Expr, psd_known: bool) -> O
     constraints = [] if psd_known else [zero_constraint(b.neg(h), "<=",
                                                         "the quadratic must be convex")]
     xstar = tidy(b.neg(b.scale(b.power(h, sympy.Integer(-1)), g)))
-    text = (f"The Lagrangian is a quadratic in {x.name} with Hessian a multiple h of the "
-            "identity that depends on the multipliers; where h > 0 the minimizer is -g/h and "
-            "the infimum r - g'g/(2h) (the dual keeps the closure h >= 0).")
+    text = (f"The Lagrangian is a quadratic in ${x.name}$ whose Hessian is $#h$ times the "
+            "identity, depending on the multipliers; where $#h$ is positive the gradient vanishes "
+            "at the point below and the block contributes $#value$ (the dual keeps the "
+            "closure $#closure$).")
+    said = _said(h=h, value=value, closure=Equation(h, ">=", b.num(0)))  # type: ignore[arg-type]
     return Outcome(value, constraints, Recovery(x.name, xstar), [Step(
-        "minimize-quadratic-scaled-identity", text, (Equation(x, "=", xstar),), block=x.name)])
+        "minimize-quadratic-scaled-identity", text, (Equation(x, "=", xstar),), block=x.name,
+        formulas=said)], smooth=True)
 
 
 def _kind_text(kind: str) -> str:
@@ -313,14 +329,18 @@ def _schur(x: Symbol, H: Expr, g: Expr, r: Expr) -> Outcome:
     c = DualConstraint(lmi, "succeq", b.zeros(lmi.shape),
                        f"the infimum over {x.name} is at least t exactly when this Schur "
                        "complement is positive semidefinite")
-    text = (f"The Lagrangian is a quadratic in {x.name} whose Hessian H is not known to be "
-            "definite; its infimum is r - 1/2 g'H^+ g when H is positive semidefinite and g lies "
-            "in its range, and minus infinity otherwise. With an epigraph variable t this is "
-            "a linear matrix inequality.")
+    text = (f"The Lagrangian is a quadratic in ${x.name}$ whose Hessian $#H$ is not known to "
+            "be definite; its infimum is finite only when the Hessian is positive semidefinite "
+            "and the linear coefficient $#g$ lies in its range. Its infimum is at least the "
+            f"epigraph variable ${t.name}$ exactly when the Schur complement below is positive "
+            "semidefinite, a linear matrix inequality.")
     var = DualVariable(t, "free", f"epigraph of the infimum over {x.name}")
-    return Outcome(t, [c], Recovery(x.name, None, f"{x.name} = -H^+ g plus any null-space "
+    return Outcome(t, [c], Recovery(x.name, None, f"${x.name}$ is the pseudo-inverse solution of "
+                   "stationarity plus any null-space "
                    "direction of H at the optimal multipliers"), [Step(
-                       "minimize-quadratic-schur", text, block=x.name)], [var])
+                       "minimize-quadratic-schur", text,
+                       (Equation(lmi, "succeq", b.zeros(lmi.shape)),),  # type: ignore[arg-type]
+                       block=x.name, formulas=_said(H=H, g=g))], [var])
 
 
 def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome | None:
@@ -343,7 +363,7 @@ def matrix_block(X: Symbol, domain: Domain, lin: Affine) -> Outcome | None:
     if domain.kind in ("psd", "pd"):
         c = zero_constraint(b.neg(G), "preceq", f"the Lagrangian is linear in {X.name} over the "
                             "semidefinite cone: its coefficient must be positive semidefinite")
-        text = (f"The Lagrangian is linear in {X.name}, which ranges over the semidefinite cone; "
+        text = (f"The Lagrangian is linear in ${X.name}$, which ranges over the semidefinite cone; "
                 "it is bounded below only where its coefficient is positive semidefinite.")
         return Outcome(r, [c], Recovery(X.name, None, _undetermined(X)), [Step(
             "minimize-affine-cone", text, block=X.name)])

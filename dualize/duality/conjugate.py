@@ -63,6 +63,10 @@ def conjugate(
         raise NoClosedForm(f"the domain of {t} must be an interval, not {domain}")
     params = _parameters(phi, t, domain)
     try:
+        if isinstance(phi, sympy.Piecewise):
+            from dualize.duality.conjugate_pieces import normalized
+
+            phi = normalized(phi, t, domain)
         dom = _closure(phi, t, domain)
         derived = _derive(phi, t, dom)
         failures = (
@@ -77,8 +81,28 @@ def conjugate(
 
 
 def _derive(phi: sympy.Expr, t: sympy.Symbol, dom: sympy.Interval) -> _Derived:
+    if isinstance(phi, sympy.Piecewise):
+        return _piecewise(phi, t, dom)
     dphi = sympy.diff(phi, t)
     return _affine(phi, t, dom, dphi) if t not in dphi.free_symbols else _legendre(phi, t, dom)
+
+
+def _piecewise(phi: sympy.Piecewise, t: sympy.Symbol, dom: sympy.Interval) -> _Derived:
+    """A C^1 convex phi in pieces: the Legendre transform of its one strictly convex
+    piece on the range of that piece's derivative (``conjugate_pieces``); the affine
+    pieces only add the ends of that range."""
+    from dualize.duality.conjugate_pieces import strictly_convex_pieces
+
+    [(expr, interval)] = strictly_convex_pieces(phi, t, dom)
+    dphi = sympy.diff(expr, t)
+    r_lo = _limit(dphi, t, interval.inf, "+")
+    r_hi = _limit(dphi, t, interval.sup, "-")
+    branch = _select_branch(expr, t, interval, r_lo, r_hi)
+    value = _tidy(S * branch - expr.subs(t, branch), r_lo, r_hi, expr, t)
+    maximizer = _tidy(branch, r_lo, r_hi, expr, t)
+    lo_open = r_lo.is_infinite or (interval.left_open and interval.inf == dom.inf)
+    hi_open = r_hi.is_infinite or (interval.right_open and interval.sup == dom.sup)
+    return _Derived(value, sympy.Interval(r_lo, r_hi, bool(lo_open), bool(hi_open)), maximizer)
 
 
 def scaled_conjugate(conj: Conjugate, a: sympy.Expr) -> Conjugate:
@@ -236,6 +260,7 @@ def _solutions(dphi: sympy.Expr, t: sympy.Symbol, sign: int | None) -> list[symp
     sympy drops a root such as t = 1/(4 s^2) of -1/(2 sqrt t) = s when it cannot
     tell the sign of s, so the signed solve recovers it.
     """
+    _check_size(dphi, t)
     u = sympy.Dummy("u", positive=True)
     try:
         found = [e for e in sympy.solve(sympy.Eq(dphi, S), t) if isinstance(e, sympy.Expr)]
@@ -245,6 +270,20 @@ def _solutions(dphi: sympy.Expr, t: sympy.Symbol, sign: int | None) -> list[symp
     except (NotImplementedError, ValueError) as exc:
         raise NoClosedForm(f"cannot solve {dphi} = s for {t}") from exc
     return found
+
+
+MAX_EXPONENT = 64
+"""Largest numerator or denominator of a power of t that sympy is asked to solve with: a
+power such as t^1000000 makes it expand dense polynomials of that degree for minutes."""
+
+
+def _check_size(dphi: sympy.Expr, t: sympy.Symbol) -> None:
+    for power in dphi.atoms(sympy.Pow):
+        exponent = power.exp
+        if power.base.has(t) and exponent.is_Rational and max(
+                abs(exponent.p), exponent.q) > MAX_EXPONENT:
+            raise NoClosedForm(f"the exponent {exponent} is too large to solve phi'(t) = s "
+                               f"symbolically (at most {MAX_EXPONENT})")
 
 
 def _range_sign(lo: sympy.Expr, hi: sympy.Expr) -> int | None:

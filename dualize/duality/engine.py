@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
 from dualize.duality.atoms import Atom, atom_expression, infimum, recognise, with_argument
 from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
@@ -53,6 +54,8 @@ class Work:
     steps: list[Step] = field(default_factory=list)
     aux_blocks: list[tuple[Symbol, Atom, Symbol]] = field(default_factory=list)
     aux_args: dict[str, Expr] = field(default_factory=dict)
+    deadline: Deadline = field(default_factory=Deadline.unlimited)
+    cut: list[str] = field(default_factory=list)
 
     def fresh(self, base: str) -> str:
         name, k = base, 1
@@ -62,16 +65,20 @@ class Work:
         return name
 
 
-def derive(problem: Problem) -> Derivation:
-    """The dual of ``problem`` with its recorded steps, KKT conditions and recovery."""
+def derive(problem: Problem, deadline: Deadline | None = None) -> Derivation:
+    """The dual of ``problem`` with its recorded steps, KKT conditions and recovery.
+
+    Past ``deadline`` the blocks not yet minimized keep their infimum unevaluated and
+    the simplification of the dual is skipped; the notes say which step was cut.
+    """
     shown, L = lagrangian(problem)
     mults = multipliers(problem)
-    work = Work(problem, _names(problem))
+    work = Work(problem, _names(problem), deadline=deadline or Deadline.unlimited())
     work.steps.append(_lagrangian_step(problem, shown, mults))
     _distribute(work, expand(L))
     outcomes = _minimize_blocks(work)
     dual, recovery = _assemble(work, outcomes, mults)
-    dual, more_steps = simplify(dual, problem)
+    dual, more_steps = _simplified(work, dual)
     work.steps.extend(more_steps)
     recovery = _substituted(recovery, substitutions(more_steps))
     if problem.sense == "maximize":
@@ -83,6 +90,15 @@ def derive(problem: Problem) -> Derivation:
                       kkt, tuple(recovery), notes)
 
 
+def _simplified(work: Work, dual: DualProblem) -> tuple[DualProblem, list[Step]]:
+    """The simplification of the dual, skipped (and noted) past the deadline."""
+    if work.deadline.expired():
+        work.cut.append(str(DeadlineExceeded("simplifying the dual", work.deadline.seconds or 0))
+                        + ": the dual is shown as assembled, without simplification")
+        return dual, []
+    return simplify(dual, work.problem)
+
+
 def _names(problem: Problem) -> set[str]:
     names = {v.name for v in problem.variables} | {d.name for d in problem.data}
     names |= {c.multiplier.name for c in problem.constraints} | {str(d) for d in problem.dims}
@@ -91,7 +107,11 @@ def _names(problem: Problem) -> set[str]:
 
 def _lagrangian_step(problem: Problem, L: Expr, mults) -> Step:  # type: ignore[no-untyped-def]
     args = tuple(v.name for v in problem.variables) + tuple(m.name for m in mults)
-    if problem.sense == "minimize":
+    if not problem.constraints:
+        text = ("The problem has no constraints, so the Lagrangian is the objective itself and "
+                "the dual function is its " + ("infimum" if problem.sense == "minimize" else
+                                              "supremum") + ", a constant: the optimal value.")
+    elif problem.sense == "minimize":
         text = ("The Lagrangian adds each constraint function, weighted by its multiplier "
                 "(nonnegative for inequalities, free for equalities, positive semidefinite for "
                 "matrix inequalities), to the objective.")
@@ -143,9 +163,9 @@ def _split(work: Work, atom: Atom) -> None:
     work.aux_blocks.append((u, with_argument(atom, u), z))
     work.aux_args[u.name] = atom.arg
     work.extra.append(DualVariable(z, "free", f"auxiliary u = {u.name}"))
-    text = (f"Introduce {u.name} = (the argument of a {atom.kind} term) with a free multiplier "
-            f"{z.name}: the problem is unchanged, and its Lagrangian is affine in the original "
-            f"variables and separable in {u.name}.")
+    text = (f"Introduce ${u.name}$ for the argument of a {_kind_name(atom)} term, with a free "
+            f"multiplier ${z.name}$: the problem is unchanged, and its Lagrangian is affine in "
+            f"the original variables and separable in ${u.name}$.")
     work.steps.append(Step("split-affine-argument", text, (Equation(u, "=", atom.arg),)))
     _distribute(work, expand(b.inner(z, atom.arg)))
 
@@ -176,7 +196,13 @@ def _guarded_block(work: Work, v: Variable) -> Outcome:
     anticipate: a missing closed form is reported, never a guessed one."""
     marks = (len(work.aux_blocks), len(work.extra), len(work.steps), set(work.names))
     try:
+        work.deadline.check(f"minimizing the Lagrangian over {v.name}")
         return _block(work, v)
+    except DeadlineExceeded as cut:
+        del work.aux_blocks[marks[0]:], work.extra[marks[1]:], work.steps[marks[2]:]
+        work.names = marks[3]
+        work.cut.append(f"{cut}: the infimum over {v.name} is kept unevaluated")
+        return _kept(v, work.by_var.get(v.name, []), str(cut))
     except (ValueError, TypeError, KeyError, AttributeError, AssertionError,
             NotImplementedError, ZeroDivisionError, RecursionError):
         del work.aux_blocks[marks[0]:], work.extra[marks[1]:], work.steps[marks[2]:]
@@ -187,7 +213,7 @@ def _guarded_block(work: Work, v: Variable) -> Outcome:
 def _kept(v: Variable, terms: list[Term], why: str) -> Outcome:
     value = rebuild(terms, SCALAR)
     return Outcome(value, inner=True, steps=[Step(
-        "no-closed-form", f"The infimum over {v.name} is kept: {why}.", block=v.name)])
+        "no-closed-form", f"The infimum over ${v.name}$ is kept: {why}.", block=v.name)])
 
 
 def _block(work: Work, v: Variable) -> Outcome:
@@ -195,7 +221,8 @@ def _block(work: Work, v: Variable) -> Outcome:
     if not x.shape.is_scalar and not x.shape.is_vector:
         lin = trace_linear(rebuild(terms, SCALAR), x)
         if lin is None:
-            return _kept(v, terms, "the matrix variable enters other than linearly")
+            return _matrix_separable(work, v, terms) or _kept(
+                v, terms, "the matrix variable enters other than linearly")
         return matrix_block(x, v.domain, lin) or _kept(v, terms, _domain_why(v))
     atoms, polys, others = _classify(terms, x)
     if others:
@@ -226,6 +253,28 @@ def _block(work: Work, v: Variable) -> Outcome:
     return _quadratic(v, polys) or _kept_quadratic(v, polys)
 
 
+def _matrix_separable(work: Work, v: Variable, terms: list[Term]) -> Outcome | None:
+    """inf over X of c sum(phi(X)) + <G, X> + r = r - c sum(phi*(-G/c)), entry by entry.
+
+    A matrix variable that enters through one separable building block of its own
+    entries (the entropy X .* log(X) of an entropic transport plan) and linearly
+    otherwise is minimized entry by entry, exactly like a vector.
+    """
+    x = v.symbol
+    names = frozenset({x.name})
+    atoms = [(t, recognise(t, names)) for t in terms]
+    own = [a for _, a in atoms if a is not None and a.kind == "separable" and a.arg == x]
+    rest = [t for t, a in atoms if a is None or a.kind != "separable" or a.arg != x]
+    if len(own) != 1:
+        return None
+    lin = trace_linear(rebuild(rest, SCALAR), x)
+    if lin is None:
+        return None
+    s = tidy(b.neg(lin.lin)) if lin.lin is not None else b.zeros(x.shape)
+    r = lin.const if lin.const is not None else b.num(0)
+    return _conjugate_outcome(x, own[0], s, r, v.domain, work)
+
+
 def _convex_remainder(polys: list[Quadratic], x: Symbol) -> bool:
     """Whether the quadratic part left in a block after splitting is known convex.
 
@@ -248,12 +297,12 @@ def _kept_quadratic(v: Variable, polys: list[Quadratic]) -> Outcome:
              b.mul(b.transpose(q.g), x) if q.g is not None else None, q.r]
     value = tidy(b.add(*(p for p in parts if p is not None)))
     return Outcome(value, inner=True, steps=[Step(
-        "no-closed-form", f"The infimum over {v.name} is kept: {_domain_why(v)}.",
+        "no-closed-form", f"The infimum over ${v.name}$ is kept: {_domain_why(v)}.",
         block=v.name)])
 
 
 def _domain_why(v: Variable) -> str:
-    return (f"no rule minimizes this Lagrangian over the domain of {v.name} "
+    return (f"no rule minimizes this Lagrangian over the domain of ${v.name}$ "
             f"({v.domain.kind}), which is not dualized")
 
 
@@ -314,8 +363,9 @@ def _split_local(work: Work, atom: Atom, polys: list[Quadratic], x: Symbol) -> N
     work.aux_args[u.name] = atom.arg
     work.extra.append(DualVariable(z, "free", f"auxiliary u = {u.name}"))
     work.steps.append(Step("split-affine-argument", (
-        f"Introduce {u.name} = (the argument of a {_kind_name(atom)} term in {x.name}) with a "
-        f"free multiplier {z.name}: the problem is unchanged, and the Lagrangian separates."),
+        f"Introduce ${u.name}$ for the argument of a {_kind_name(atom)} term in ${x.name}$, "
+        f"with a free multiplier ${z.name}$: the problem is unchanged, and the Lagrangian "
+        "separates."),
         (Equation(u, "=", atom.arg),)))
     q = quadratic(b.inner(z, atom.arg), x)
     assert q is not None
@@ -345,23 +395,27 @@ def _aux_block(u: Symbol, atom: Atom, z: Symbol) -> Outcome:
 def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
                        work: Work | None) -> Outcome:
     if atom.kind == "separable":
-        inf = separable_infimum(atom, s, x, domain)
+        inf = separable_infimum(atom, s, x, domain,
+                                work.deadline if work is not None else Deadline.unlimited())
     else:
         inf = infimum(atom, s, x) if domain.kind == "free" else None
     if inf is None:
         kept = b.add(atom_expression(atom), b.neg(b.inner(s, x)), r)
         return Outcome(tidy(kept), inner=True, steps=[Step(
-            "no-closed-form", f"No closed form for the infimum over {x.name} of this "
+            "no-closed-form", f"No closed form for the infimum over ${x.name}$ of this "
             f"{_kind_name(atom)} term: the infimum is kept.", block=x.name)])
-    constraints = [DualConstraint(lhs, rel, rhs, inf.statement)  # type: ignore[arg-type]
+    reason = f"for the infimum over {x.name} of the {_kind_name(atom)} term to be finite"
+    constraints = [DualConstraint(lhs, rel, rhs, reason)  # type: ignore[arg-type]
                    for lhs, rel, rhs in inf.constraints]
     value = tidy(b.add(r, inf.value))
     rec = Recovery(x.name, tidy(inf.minimizer) if inf.minimizer is not None else None,
                    "" if inf.minimizer is not None else subgradient_note(x.name, atom))
-    step = Step("conjugate", f"Minimizing over {x.name}: {inf.statement}.",
+    step = Step("conjugate", f"Minimizing over ${x.name}$: {inf.statement}. The block "
+                "contributes $#value$ to the dual function.",
                 tuple(Equation(lhs, rel, rhs) for lhs, rel, rhs in inf.constraints),  # type: ignore[arg-type]
-                block=x.name)
-    return Outcome(value, constraints, rec, [step])
+                block=x.name, formulas=inf.formulas + (("#value", tidy(inf.value)),))
+    smooth = atom.kind in ("square", "logsumexp", "separable") and domain.kind == "free"
+    return Outcome(value, constraints, rec, [step], smooth=smooth)
 
 
 # -- assembling the dual ---------------------------------------------------------
@@ -466,11 +520,11 @@ def finiteness_sentence(dual: DualProblem, sense: str) -> str:
 
 
 def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:
-    notes = []
+    notes = [f"Time limit: {cut}." for cut in work.cut]
     if work.aux_blocks:
-        notes.append("Auxiliary variables were introduced (u = affine argument of a building "
-                     "block); the dual is that of this equivalent reformulation, with the same "
-                     "optimal value and the same strong-duality conditions.")
+        notes.append("Auxiliary variables were introduced, each equal to the affine argument of a "
+                     "building block; the dual is that of this equivalent reformulation, with the "
+                     "same optimal value and the same strong-duality conditions.")
     if work.problem.sense == "maximize":
         notes.append("For a maximization the dual is a minimization whose value bounds the "
                      "primal optimum from above.")

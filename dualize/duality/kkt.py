@@ -24,10 +24,13 @@ def conditions(problem: Problem, outcomes: dict[str, Outcome]) -> tuple[Conditio
         if o.gradient is not None:
             out.append(Condition("stationarity", Equation(tidy(o.gradient), "=",
                                                           b.zeros(o.gradient.shape)),
-                                 f"gradient of the Lagrangian in {name}"))
+                                 f"gradient of the Lagrangian in ${name}$"))
+        elif o.smooth and not o.inner and not o.unbounded:
+            out.append(Condition("stationarity", None,
+                                 f"the gradient of the Lagrangian in ${name}$ vanishes"))
         elif not o.inner and not o.unbounded and name != "(coupled)":
             out.append(Condition("stationarity", None,
-                                 f"0 is in the subdifferential of the Lagrangian in {name}"))
+                                 f"$0$ is in the subdifferential of the Lagrangian in ${name}$"))
     for c in problem.constraints:
         out.append(Condition("primal feasibility", Equation(c.lhs, c.relation.relation,
                                                             c.rhs), c.label))

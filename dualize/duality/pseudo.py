@@ -24,6 +24,7 @@ import sympy
 from dualize.duality import build as b
 from dualize.duality.normal import Term, equal, expand, rebuild, tidy
 from dualize.duality.result import DualConstraint, DualVariable, Equation, Head, Recovery, Step
+from dualize.duality.scalar import Scope, to_sympy
 from dualize.model.expr import Expr, Symbol, symbols_of
 
 HALF = sympy.Rational(1, 2)
@@ -33,7 +34,7 @@ def factor_through(H: Expr, g: Expr) -> Expr | None:
     """w with g = H w proved by the canonical form, when H is one product term and
     every term of g starts with H's product; None otherwise."""
     h_terms = expand(H)
-    if len(h_terms) != 1 or h_terms[0].scalars or not h_terms[0].chain:
+    if len(h_terms) != 1 or not h_terms[0].chain:
         return None
     head = h_terms[0]
     k = len(head.chain)
@@ -45,7 +46,15 @@ def factor_through(H: Expr, g: Expr) -> Expr | None:
     if not rest:
         return None
     w = rebuild(rest, g.shape)
-    return w if equal(b.mul(H, w), g) else None
+    M = rebuild([Term(head.coef, (), head.chain)], H.shape)
+    if not equal(b.mul(M, w), g):
+        return None
+    if head.scalars:  # H = h M with a positive scalar h (lam K): g = M w = H (w / h)
+        h = rebuild([Term(sympy.Integer(1), head.scalars, ())], b.SCALAR)
+        if not data_only(h) or not to_sympy(h, Scope()).is_positive:
+            return None
+        w = b.scale(b.power(h, sympy.Integer(-1)), w)
+    return w
 
 
 def data_only(e: Expr) -> bool:
@@ -53,15 +62,16 @@ def data_only(e: Expr) -> bool:
     return all(s.role == "data" for s in symbols_of(e))
 
 
-def factored_value(x: Symbol, H: Expr, w: Expr, r: Expr, kind: str) -> tuple[Expr, Step,
-                                                                          Recovery]:
+def factored_value(x: Symbol, H: Expr, w: Expr, g: Expr, r: Expr,
+                   kind: str) -> tuple[Expr, Step, Recovery]:
     """inf_x 1/2 x'Hx + (H w)'x + r = r - 1/2 w'H w at x = -w, for H psd.
 
     The gradient H x + H w vanishes at x = -w, and a convex quadratic is least
     where its gradient vanishes; every other minimizer differs by a null-space
     direction of H.
     """
-    value = tidy(b.sub(r, b.scale(b.num(HALF), b.mul(b.transpose(w), H, w))))
+    # w'H w = w'g since H w = g: the shorter product keeps scalars such as 1/lam whole
+    value = tidy(b.sub(r, b.scale(b.num(HALF), b.mul(b.transpose(g), w))))
     xstar = tidy(b.neg(w))
     why = ("positive definite" if kind == "pd" else
            "positive semidefinite (possibly singular)")
@@ -78,7 +88,12 @@ def factored_value(x: Symbol, H: Expr, w: Expr, r: Expr, kind: str) -> tuple[Exp
 
 
 def _kernel_note(x: Symbol, H: Expr, w: Expr) -> str:
-    """The kernel-expansion reading when the Hessian is one declared psd data matrix."""
+    """The kernel-expansion reading when the Hessian is a scalar times one declared psd
+    data matrix (K, or lam K)."""
+    terms = expand(H)
+    if len(terms) != 1 or len(terms[0].chain) != 1:
+        return ""
+    H = terms[0].chain[0]
     if not (isinstance(H, Symbol) and H.role == "data" and {"psd", "pd"} & H.facts):
         return ""
     return (f"the data enter only through the matrix {H.name} (a kernel or Gram matrix), so "

@@ -41,13 +41,17 @@ class Step:
     ``rule`` is a stable id (``lagrangian``, ``minimize-affine``,
     ``minimize-quadratic``, ``conjugate``, ``split-affine-argument``,
     ``eliminate-slack-multiplier``, ``maximize-free-multiplier``, ...).
-    ``text`` is a plain sentence; renderers add mathematics from ``equations``.
+    ``text`` is a sentence whose mathematics is marked: ``$x$`` is the name x and
+    ``$key$`` the formula stored under that key in ``formulas`` (an IR expression,
+    an ``Equation`` or an exact sympy scalar function), so every renderer sets it
+    as mathematics; the displayed ``equations`` follow the sentence.
     """
 
     rule: str
     text: str
     equations: tuple[Equation, ...] = ()
     block: str | None = None
+    formulas: tuple[tuple[str, object], ...] = ()
 
 
 DualSet = Literal["free", "nonneg", "nonpos", "psd", "symmetric"]

@@ -9,14 +9,11 @@ supremum of the dual unchanged.
 
 from __future__ import annotations
 
-import contextlib
 import functools
-import signal
-import threading
-from collections.abc import Iterator
 
 import sympy
 
+from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
 from dualize.duality import derivation_cache as cache
 from dualize.duality.atoms import Atom, Infimum
@@ -42,51 +39,38 @@ def _interval(domain: Domain) -> sympy.Interval | None:
     return None
 
 
-# sympy's solver can take minutes on some transcendental equations; past this budget
-# the infimum is kept (reported as such) rather than the command hanging.
-CONJUGATE_SECONDS = 20.0
-
-
-class _OutOfTime(Exception):  # noqa: N818 - private control flow
-    pass
-
-
-class _TimedOut(NoClosedForm):
-    """No conjugate within the time budget: an outcome of this machine, never cached."""
-
-
-@contextlib.contextmanager
-def _time_limit(seconds: float) -> Iterator[None]:
-    """A wall-clock limit by SIGALRM, where signals can be used (the main thread)."""
-    if threading.current_thread() is not threading.main_thread() or not hasattr(
-            signal, "setitimer"):
-        yield
-        return
-
-    def expire(signum: int, frame: object) -> None:
-        raise _OutOfTime
-
-    previous = signal.signal(signal.SIGALRM, expire)
-    signal.setitimer(signal.ITIMER_REAL, seconds)
-    try:
-        yield
-    finally:
-        signal.setitimer(signal.ITIMER_REAL, 0)
-        signal.signal(signal.SIGALRM, previous)
+# sympy's solver can take minutes on some equations: a conjugate is not started when less
+# than this is left of the run's deadline (a started solve is bounded by the size guards
+# of ``conjugate``, not interrupted: no signal timer in library code).
+MIN_SECONDS_FOR_CONJUGATE = 0.5
 
 
 @functools.lru_cache(maxsize=512)
 def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # type: ignore[no-untyped-def]
     """Conjugates are derived and checked once per function and domain."""
-    try:
-        with _time_limit(CONJUGATE_SECONDS):
-            return conjugate(phi, t, region)
-    except _OutOfTime:
-        raise _TimedOut(f"no conjugate found within {CONJUGATE_SECONDS:.0f} s") from None
+    return conjugate(phi, t, region)
+
+
+<<<<<<< HEAD
+def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
+    """Where phi is continuous; a function in pieces (Huber's) is continuous on R when
+    each piece is, which sympy's domain finder cannot tell."""
+    from sympy.calculus.util import continuous_domain
+
+    if isinstance(phi, sympy.Piecewise):
+        parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
+        return sympy.Intersection(*parts) if parts else sympy.S.Reals
+    return continuous_domain(phi, t, sympy.S.Reals)
 
 
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s."""
+=======
+def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
+                      deadline: Deadline | None = None) -> Infimum | None:
+    """-sum(phi*(s)) with the domain of phi* as constraints on s; past ``deadline`` the
+    conjugate is not attempted (``DeadlineExceeded`` names the step)."""
+>>>>>>> reliability
     interval = _interval(domain)
     if interval is None or atom.body is None:
         return None
@@ -97,6 +81,9 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
     if f is None:
         return None
     phi = to_sympy(atom.coef, Scope()) * f
+    if deadline is not None and deadline.remaining() < MIN_SECONDS_FOR_CONJUGATE:
+        raise DeadlineExceeded(f"deriving the conjugate of phi(t) = {_short(phi)}",
+                               deadline.seconds or 0.0)
     found = _conjugate_on(phi, t, interval)
     if found is None:
         return None
@@ -110,10 +97,21 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum
         return None
     total = b.sum_all(entries) if not entries.shape.is_scalar else entries
     constraints = tuple((lhs, _CLOSED.get(rel, rel), rhs) for lhs, rel, rhs in relations)
-    statement = (f"the term is separable, sum_i phi({var.name}_i) with phi(t) = {phi}; its "
-                 f"conjugate is phi*(s) = {shown} (derived by the "
-                 "Legendre transform and checked numerically)")
-    return Infimum(b.neg(total), constraints, minimizer, statement)
+    statement = ("the term $#term$ is separable, with $#phi$ entry by entry; its conjugate, "
+                 "derived by the Legendre transform and checked numerically, is $#conj$")
+    return Infimum(b.neg(total), constraints, minimizer, statement,
+                   _formulas(atom, phi, t, shown, conj.s))
+
+
+def _formulas(atom: Atom, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,
+              s: sympy.Symbol) -> tuple[tuple[str, object], ...]:
+    """The separable term, its entry function and its conjugate, for the step's sentence."""
+    from dualize.duality.atoms import atom_expression
+
+    entry, conjugate_of = sympy.Function("phi"), sympy.Function("phi^*")
+    return (("#term", atom_expression(atom)),
+            ("#phi", sympy.Eq(entry(t), phi, evaluate=False)),
+            ("#conj", sympy.Eq(conjugate_of(s), conj, evaluate=False)))
 
 
 Found = tuple[Conjugate, sympy.Expr] | None
@@ -123,23 +121,16 @@ Found = tuple[Conjugate, sympy.Expr] | None
 def _conjugate_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
     """phi* over the part of ``interval`` where phi is continuous, read from the disk
     cache when an earlier process derived and checked it (see conjugate_cache)."""
-    try:
-        return cache.memo(cache.key_of("conjugate", phi, t, interval),  # type: ignore[no-any-return]
-                          lambda: _derive_on(phi, t, interval), _to_payload, _from_payload)
-    except _TimedOut:
-        return None
+    return cache.memo(cache.key_of("conjugate", phi, t, interval),  # type: ignore[no-any-return]
+                      lambda: _derive_on(phi, t, interval), _to_payload, _from_payload)
 
 
 def _derive_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
-    from sympy.calculus.util import continuous_domain
-
-    region = continuous_domain(phi, t, sympy.S.Reals).intersect(interval)
+    region = _natural_domain(phi, t).intersect(interval)
     if not isinstance(region, sympy.Interval):
         return None
     try:
         conj = _conjugate(phi, t, region)
-    except _TimedOut:
-        raise
     except NoClosedForm:
         return None
     return conj, sympy.simplify(conj.value)
@@ -166,3 +157,8 @@ def _from_payload(payload: dict[str, object]) -> Found:
                      None if maximizer is None else d(maximizer), get("checked") is True,
                      boundary)
     return conj, d(get("shown"))
+
+
+def _short(phi: sympy.Expr) -> str:
+    text = str(phi)
+    return text if len(text) <= 60 else text[:57] + "..."

@@ -94,8 +94,8 @@ def _eliminate_slack(dual: DualProblem):  # type: ignore[no-untyped-def]
                                  f"{c.reason}; the multiplier {v.name} was eliminated",
                                  c.label)
             dual = _without(dual, v.name, i, new)
-            text = (f"The multiplier {v.name} occurs only in this equation, with its sign fixed by "
-                    f"its set: eliminating it turns the equation into an inequality.")
+            text = (f"The multiplier ${v.name}$ occurs only in this equation, with its sign fixed "
+                    "by its set: eliminating it turns the equation into an inequality.")
             return dual, Step("eliminate-slack-multiplier", text,
                               (Equation(new.lhs, relation, new.rhs),))  # type: ignore[arg-type]
     return None
@@ -137,7 +137,7 @@ def _substitute_auxiliary(dual: DualProblem):  # type: ignore[no-untyped-def]
                                       f"the multiplier {v.name} is nonnegative", c.label)
             dual = _without(dual, v.name, i, keep)
             dual = _substitute(dual, v.symbol, value)
-            text = f"The equation determines {v.name}; substituting it leaves the others."
+            text = f"The equation determines ${v.name}$; substituting it leaves the others."
             return dual, Step("substitute-multiplier", text, (Equation(v.symbol, "=", value),))
     return None
 
@@ -178,7 +178,7 @@ def _maximize_free_scalars(dual: DualProblem):  # type: ignore[no-untyped-def]
         dual = replace(dual, objective=value,
                        variables=tuple(w for w in dual.variables if w.name != v.name))
         steps.append(Step("maximize-free-multiplier", (
-            f"The dual objective is smooth and strictly concave in the free multiplier {v.name}, "
+            f"The dual objective is smooth and strictly concave in the free multiplier ${v.name}$, "
             "which occurs in no constraint: setting its derivative to zero gives it in closed "
             "form."), (Equation(v.symbol, "=", argmax),)))
     return (dual, steps) if steps else None

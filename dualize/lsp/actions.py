@@ -18,15 +18,19 @@ from dualize.lsp.state import Snapshot
 
 @dataclass(frozen=True)
 class Derived:
-    """A derivation and the analysis its report shows (verdicts, findings)."""
+    """A derivation of one document version (hovers read it; reports also analyse)."""
 
     derivation: Derivation
-    analysis: Any
+
+    def analysis(self) -> Any:
+        """The analysis a report shows (verdicts, findings), computed when one is made."""
+        from dualize.analysis import analyze
+
+        return analyze(self.derivation.problem)
 
 
 def derive_snapshot(snap: Snapshot) -> Derived:
     """Derive the dual of the snapshot's problem; a problem with errors is refused."""
-    from dualize.analysis import analyze
     from dualize.duality import derive
 
     problem = snap.loaded.problem
@@ -34,14 +38,14 @@ def derive_snapshot(snap: Snapshot) -> Derived:
     if problem is None or errors:
         raise DualizeError(f"{snap.path}: the problem has {len(errors) or 'syntax'} "
                            f"error(s); nothing was derived", exit_code=2)
-    return Derived(derive(problem), analyze(problem))
+    return Derived(derive(problem))
 
 
 def markdown(derived: Derived) -> str:
     """The derivation as Markdown (the same text as ``dualize derive --format markdown``)."""
     from dualize.api import render
 
-    return render(derived.derivation, "markdown", derived.analysis)
+    return render(derived.derivation, "markdown", derived.analysis())
 
 
 def latex_target(snap: Snapshot) -> Path:
@@ -58,7 +62,7 @@ def write_latex(snap: Snapshot, derived: Derived, standalone: bool = False) -> P
     from dualize.api import render, write_atomically
 
     target = latex_target(snap)
-    text = render(derived.derivation, "latex", derived.analysis, standalone=standalone)
+    text = render(derived.derivation, "latex", derived.analysis(), standalone=standalone)
     try:
         write_atomically(str(target), text)
     except OSError as err:

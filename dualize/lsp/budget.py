@@ -18,7 +18,7 @@ class Limits:
     lint: float = 10.0
     hover: float = 2.0
     derive: float = 60.0
-    debounce: float = 0.25
+    debounce: float = 0.15
 
     @classmethod
     def from_total(cls, seconds: float) -> Limits:

@@ -50,9 +50,35 @@ def hover_text(snap: Snapshot, offset: int, derivation: Derivation | None,
     if problem is None:
         return None
     constraint = constraint_at(problem, offset)
-    if constraint is None:
-        return None
-    return constraint_hover(constraint, derivation, pending), None
+    if constraint is not None:
+        return constraint_hover(constraint, derivation, pending), None
+    span = snap.document.objective.span  # from the sense keyword to the expression's end
+    if span.start <= offset <= span.end:
+        return objective_hover(problem, derivation, pending), None
+    return None
+
+
+def objective_hover(problem: Problem, derivation: Derivation | None,
+                    pending: str | None) -> str:
+    """The objective and the dual problem in short: what the derivation arrives at."""
+    from dualize.render.text import text_expr, text_relation
+
+    lines = [f"**objective** ({problem.sense} `{text_expr(problem.objective)}`)", ""]
+    if derivation is None:
+        return "\n".join(lines + [pending or "The dual is not available: the problem has "
+                                            "errors."])
+    dual = derivation.dual
+    names = ", ".join(v.name for v in dual.variables)
+    if dual.unbounded:
+        return "\n".join(lines + ["The dual function is unbounded: the dual gives no bound."])
+    inner = " (an infimum remains over " + ", ".join(v.name for v in dual.inner) + ")" \
+        if dual.inner else ""
+    lines += [f"dual: {dual.sense} over {names or 'no multiplier'}{inner}", "",
+              f"`{text_expr(dual.objective)}`"]
+    lines += [f"- `{text_expr(c.lhs)} {text_relation(c.relation)} {text_expr(c.rhs)}`"
+              for c in dual.constraints]
+    lines += [f"- `{v.name} ∈ {_set_text(v)}`" for v in dual.variables if v.set != "free"]
+    return "\n".join(lines)
 
 
 def _about_name(m: Mention, snap: Snapshot, problem: Problem | None,
@@ -63,7 +89,7 @@ def _about_name(m: Mention, snap: Snapshot, problem: Problem | None,
         return f"**size `{m.name}`**\n\nA dimension symbol: a positive integer, given by " \
                "the instance's data shapes."
     if problem is None:
-        return None
+        return _declared(m, snap)
     if m.kind == "label":
         found = labelled_constraint(problem, m.name)
         return constraint_hover(found, derivation, pending) if found else None
@@ -75,6 +101,19 @@ def _about_name(m: Mention, snap: Snapshot, problem: Problem | None,
         return f"**data `{data.name}`** in `{data.set_text}`\n\nA parameter: its set " \
                "states facts the analysis may use (sign, symmetry, definiteness)."
     return None
+
+
+def _declared(m: Mention, snap: Snapshot) -> str | None:
+    """While the file has errors: the declaration as written, if the name has one."""
+    doc = snap.document
+    decls = {d.name: ("data", d) for d in doc.data} if doc else {}
+    decls.update({d.name: ("variable", d) for d in doc.variables} if doc else {})
+    if m.name not in decls:
+        return None
+    what, decl = decls[m.name]
+    written = snap.text[decl.span.start:decl.span.end]
+    return f"**{what} `{m.name}`** (`{written}`, line {decl.span.line})\n\nThe rest " \
+           "is shown once the file's errors are fixed."
 
 
 def function_hover(name: str) -> str | None:

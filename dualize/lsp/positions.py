@@ -18,16 +18,22 @@ from lsprotocol import types as lsp
 from dualize.syntax.span import Span
 
 
-def units(text: str, encoding: str) -> int:
+def encoding_name(encoding: object) -> str:
+    """``utf-8``, ``utf-16`` or ``utf-32`` from the protocol's enum or its text."""
+    return str(getattr(encoding, "value", encoding) or "utf-16").lower()
+
+
+def units(text: str, encoding: object) -> int:
     """How many code units of ``encoding`` the text takes."""
-    if encoding == lsp.PositionEncodingKind.Utf8:
+    name = encoding_name(encoding)
+    if name == "utf-8":
         return len(text.encode("utf-8", errors="surrogatepass"))
-    if encoding == lsp.PositionEncodingKind.Utf32:
+    if name == "utf-32":
         return len(text)
     return sum(2 if ord(c) > 0xFFFF else 1 for c in text)
 
 
-def chars_for_units(line: str, count: int, encoding: str) -> int:
+def chars_for_units(line: str, count: int, encoding: object) -> int:
     """How many characters of ``line`` make up ``count`` code units (clamped to the line)."""
     used = 0
     for index, char in enumerate(line):
@@ -42,7 +48,7 @@ class TextMap:
     """One text's lines, for converting positions both ways."""
 
     text: str
-    encoding: str = lsp.PositionEncodingKind.Utf16
+    encoding: object = lsp.PositionEncodingKind.Utf16
 
     @cached_property
     def lines(self) -> Sequence[str]:

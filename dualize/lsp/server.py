@@ -12,7 +12,8 @@ from __future__ import annotations
 
 import asyncio
 import logging
-from typing import Any
+from collections.abc import Callable
+from typing import Any, TypeVar
 from urllib.parse import unquote
 
 from lsprotocol import types as lsp
@@ -22,11 +23,12 @@ from pygls.lsp.server import LanguageServer
 from dualize.errors import DualizeError
 from dualize.lsp import actions, convert, fixes, hover, navigate
 from dualize.lsp.budget import Limits
-from dualize.lsp.positions import TextMap
+from dualize.lsp.positions import TextMap, encoding_name
 from dualize.lsp.protocol import ProblemProtocol
 from dualize.lsp.state import Snapshot
 from dualize.lsp.tasks import Work
 
+T = TypeVar("T")
 DERIVE = "dualize.deriveDual"
 WRITE_LATEX = "dualize.writeLatex"
 
@@ -55,7 +57,7 @@ class ProblemServer(LanguageServer):
                                             "%s: %s", type(error).__name__, error)
 
     def text_map(self, snap: Snapshot) -> TextMap:
-        return TextMap(snap.text, str(self.workspace.position_encoding or "utf-16"))
+        return TextMap(snap.text, encoding_name(self.workspace.position_encoding))
 
     async def current(self, uri: str) -> Snapshot:
         """The snapshot of the open document's current text (an error if it is not open)."""
@@ -95,6 +97,11 @@ class ProblemServer(LanguageServer):
                 f"The analysis did not finish within {self.limits.lint:.0f} s; only the "
                 "syntax and name checks are shown."))
             return
+        except Exception as err:  # noqa: BLE001 - an internal error, said in one line
+            self.publish(snap, snap.front_end, convert.notice(
+                f"internal error in the analysis ({type(err).__name__}: {err}); only the "
+                "syntax and name checks are shown."))
+            return
         self.publish(done, done.findings or ())
 
     def publish(self, snap: Snapshot, found: tuple, *extra: lsp.Diagnostic) -> None:
@@ -111,6 +118,15 @@ class ProblemServer(LanguageServer):
             self.window_show_message(lsp.ShowMessageParams(
                 lsp.MessageType.Warning, f"dualize: {snap.config_error}; using the defaults"))
 
+    async def ask(self, job: Callable[..., T], *args: Any) -> T:
+        """A question about a document (symbols, definition, completion, a hover's
+        text) answered in a worker under the hover's time limit."""
+        try:
+            return await self.work.run(self.work.lint_pool, self.limits.hover, job, *args)
+        except TimeoutError as err:
+            raise RequestFailed(f"the answer took longer than {self.limits.hover:.1f} s") \
+                from err
+
     async def derived(self, snap: Snapshot, limit: float) -> actions.Derived:
         """The derivation of the snapshot, as a protocol error when it cannot be had."""
         try:
@@ -119,6 +135,9 @@ class ProblemServer(LanguageServer):
             raise RequestFailed(err.message) from err
         except TimeoutError as err:
             raise RequestFailed(f"the derivation did not finish within {limit:.0f} s") from err
+        except Exception as err:  # noqa: BLE001 - an internal error, said in one line
+            raise RequestFailed(f"internal error in the derivation: {type(err).__name__}: "
+                                f"{err}") from err
 
 
 def build(limits: Limits | None = None, version: str = "0") -> ProblemServer:
@@ -162,28 +181,30 @@ def _questions(server: ProblemServer) -> None:
     async def defined(ls: ProblemServer, params: lsp.DefinitionParams) -> lsp.Location | None:
         snap = await ls.current(params.text_document.uri)
         text = ls.text_map(snap)
-        return navigate.definition(snap, text.offset(params.position), text)
+        return await ls.ask(navigate.definition, snap, text.offset(params.position), text)
 
     @server.feature(lsp.TEXT_DOCUMENT_DOCUMENT_SYMBOL)
     async def outline(ls: ProblemServer, params: lsp.DocumentSymbolParams) -> list[Any]:
         snap = await ls.current(params.text_document.uri)
-        return navigate.symbols(snap, ls.text_map(snap))
+        return await ls.ask(navigate.symbols, snap, ls.text_map(snap))
 
     @server.feature(lsp.TEXT_DOCUMENT_COMPLETION,
                     lsp.CompletionOptions(trigger_characters=["^", "("]))
     async def complete(ls: ProblemServer, params: lsp.CompletionParams) -> lsp.CompletionList:
         snap = await ls.current(params.text_document.uri)
         offset = ls.text_map(snap).offset(params.position)
-        items = navigate.completions(snap, offset, ls.work.last_parsed.get(snap.uri))
+        items = await ls.ask(navigate.completions, snap, offset,
+                             ls.work.last_parsed.get(snap.uri))
         return lsp.CompletionList(is_incomplete=False, items=items)
 
     @server.feature(lsp.TEXT_DOCUMENT_CODE_ACTION, lsp.CodeActionOptions(
         code_action_kinds=[lsp.CodeActionKind.QuickFix, lsp.CodeActionKind.Source]))
     async def act(ls: ProblemServer, params: lsp.CodeActionParams) -> list[lsp.CodeAction]:
         snap = await ls.current(params.text_document.uri)
-        found = _quick_fixes(ls, snap, params.range) + _source_actions(snap)
+        found = await ls.ask(_quick_fixes, ls.text_map(snap), snap, params.range)
+        found += _source_actions(snap)
         only = params.context.only
-        return [a for a in found if not only or any(str(a.kind).startswith(str(k))
+        return [a for a in found if not only or any(_kind(a.kind).startswith(_kind(k))
                                                      for k in only)]
 
 
@@ -193,12 +214,12 @@ async def _hover(ls: ProblemServer, params: lsp.HoverParams) -> lsp.Hover | None
     derivation, pending = None, None
     if snap.loaded.problem is not None:
         try:
-            derivation = (await ls.work.derived(snap, ls.limits.hover)).derivation
-        except TimeoutError:
-            pending = "The dual is still being derived; hover again in a moment."
-        except DualizeError:
-            pending = None
-    found = hover.hover_text(snap, text.offset(params.position), derivation, pending)
+            derivation = (await ls.derived(snap, ls.limits.hover)).derivation
+        except RequestFailed as err:
+            pending = "The dual is still being derived; hover again in a moment." if \
+                isinstance(err.__cause__, TimeoutError) else f"No dual: {err.message}."
+    found = await ls.ask(hover.hover_text, snap, text.offset(params.position), derivation,
+                         pending)
     if found is None:
         return None
     content, mention = found
@@ -206,8 +227,7 @@ async def _hover(ls: ProblemServer, params: lsp.HoverParams) -> lsp.Hover | None
     return lsp.Hover(lsp.MarkupContent(lsp.MarkupKind.Markdown, content), where)
 
 
-def _quick_fixes(ls: ProblemServer, snap: Snapshot, wanted: lsp.Range) -> list[lsp.CodeAction]:
-    text = ls.text_map(snap)
+def _quick_fixes(text: TextMap, snap: Snapshot, wanted: lsp.Range) -> list[lsp.CodeAction]:
     out = []
     for found in snap.front_end:
         fix = fixes.fix_for(found, snap.text)
@@ -222,6 +242,11 @@ def _quick_fixes(ls: ProblemServer, snap: Snapshot, wanted: lsp.Range) -> list[l
     return out
 
 
+def _kind(kind: object) -> str:
+    """A code action kind's text (``source``, ``quickfix``), enum or plain string."""
+    return str(getattr(kind, "value", kind))
+
+
 def _overlap(a: lsp.Range, b: lsp.Range) -> bool:
     def key(p: lsp.Position) -> tuple[int, int]:
         return p.line, p.character
@@ -232,10 +257,12 @@ def _overlap(a: lsp.Range, b: lsp.Range) -> bool:
 def _source_actions(snap: Snapshot) -> list[lsp.CodeAction]:
     if snap.loaded.problem is None:
         return []
-    derive = lsp.Command("Derive the Lagrange dual (Markdown)", DERIVE, [snap.uri])
+    derive = lsp.Command(title="Derive the Lagrange dual (Markdown)", command=DERIVE,
+                         arguments=[snap.uri])
     out = [lsp.CodeAction(derive.title, kind=lsp.CodeActionKind.Source, command=derive)]
     if snap.file is not None:
-        latex = lsp.Command("Write the dual's LaTeX beside the file", WRITE_LATEX, [snap.uri])
+        latex = lsp.Command(title="Write the dual's LaTeX beside the file", command=WRITE_LATEX,
+                            arguments=[snap.uri])
         out.append(lsp.CodeAction(latex.title, kind=lsp.CodeActionKind.Source, command=latex))
     return out
 
@@ -245,7 +272,12 @@ def _commands(server: ProblemServer) -> None:
     async def derive_dual(ls: ProblemServer, *args: Any) -> dict[str, str]:
         snap = await ls.current(_uri_argument(args))
         derived = await ls.derived(snap, ls.limits.derive)
-        return {"uri": snap.uri, "markdown": actions.markdown(derived)}
+        try:
+            text = await ls.work.run(ls.work.derive_pool, ls.limits.derive, actions.markdown,
+                                     derived)
+        except TimeoutError as err:
+            raise RequestFailed("rendering the derivation took too long") from err
+        return {"uri": snap.uri, "markdown": text}
 
     @server.command(WRITE_LATEX)
     async def write_latex(ls: ProblemServer, *args: Any) -> dict[str, str]:

@@ -28,7 +28,7 @@ class Work:
         self.lint_pool = ThreadPoolExecutor(2, thread_name_prefix="dualize-lint")
         self.derive_pool = ThreadPoolExecutor(1, thread_name_prefix="dualize-derive")
         self.snapshots: dict[str, Snapshot] = {}
-        self.derivations: dict[str, tuple[int | None, Future[Derived]]] = {}
+        self.jobs: dict[tuple[str, str], tuple[object, Future[Any]]] = {}
         self.last_parsed: dict[str, ast.Document] = {}
 
     async def run(self, pool: ThreadPoolExecutor, limit: float, job: Callable[..., T],
@@ -38,13 +38,31 @@ class Work:
         loop = asyncio.get_running_loop()
         return await asyncio.wait_for(loop.run_in_executor(pool, job, *args), limit)
 
+    async def shared(self, kind: str, snap_key: tuple[str, object],
+                     pool: ThreadPoolExecutor, limit: float, job: Callable[..., T],
+                     *args: Any) -> T:
+        """One computation of ``kind`` per document version, shared by every request
+        that waits for it: a request that gives up (time limit, cancellation) leaves it
+        running for the next, and a newer version's job cancels an older one that has
+        not started yet."""
+        uri, version = snap_key
+        kept = self.jobs.get((kind, uri))
+        if kept is None or kept[0] != version or kept[1].cancelled():
+            if kept is not None:
+                kept[1].cancel()
+            kept = (version, pool.submit(job, *args))
+            self.jobs[(kind, uri)] = kept
+        return await asyncio.wait_for(asyncio.shield(asyncio.wrap_future(kept[1])), limit)
+
     async def snapshot(self, uri: str, version: int | None, text: str,
                        limit: float) -> Snapshot:
         """The front end of this version of the document (computed once per version)."""
         known = self.snapshots.get(uri)
         if known is not None and known.version == version and known.text == text:
             return known
-        snap = await self.run(self.lint_pool, limit, snapshot, uri, version, text)
+        # the text is part of the key: a document reopened under the same version
+        snap = await self.shared("read", (uri, (version, hash(text))), self.lint_pool, limit,
+                                 snapshot, uri, version, text)
         self._keep(snap)
         return snap
 
@@ -52,7 +70,8 @@ class Work:
         """The snapshot with its lint findings."""
         if snap.findings is not None:
             return snap
-        done = await self.run(self.lint_pool, limit, analysed, snap)
+        done = await self.shared("lint", (snap.uri, snap.version), self.lint_pool, limit,
+                                 analysed, snap)
         self._keep(done)
         return done
 
@@ -69,17 +88,14 @@ class Work:
         self.snapshots[snap.uri] = snap
 
     async def derived(self, snap: Snapshot, limit: float) -> Derived:
-        """The derivation of this version, shared by every request that asks for it;
-        a request that gives up (time limit, cancellation) leaves it running for the next."""
-        kept = self.derivations.get(snap.uri)
-        if kept is None or kept[0] != snap.version:
-            kept = (snap.version, self.derive_pool.submit(derive_snapshot, snap))
-            self.derivations[snap.uri] = kept
-        return await asyncio.wait_for(asyncio.shield(asyncio.wrap_future(kept[1])), limit)
+        """The derivation of this version, shared by every request that asks for it."""
+        return await self.shared("derive", (snap.uri, snap.version), self.derive_pool, limit,
+                                 derive_snapshot, snap)
 
     def forget(self, uri: str) -> None:
         self.snapshots.pop(uri, None)
-        self.derivations.pop(uri, None)
+        for key in [k for k in self.jobs if k[1] == uri]:
+            self.jobs.pop(key)[1].cancel()
         self.last_parsed.pop(uri, None)
 
     def close(self) -> None:

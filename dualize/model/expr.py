@@ -12,6 +12,7 @@ part in equality, so rewriting keeps structural identity intact.
 
 from __future__ import annotations
 
+import functools
 from collections.abc import Iterator
 from dataclasses import dataclass, field, fields, replace
 from typing import Literal
@@ -72,8 +73,8 @@ class Expr:
 
     def children(self) -> tuple[Expr, ...]:
         out: list[Expr] = []
-        for f in fields(self):  # type: ignore[arg-type]
-            value = getattr(self, f.name)
+        for name in _field_names(type(self)):
+            value = getattr(self, name)
             if isinstance(value, Expr):
                 out.append(value)
             elif isinstance(value, tuple):
@@ -82,6 +83,12 @@ class Expr:
 
     def with_span(self, span: Span | None) -> Expr:
         return replace(self, span=span)  # type: ignore[type-var]
+
+
+@functools.cache
+def _field_names(cls: type) -> tuple[str, ...]:
+    """A node class's field names, read once (``dataclasses.fields`` is slow in a walk)."""
+    return tuple(f.name for f in fields(cls))
 
 
 def _span() -> Span | None:

@@ -7,6 +7,7 @@ method raises, so a new construct cannot be skipped silently.
 from __future__ import annotations
 
 import difflib
+import math
 from collections.abc import Callable
 
 import sympy
@@ -16,8 +17,10 @@ from dualize.model import rules as M
 from dualize.model.expr import (
     Apply,
     Diag,
+    Divide,
     Expr,
     Extremum,
+    Hadamard,
     Identity,
     Inverse,
     Norm,
@@ -27,8 +30,9 @@ from dualize.model.expr import (
     SumAll,
     Trace,
     symbols_of,
+    walk,
 )
-from dualize.model.functions import ABS, BY_SPELLING, Function
+from dualize.model.functions import ABS, BY_SPELLING, LOG, Function
 from dualize.model.notation import rewrite_for
 from dualize.model.scope import FUNCTIONS, ResolveError, Scope
 from dualize.syntax import ast
@@ -52,7 +56,12 @@ class ExprResolver:
             self, f"_{type(node).__name__}", None)
         if method is None:
             raise NotImplementedError(f"no resolver for syntax node {type(node).__name__}")
-        return method(node)
+        result = method(node)
+        if isinstance(result, Number) and _digits(result.value) > MAX_NUMBER_DIGITS:
+            raise self.scope.fail(M.NUMBER_TOO_LARGE, node.span,
+                                  why=f"about {_digits(result.value)} digits, more than "
+                                  f"{MAX_NUMBER_DIGITS}")
+        return result
 
     def _Number(self, node: ast.Number) -> Expr:
         v = node.value
@@ -91,9 +100,23 @@ class ExprResolver:
         if not isinstance(exponent, Number):
             found = "a variable expression" if symbols_of(exponent) else f"a {exponent.shape}"
             raise self.scope.fail(M.BAD_EXPONENT, node.exponent.span, found=found)
+        largest = max((n.value for n in walk(base) if isinstance(n, Number)), key=_log10,
+                      default=sympy.Integer(1))
+        self._power_size(largest, exponent.value, node)
         if isinstance(base, Number) and _foldable(base.value, exponent.value):
             return ops.number(base.value ** exponent.value, node.span)
         return Power(base, exponent.value, span=node.span)
+
+    def _power_size(self, base: sympy.Expr, exponent: sympy.Expr, node: ast.Power) -> None:
+        """A number raised to a power is refused when its value would be too large."""
+        if base == 0 or not exponent.is_Rational:
+            return
+        grows = int(_log10(base) * abs(exponent)) + 1
+        if grows > MAX_NUMBER_DIGITS:
+            raise self.scope.fail(M.NUMBER_TOO_LARGE, node.span,
+                                  why=f"a number raised to the power {_shown(exponent)} "
+                                  f"would have about {_shown(grows)} digits, more than "
+                                  f"{MAX_NUMBER_DIGITS}")
 
     def _Transpose(self, node: ast.Transpose) -> Expr:
         return ops.transpose(self(node.operand), node.span)
@@ -154,6 +177,14 @@ class ExprResolver:
         left, right = ops.conform(left, right, f"in {kind}(...)", self.scope, node.span)
         return Extremum(kind, left, right, span=node.span)  # type: ignore[arg-type]
 
+    def _call_relent(self, node: ast.Call) -> Expr:
+        """relent(u, v) = u .* log(u ./ v), the relative entropy entry by entry (a shorthand:
+        it resolves to that expression, whose curvature and conjugate the later stages
+        know; S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 3.1.5)."""
+        left, right = (self(a) for a in self._args(node, 2))
+        left, right = ops.conform(left, right, "in relent(...)", self.scope, node.span)
+        return Hadamard(left, Apply(LOG.name, Divide(left, right)), span=node.span)
+
     def _call_diag(self, node: ast.Call) -> Expr:
         arg = self._one(node)
         if not arg.shape.is_vector:
@@ -194,6 +225,30 @@ class ExprResolver:
     def _wrong(self, node: ast.Call, needs: str, arg: Expr) -> None:
         raise self.scope.fail(M.WRONG_ARGUMENT, node.span, name=node.func, needs=needs,
                               found=str(arg.shape))
+
+
+MAX_NUMBER_DIGITS = 1000
+"""Largest exact number (digits of numerator or denominator) a problem may hold."""
+
+
+def _log10(value: sympy.Expr) -> float:
+    """log10 of a rational's larger part (numerator or denominator), without ever
+    converting a huge integer to a string."""
+    if not value.is_Rational or value == 0:
+        return 0.0
+    parts = [abs(int(value.p)), int(value.q)]
+    return max(math.log10(v) if v.bit_length() < 1000 else v.bit_length() * math.log10(2)
+               for v in parts)
+
+
+def _digits(value: sympy.Expr) -> int:
+    """Decimal digits of a rational's larger part."""
+    return int(_log10(value)) + 1
+
+
+def _shown(value: object) -> str:
+    text = str(int(value)) if getattr(value, "is_Integer", True) else str(value)
+    return text if len(text) <= 12 else text[:9] + "..."
 
 
 def _foldable(base: sympy.Expr, exponent: sympy.Expr) -> bool:

@@ -65,15 +65,24 @@ class NumpyForm:
 
     name: str
     leading: tuple[float, ...] = ()
+    template: str | None = None
+    """Source text with ``{0}`` for the argument and ``{m}`` for the numpy module, for a
+    form that is no single call (a piecewise function); ``python`` is then its callable."""
+    python: Callable[[Any], Any] | None = None
 
     def code(self, arg: str, module: str = "np") -> str:
         """The call as Python source text, for the generated solvers."""
+        if self.template is not None:
+            return self.template.format(f"({arg})", m=module)
         parts = [repr(v) for v in self.leading] + [arg]
         return f"{module}.{self.name}({', '.join(parts)})"
 
     def callable(self) -> Callable[[Any], Any]:
         """The numpy function with its leading arguments bound."""
         import numpy as np
+
+        if self.python is not None:
+            return self.python
 
         func = getattr(np, self.name)
         if not self.leading:
@@ -104,6 +113,9 @@ class Function:
     derivative: Callable[[Expr, Expr], Expr] | None
     inverse: str | None = None
     source: str = ""
+    reference_affine: tuple[float, float] = (1.0, 1.0)
+    """(a, b): the numeric reference's form is a * ref(b * u) (Huber's function there is
+    twice ours; the loss of a margin is the reference's softplus of -u)."""
 
     def to_sympy(self, arg: Any) -> Any:
         return self.sympy_form(arg)
@@ -148,6 +160,32 @@ def _sympy_softplus(t: Any) -> Any:
     return sympy.log(1 + sympy.exp(t))
 
 
+def _sympy_quadlin(t: Any) -> Any:
+    import sympy
+
+    return sympy.Piecewise((t**2 / 2, sympy.Abs(t) <= 1),
+                           (sympy.Abs(t) - sympy.Rational(1, 2), True))
+
+
+def _sympy_logcost(t: Any) -> Any:
+    import sympy
+
+    return sympy.log(1 + sympy.exp(-t))
+
+
+def _np_quadlin(u: Any) -> Any:
+    import numpy as np
+
+    a = np.abs(u)
+    return np.where(a <= 1, 0.5 * np.square(u), a - 0.5)
+
+
+def _np_logcost(u: Any) -> Any:
+    import numpy as np
+
+    return np.logaddexp(0, -np.asarray(u, dtype=float))
+
+
 # ---------------------------------------------------------------- derivatives
 
 
@@ -178,6 +216,32 @@ def _d_softplus(arg: Expr, node: Expr) -> Expr:
     from dualize.model.expr import Add, Apply, Number, Scale
 
     return Apply("exp", Add((arg, Scale(Number(sympy.Integer(-1)), node))))
+
+
+def _filled(value: int, like: Expr) -> Expr:
+    import sympy
+
+    from dualize.model.expr import Broadcast, Number
+
+    n = Number(sympy.Integer(value))
+    return n if like.shape.is_scalar else Broadcast(n, like.shape)
+
+
+def _d_quadlin(arg: Expr, node: Expr) -> Expr:
+    """quadlin'(u) = u clipped to [-1, 1]."""
+    from dualize.model.expr import Extremum
+
+    return Extremum("min", Extremum("max", arg, _filled(-1, arg)), _filled(1, arg))
+
+
+def _d_logcost(arg: Expr, node: Expr) -> Expr:
+    """d/du log(1 + e^-u) = -1/(1 + e^u) = -exp(-softplus(u)), which never overflows."""
+    import sympy
+
+    from dualize.model.expr import Apply, Number, Scale
+
+    minus = Number(sympy.Integer(-1))
+    return Scale(minus, Apply("exp", Scale(minus, Apply("softplus", arg))))
 
 
 # ---------------------------------------------------------------- the table
@@ -222,7 +286,34 @@ SOFTPLUS = Function(
     source="softplus(u) = log(1 + exp(u))",
 )
 
-TABLE: dict[str, Function] = {f.name: f for f in (EXP, LOG, SQRT, ABS, SOFTPLUS)}
+QUADLIN = Function(
+    name="quadlin", spellings=("quadlin",), arity=1, domain=ArgumentDomain.REALS,
+    keep_positive=False, sign="nonneg", curvature="convex", monotone="by-sign",
+    homogeneous=False, sympy_form=_sympy_quadlin, sympy_head=None,
+    numpy=NumpyForm("quadlin", template="{m}.where({m}.abs{0} <= 1, 0.5 * {0} ** 2, "
+                    "{m}.abs{0} - 0.5)", python=_np_quadlin),
+    reference="huber", reference_affine=(0.5, 1.0),
+    latex=r"\operatorname{quadlin}", text="quadlin", derivative=_d_quadlin,
+    # Huber's function with threshold 1 (P. J. Huber, Robust estimation of a location
+    # parameter, 1964, from memory): quadratic near 0, linear beyond; its conjugate
+    # s^2/2 on [-1, 1] is derived by the engine piece by piece, not stated here.
+    source="quadlin(u) = u^2/2 for |u| <= 1, |u| - 1/2 otherwise",
+)
+LOGCOST = Function(
+    name="logcost", spellings=("logcost",), arity=1, domain=ArgumentDomain.REALS,
+    keep_positive=False, sign="pos", curvature="convex", monotone="dec",
+    homogeneous=False, sympy_form=_sympy_logcost, sympy_head=None,
+    numpy=NumpyForm("logcost", template="{m}.logaddexp(0, -{0})", python=_np_logcost),
+    reference="logistic", reference_affine=(1.0, -1.0),
+    latex=r"\operatorname{logcost}", text="logcost", derivative=_d_logcost,
+    # The logistic loss of a margin u, log(1 + e^-u) (T. Hastie, R. Tibshirani and
+    # J. Friedman, The Elements of Statistical Learning, 2009, section 4.4, from memory);
+    # convex and decreasing; its conjugate is derived by the engine.
+    source="logcost(u) = log(1 + exp(-u))",
+)
+
+TABLE: dict[str, Function] = {f.name: f for f in (EXP, LOG, SQRT, ABS, SOFTPLUS, QUADLIN,
+                                                  LOGCOST)}
 """Every elementwise function, by its IR name (``Apply.func``)."""
 
 BY_SPELLING: dict[str, Function] = {s: f for f in TABLE.values() for s in f.spellings}

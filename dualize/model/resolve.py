@@ -59,13 +59,25 @@ def resolve(doc: ast.Document, text: str = "", path: str = "<string>",
     return problem, ()
 
 
+def _spelling_hint(text: str, decl: ast.Decl, first: Symbol) -> str | None:
+    """Say so when two spellings are one name after Unicode normalization (NFKC)."""
+    spans = [s for s in (decl.name_span, first.span) if s is not None and s.end > s.start]
+    spellings = sorted({text[s.start:s.end] for s in spans})
+    if len(spellings) < 2:
+        return None
+    shown = " and ".join(f"`{w}`" for w in spellings)
+    return (f"{shown} are one name: names are compared after Unicode compatibility "
+            "normalization (NFKC), as Python compares identifiers")
+
+
 def _declare(run: _Run, decl: ast.Decl, role: str) -> tuple[Symbol, SetMeaning]:
     scope = run.scope
     if decl.name in RESERVED:
         scope.failed.add(decl.name)
         raise scope.fail(M.RESERVED_NAME, decl.name_span, name=decl.name)
     if decl.name in scope.names:
-        raise scope.fail(M.DECLARED_TWICE, decl.name_span, name=decl.name)
+        raise scope.fail(M.DECLARED_TWICE, decl.name_span, name=decl.name,
+                         hint=_spelling_hint(run.text, decl, scope.names[decl.name]))
     try:
         meaning = set_meaning(decl.set, scope, run.resolve)
         if role == "data":

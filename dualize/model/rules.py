@@ -78,6 +78,10 @@ INVERSE_OF_VARIABLE = _model(
 BAD_EXPONENT = _model(
     "bad-exponent", "an exponent must be a number, not {found}",
     "Powers have exact rational exponents such as 2, 1/2 or -1.")
+NUMBER_TOO_LARGE = _model(
+    "number-too-large", "this exact number is too large: {why}",
+    "Numbers stay exact rationals through the derivation; one with thousands of digits "
+    "makes every later step and every printed formula slow or impossible to read.")
 DIVISION_BY_ZERO = _model(
     "division-by-zero", "division by zero",
     "The expression has no value.")

@@ -17,7 +17,8 @@ from dualize.model.expr import Symbol
 from dualize.model.functions import BY_SPELLING
 from dualize.syntax.span import Span
 
-FUNCTIONS = tuple(sorted(("diag", "identity", "inv", "max", "min", "ones", "sum", "trace")
+FUNCTIONS = tuple(sorted(("diag", "identity", "inv", "max", "min", "ones", "relent", "sum",
+                          "trace")
                          + tuple(BY_SPELLING)))
 """Every function name a file may call: the structural ones and the function table's."""
 KEYWORDS = ("data", "in", "maximise", "maximize", "minimise", "minimize", "over", "preceq",

@@ -10,8 +10,11 @@ Scalars are stored as floats, vectors as 1-D arrays, matrices as 2-D arrays.
 from __future__ import annotations
 
 import json
+import re
 import tomllib
+import unicodedata
 from dataclasses import dataclass
+from fractions import Fraction
 from pathlib import Path
 
 import numpy as np
@@ -29,6 +32,15 @@ class InstanceError(DualizeError):
 
     def __init__(self, message: str) -> None:
         super().__init__(message, exit_code=2)
+
+
+class ExactValues(dict):  # type: ignore[type-arg]
+    """Values as floats (the dict) and, in ``exact``, as Fractions of the file's own
+    decimals: exact decisions on an instance (Slater points, feasibility) use these."""
+
+    def __init__(self, values: dict[str, object], exact: dict[str, object]) -> None:
+        super().__init__(values)
+        self.exact = exact
 
 
 @dataclass(frozen=True)
@@ -64,12 +76,37 @@ def read_instance(path: str, problem: Problem) -> Instance:
     arrays = {d.name: _to_array(raw, d, Path(path)) for d in problem.data}
     dims = _infer_dims(problem, arrays, raw, path)
     values = {d.name: _fit(arrays[d.name], d, dims, path) for d in problem.data}
+    exact = {d.name: _exact(raw[d.name], values[d.name]) for d in problem.data}
     for decl in problem.data:
-        problem_in_set = set_violation(values[decl.name], decl.symbol.facts)
+        problem_in_set = set_violation(values[decl.name], decl.symbol.facts, exact[decl.name])
         if problem_in_set:
             raise InstanceError(f"{path}: value of '{decl.name}' is not in {decl.set_text}: "
                                 f"{problem_in_set}")
-    return Instance(values, dims, str(path))
+    return Instance(ExactValues(values, exact), dims, str(path))
+
+
+def _decimal(text: str) -> Fraction | float:
+    """A decimal of the file as the exact fraction it denotes (0.1 is 1/10, not the
+    nearest double); one too long or with a huge exponent stays a float (then refused
+    as not finite, or kept as the double it is)."""
+    power = _EXPONENT.search(text)
+    if len(text) > 400 or (power and abs(int(power.group(1))) > 400):
+        return float(text)
+    return Fraction(text)
+
+
+_EXPONENT = re.compile(r"[eE]([+-]?\d+)$")
+
+
+def _exact(raw: object, value: object) -> object:
+    """Exact entries of a value: the file's fractions, or the floats of an .npy file."""
+    from dualize.analysis.exact import fractions_of
+
+    source = value if isinstance(raw, dict) else raw
+    try:
+        return fractions_of(source)
+    except (TypeError, ValueError, OverflowError):
+        return fractions_of(np.asarray(value, dtype=float))
 
 
 def _load_mapping(path: Path) -> dict[str, object]:
@@ -79,16 +116,28 @@ def _load_mapping(path: Path) -> dict[str, object]:
         raise InstanceError(f"{path}: cannot read instance file ({err.strerror})") from None
     try:
         if path.suffix.lower() == ".toml":
-            raw = tomllib.loads(text.decode("utf-8"))
+            raw = tomllib.loads(text.decode("utf-8"), parse_float=_decimal)
         else:
-            raw = json.loads(text.decode("utf-8"))
+            raw = json.loads(text.decode("utf-8"), parse_float=_decimal)
     except (UnicodeDecodeError, ValueError) as err:
         raise InstanceError(f"{path}: not a valid instance file: {err}") from None
     except RecursionError:
         raise InstanceError(f"{path}: not a valid instance file: nested too deeply") from None
     if not isinstance(raw, dict):
         raise InstanceError(f"{path}: an instance file must map names to values")
-    return raw
+    return _normalized_keys(raw, path)
+
+
+def _normalized_keys(raw: dict[str, object], path: Path) -> dict[str, object]:
+    """Keys compared as the problem's names are: after NFKC normalization."""
+    out: dict[str, object] = {}
+    for key, value in raw.items():
+        name = unicodedata.normalize("NFKC", key)
+        if name in out:
+            raise InstanceError(f"{path}: the name '{name}' is given twice (keys equal "
+                                "after Unicode normalization)")
+        out[name] = value
+    return out
 
 
 def _to_array(raw: dict[str, object], decl: DataDecl, path: Path) -> np.ndarray:
@@ -212,8 +261,10 @@ def _fit(arr: np.ndarray, decl: DataDecl, dims: dict[str, int],
     return arr.reshape(rows, cols).copy()
 
 
-def set_violation(value: np.ndarray | float, facts: frozenset[str]) -> str | None:
-    """Why ``value`` is outside the set the ``facts`` describe, or None if inside."""
+def set_violation(value: np.ndarray | float, facts: frozenset[str],
+                  exact: np.ndarray | None = None) -> str | None:
+    """Why ``value`` is outside the set the ``facts`` describe, or None if inside
+    (definiteness decided on the ``exact`` entries when given)."""
     arr = np.atleast_1d(np.asarray(value, dtype=float))
     if "pos" in facts and np.any(arr <= 0):
         return f"entry {_first(arr <= 0)} is not positive"
@@ -224,7 +275,7 @@ def set_violation(value: np.ndarray | float, facts: frozenset[str]) -> str | Non
     if "binary" in facts and np.any((arr != 0) & (arr != 1)):
         return f"entry {_first((arr != 0) & (arr != 1))} is neither 0 nor 1"
     if facts & {"symmetric", "psd", "pd"}:
-        return _matrix_violation(arr, facts)
+        return _matrix_violation(arr, facts, exact)
     return None
 
 
@@ -233,18 +284,20 @@ def _first(mask: np.ndarray) -> str:
     return "(" + ", ".join(map(str, index)) + ")" if len(index) > 1 else str(index[0])
 
 
-def _matrix_violation(arr: np.ndarray, facts: frozenset[str]) -> str | None:
+def _matrix_violation(arr: np.ndarray, facts: frozenset[str],
+                      exact: np.ndarray | None = None) -> str | None:
     if arr.ndim != 2 or arr.shape[0] != arr.shape[1]:
         return f"a square matrix is needed, got shape {arr.shape}"
     scale = max(float(np.max(np.abs(arr))), 1.0)
     asym = float(np.max(np.abs(arr - arr.T)))
     if asym > SYM_RTOL * scale:
         return f"it is not symmetric (largest |M - M'| entry is {asym:.3g})"
-    low = float(np.linalg.eigvalsh((arr + arr.T) / 2)[0])
-    if "pd" in facts and low <= EIG_TOL * scale:
-        return f"it is not positive definite (smallest eigenvalue {low:.3g})"
-    if "psd" in facts and low < -EIG_TOL * scale:
-        return f"it is not positive semidefinite (smallest eigenvalue {low:.3g})"
+    from dualize.numeric.definite_data import decide
+
+    for fact, word in (("pd", "definite"), ("psd", "semidefinite")):
+        if fact in facts and decide(arr, fact == "pd", exact) == "no":
+            low = float(np.linalg.eigvalsh((arr + arr.T) / 2)[0])
+            return f"it is not positive {word} (smallest eigenvalue about {low:.3g})"
     return None
 
 

@@ -171,7 +171,15 @@ def _neg_entropy(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
     for a, b in ((expr.left, expr.right), (expr.right, expr.left)):
         if isinstance(b, ir.Apply) and b.func == LOG.name and _same(b.arg, a):
             return -ctx.cp.entr(ctx(a))
+        if isinstance(b, ir.Apply) and b.func == LOG.name and _same(b.arg, _negated(a)):
+            return ctx.cp.entr(ctx(b.arg))  # a log(-a) = -(-a) log(-a) = entr(-a)
     return None
+
+
+def _negated(e: ir.Expr) -> ir.Expr:
+    import sympy
+
+    return ir.Scale(ir.Number(sympy.Integer(-1)), e)
 
 
 def _same(a: ir.Expr, c: ir.Expr) -> bool:
@@ -268,7 +276,11 @@ def _power(e: ir.Power, ctx: _Ctx) -> CvxExpr:
 
 
 def _apply(e: ir.Apply, ctx: _Ctx) -> CvxExpr:
-    return getattr(ctx.cp, lookup(e.func).reference)(ctx(e.arg))
+    function = lookup(e.func)
+    outer, inner = function.reference_affine
+    arg = ctx(e.arg) if inner == 1.0 else inner * ctx(e.arg)
+    value = getattr(ctx.cp, function.reference)(arg)
+    return value if outer == 1.0 else outer * value
 
 
 def _extremum(e: ir.Extremum, ctx: _Ctx) -> CvxExpr:

@@ -97,6 +97,8 @@ def check_instance(derivation: Derivation, instance: Instance, seed: int | None
     dual_value, dual_status, note = dual.value, dual.status, dual.note
     if dual.status == "unsupported" and derivation.dual.inner and primal.status in _SOLVED:
         dual_value, dual_status, note = _at_reference(derivation, instance, primal.multipliers)
+    if seed is None:  # a user's instance; random ones are feasible by construction
+        primal = _confirmed(problem, instance, primal)
     sign = 1.0 if problem.sense == "minimize" else -1.0
     gap = sign * (primal.value - dual_value)
     usable = primal.status in _SOLVED + ("local",) and math.isfinite(dual_value)
@@ -106,6 +108,25 @@ def check_instance(derivation: Derivation, instance: Instance, seed: int | None
     return InstanceCheck(instance.source, seed, primal.value, dual_value,
                          gap if usable else float("nan"), primal.status, dual_status,
                          error, weak_ok, notes)
+
+
+def _confirmed(problem: Any, instance: Instance, primal: Any) -> Any:
+    """A primal optimum is kept only when its point meets the affine constraints exactly
+    on the instance's values after an exact correction (``analysis.exact``); a solver
+    accepts points infeasible by 1e-9, and an infeasible instance has no optimum."""
+    from dataclasses import replace
+
+    from dualize.analysis.phase_one import feasible_exactly
+
+    if primal.status not in _SOLVED or not primal.x:
+        return primal
+    if feasible_exactly(problem, instance, primal.x) is not False:
+        return primal
+    note = ("the solver's primal point meets the constraints only within its tolerance and "
+            "no point meeting them exactly on the instance's values was found near it: the "
+            "instance may be infeasible")
+    return replace(primal, status="unconfirmed", note="; ".join(filter(None, (primal.note,
+                                                                              note))))
 
 
 def _at_reference(derivation: Derivation, instance: Instance,

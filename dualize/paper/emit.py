@@ -135,6 +135,10 @@ class Emitter:
             left = self.wrapped(node.left, index, SUM_P)
             right = self.wrapped(node.right, index, PRODUCT_P)
             return left + f" {node.op} " + right, SUM_P
+        if node.op in (".*", "./"):  # elementwise, written \circ, \odot or \oslash
+            left = self.wrapped(node.left, index, PRODUCT_P)
+            right = self.wrapped(node.right, index, UNARY_P)
+            return left + f" {node.op} " + right, PRODUCT_P
         return self._product(node, index)
 
     def _product(self, node: T.Binary, index: Index | None) -> tuple[Piece, int]:
@@ -237,7 +241,7 @@ class Emitter:
 
     # ---- sums ---------------------------------------------------------------
     def _sum(self, node: T.Sum, index: Index | None) -> tuple[Piece, int]:
-        from dualize.paper.sums import double_sum, sum_indices
+        from dualize.paper.sums import double_sum, sum_indices, vector_sum
 
         if node.lower not in (None, "1"):
             raise Refusal("paper-index", node.span, f"a sum from {node.lower}: only sums over "
@@ -246,6 +250,9 @@ class Emitter:
             raise Refusal("paper-index", node.span, "a sum inside an entrywise expression")
         indices, body = sum_indices(node)
         if len(indices) == 1:
+            combination = vector_sum(self, body, indices[0])
+            if combination is not None:
+                return combination, PRODUCT_P
             inner = self.expression(body, indices[0])
             return "sum(" + inner + ")", ATOM_P
         if len(indices) == 2:

@@ -194,6 +194,18 @@ class Build(Transformer):
     def divide(self, t: Tree) -> T.Frac:
         return T.Frac(t.children[0], t.children[-1], span=self._span(t))
 
+    def hadamard(self, t: Tree) -> T.Binary:
+        """``a \\circ b`` or ``a \\odot b``: the elementwise product."""
+        return T.Binary(".*", t.children[0], t.children[-1], span=self._span(t))
+
+    def hadamard_quotient(self, t: Tree) -> T.Binary:
+        """``a \\oslash b``: the elementwise quotient."""
+        return T.Binary("./", t.children[0], t.children[-1], span=self._span(t))
+
+    def ones_macro(self, t: Tree) -> T.Constant:
+        """``\\one``, ``\\ones``: the macros papers define for the all-ones vector."""
+        return T.Constant(1, span=self._span(t))
+
     def group(self, t: Tree) -> T.Group:
         return T.Group(t.children[0], span=self._span(t))
 
@@ -279,6 +291,8 @@ class Build(Transformer):
     def name(self, t: Tree) -> T.Name:
         tok = t.children[-1]
         text = str(tok)
+        if tok.type == "WORD_NAME":  # \mathrm{budget}: a multi-letter name, as we print it
+            return T.Name(text[text.index("{") + 1:text.rindex("}")].strip(), span=self._span(t))
         spelled = greek_name(text) if text.startswith("\\") else text
         return T.Name(spelled, span=self._span(t))
 
@@ -343,7 +357,8 @@ def _sense(tok: Token) -> str:
 
 def _function(text: str) -> str:
     for word, func in (("diag", "diag"), ("Diag", "diag"), ("tr", "trace"), ("Tr", "trace"),
-                       ("log", "log"), ("ln", "log"), ("exp", "exp")):
+                       ("log", "log"), ("ln", "log"), ("exp", "exp"), ("sqrt", "sqrt"),
+                       ("softplus", "softplus")):
         if word in text:
             return func
     raise ValueError(text)

@@ -78,6 +78,30 @@ def _pair_factor(em: Emitter, parts: list[T.Node], i: Index, j: Index, node: T.S
                   f"x_{i.name}^T x_{j.name} or a matrix entry K_{{{i.name}{j.name}}}")
 
 
+def vector_sum(em: Emitter, body: T.Node, index: Index) -> Piece | None:
+    """``\\sum_i c_i x_i`` with x_i a row of a data matrix X: the vector ``X' * c``.
+
+    Papers write a combination of rows as a sum (``\\sum_i \\alpha_i y_i x_i``); its
+    value is a vector, not the sum of a vector's entries.  The factors indexed by i
+    other than the row give the weights c entry by entry; factors without i scale
+    the result.  None when the body has no row of a matrix (an ordinary sum).
+    """
+    sign, parts = factors(body)
+    rows = [f for f in parts if em._is_row(f, index)]
+    if len(rows) != 1:
+        return None
+    row = rows[0]
+    assert isinstance(row, T.Entry)
+    weights = [f for f in parts if f is not row and mentions(f, index.name)]
+    scalars = [f for f in parts if f is not row and not mentions(f, index.name)]
+    if not weights:
+        return None
+    weight = join([em.wrapped(f, index, UNARY_P) for f in weights], " .* ")
+    core = _transposed(em.matrix_of(row, index)) + " * (" + weight + ")"
+    out = join([*(em.wrapped(f, None, UNARY_P) for f in scalars), core], " * ")
+    return ("-(" + out + ")") if sign < 0 else out
+
+
 def _matrix(em: Emitter, target: T.Name, entry: T.Entry) -> Piece:
     sym = em.symbol(target)
     if sym.shape.is_vector or sym.shape.is_scalar or not sym.shape.is_square:
@@ -110,4 +134,4 @@ def _is_variable(em: Emitter, f: T.Node) -> bool:
     return bool(sym and sym.variable)
 
 
-__all__ = ["ATOM_P", "double_sum", "factors", "sum_indices"]
+__all__ = ["ATOM_P", "double_sum", "factors", "sum_indices", "vector_sum"]

@@ -27,7 +27,9 @@ from dualize.duality.result import (
 from dualize.model import expr as ir
 from dualize.model.ops import is_zero
 from dualize.model.problem import Constraint, Problem, Variable
+from dualize.render import summary as S
 from dualize.render.caution import CAUTION
+from dualize.render.structure import split_sign
 
 KKT_ORDER = ("stationarity", "primal feasibility", "dual feasibility", "complementary slackness")
 _DUAL_SET_RELATION = {"nonneg": ">=", "nonpos": "<=", "psd": "succeq"}
@@ -68,7 +70,7 @@ class Formatter(Protocol):
 
     def dual_set(self, variable: DualVariable) -> str: ...
 
-    def prose(self, text: str) -> str: ...
+    def prose(self, text: str, formulas: tuple[tuple[str, object], ...] = ()) -> str: ...
 
     def gradient(self, variable: str, of: str) -> str: ...
 
@@ -189,11 +191,17 @@ def build_view(derivation: Derivation, analysis: Analysis | None,
 
 def primal_view(problem: Problem, fmt: Formatter) -> ProblemView:
     """The problem as written: constraints tagged with their multipliers, then domains."""
-    lines = [constraint_line(c, fmt) for c in problem.constraints]
+    lines = S.grouped([constraint_line(c, fmt) for c in problem.constraints], fmt, _note_line)
     lines += [Line(fmt.name(v.name), fmt.relation("in"), fmt.domain(v), note=fmt.prose("domain"))
               for v in problem.variables if v.domain.kind != "free"]
-    return ProblemView(problem.sense, tuple(fmt.name(v.name) for v in problem.variables),
-                       fmt.expr(problem.objective), tuple(lines))
+    over = S.short_names([fmt.name(v.name) for v in problem.variables], fmt)
+    return ProblemView(problem.sense, tuple(over), S.short_expr(problem.objective, fmt),
+                       tuple(lines))
+
+
+def _note_line(note: str) -> Line:
+    """The line that stands for the rest of a summarized list (``summary.grouped``)."""
+    return Line("", "", "", note=note)
 
 
 def constraint_line(constraint: Constraint, fmt: Formatter) -> Line:
@@ -213,7 +221,7 @@ def head_text(head: Head, fmt: Formatter) -> str:
     name = _head_name(head.name, fmt)
     if not head.args:
         return name
-    return name + "(" + ", ".join(fmt.name(a) for a in head.args) + ")"
+    return name + "(" + ", ".join(S.short_names([fmt.name(a) for a in head.args], fmt)) + ")"
 
 
 def _head_name(name: str, fmt: Formatter) -> str:
@@ -224,28 +232,77 @@ def _head_name(name: str, fmt: Formatter) -> str:
 
 
 def equation_line(equation: Equation, fmt: Formatter, note: str = "") -> Line:
-    lhs = equation.lhs
+<<<<<<< HEAD
+    lhs, relation, rhs = equation.lhs, equation.relation, equation.rhs
+    if not isinstance(lhs, Head):
+        lhs, relation, rhs = signs_as_written(lhs, relation, rhs)
     left = head_text(lhs, fmt) if isinstance(lhs, Head) else fmt.expr(lhs)
-    return Line(left, fmt.relation(equation.relation), fmt.expr(equation.rhs),
-                note=fmt.prose(note) if note else "", rhs_terms=fmt.terms(equation.rhs))
+    return Line(left, fmt.relation(relation), fmt.expr(rhs),
+                note=fmt.prose(note) if note else "", rhs_terms=fmt.terms(rhs))
+
+
+_FLIPPED = {"=": "=", "<=": ">=", ">=": "<=", "<": ">", ">": "<", "succeq": "preceq",
+            "preceq": "succeq"}
+
+
+def signs_as_written(lhs: ir.Expr, relation: str,
+                     rhs: ir.Expr) -> tuple[ir.Expr, str, ir.Expr]:
+    """``-nu >= -1`` as a paper writes it, ``nu <= 1``: both sides negated when the left
+    one opens with a minus sign and the right one is zero or negative too."""
+    if relation not in _FLIPPED:
+        return lhs, relation, rhs
+    negative, magnitude = split_sign(lhs)
+    if not negative:
+        return lhs, relation, rhs
+    if is_zero(rhs) or (isinstance(rhs, ir.Broadcast) and is_zero(rhs.arg)):
+        return magnitude, _FLIPPED[relation], rhs
+    rhs_negative, rhs_magnitude = split_sign(rhs)
+    if rhs_negative:
+        return magnitude, _FLIPPED[relation], rhs_magnitude
+    return lhs, relation, rhs
+
+
+def step_view(step: Step, fmt: Formatter) -> StepView:
+    return StepView(step.rule, fmt.prose(step.text, step.formulas),
+                    tuple(equation_line(e, fmt) for e in step.equations))
+=======
+    lhs = equation.lhs
+    left = head_text(lhs, fmt) if isinstance(lhs, Head) else S.short_expr(lhs, fmt)
+    note = "; ".join(filter(None, (note, S.term_count_note(equation.rhs))))
+    return Line(left, fmt.relation(equation.relation), S.short_expr(equation.rhs, fmt),
+                note=fmt.prose(note) if note else "", rhs_terms=S.short_terms(equation.rhs, fmt))
 
 
 def step_view(step: Step, fmt: Formatter) -> StepView:
     return StepView(step.rule, fmt.prose(step.text),
-                    tuple(equation_line(e, fmt) for e in step.equations))
+                    tuple(S.grouped([equation_line(e, fmt) for e in step.equations], fmt,
+                                    _note_line)))
+>>>>>>> reliability
 
 
 def dual_view(dual: DualProblem, fmt: Formatter) -> ProblemView:
     """The dual with its constraints, then the sign conditions not already stated."""
-    lines = [Line(fmt.expr(c.lhs), fmt.relation(c.relation), fmt.expr(c.rhs),
+<<<<<<< HEAD
+    lines = [_dual_line(c.lhs, c.relation, c.rhs, c.label, fmt) for c in dual.constraints]
+=======
+    lines = [Line(S.short_expr(c.lhs, fmt), fmt.relation(c.relation), S.short_expr(c.rhs, fmt),
                   tag=fmt.name(c.label) if c.label else "") for c in dual.constraints]
+>>>>>>> reliability
     lines += [_set_line(v, fmt) for v in dual.variables
               if v.set != "free" and not _stated(v, dual)]
     inner_op = "inf" if dual.sense == "maximize" else "sup"
-    return ProblemView(dual.sense, tuple(fmt.name(v.name) for v in dual.variables),
-                       fmt.expr(dual.objective), tuple(lines),
+    over = S.short_names([fmt.name(v.name) for v in dual.variables], fmt)
+    return ProblemView(dual.sense, tuple(over), S.short_expr(dual.objective, fmt),
+                       tuple(S.grouped(lines, fmt, _note_line)),
                        inner=tuple(_ranging(v, fmt) for v in dual.inner), inner_op=inner_op,
                        unbounded=dual.unbounded)
+
+
+def _dual_line(lhs: ir.Expr, relation: str, rhs: ir.Expr, label: str | None,
+               fmt: Formatter) -> Line:
+    lhs, relation, rhs = signs_as_written(lhs, relation, rhs)
+    return Line(fmt.expr(lhs), fmt.relation(relation), fmt.expr(rhs),
+                tag=fmt.name(label) if label else "")
 
 
 def _ranging(variable: Variable, fmt: Formatter) -> str:
@@ -284,7 +341,8 @@ def kkt_views(conditions: tuple[Condition, ...], fmt: Formatter) -> tuple[KKTVie
     groups = [g for g in KKT_ORDER if any(c.group == g for c in conditions)]
     groups += sorted({c.group for c in conditions} - set(KKT_ORDER))
     return tuple(
-        KKTView(fmt.prose(g), tuple(condition_line(c, fmt) for c in conditions if c.group == g))
+        KKTView(fmt.prose(g), tuple(S.grouped(
+            [condition_line(c, fmt) for c in conditions if c.group == g], fmt, _note_line)))
         for g in groups)
 
 
@@ -319,7 +377,7 @@ def witness_order(witness: Mapping[str, object], problem: Problem) -> list[str]:
 
 
 def convexity_sentence(analysis: Analysis) -> str:
-    reasons = "; ".join(analysis.convexity_reasons)
+    reasons = "; ".join(S.short_reasons(analysis.convexity_reasons))
     lead = {True: "The problem is convex", False: "The problem is not convex",
             None: "Convexity could not be decided"}[analysis.convex]
     return f"{lead}: {reasons}." if reasons else f"{lead}."

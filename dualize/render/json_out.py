@@ -164,7 +164,12 @@ def equation_json(equation: Equation) -> dict[str, str]:
 
 
 def step_json(step: Step) -> dict[str, Any]:
-    return {"rule": step.rule, "text": step.text, "block": step.block,
+    """A step; its sentence in Unicode (``text``) and in LaTeX (``latex``)."""
+    from dualize.render.latex import LatexFormatter
+    from dualize.render.text import TextFormatter
+
+    return {"rule": step.rule, "text": TextFormatter().prose(step.text, step.formulas),
+            "latex": LatexFormatter().prose(step.text, step.formulas), "block": step.block,
             "equations": [equation_json(e) for e in step.equations]}
 
 
@@ -172,17 +177,25 @@ def kkt_json(condition: Condition) -> dict[str, Any]:
     """A condition; ``text`` and ``latex`` are null when only the note states it."""
     stated = ({"text": None, "latex": None} if condition.equation is None
               else equation_json(condition.equation))
-    return {"group": condition.group, **stated, "note": condition.note}
+    return {"group": condition.group, **stated, "note": _sentence(condition.note)}
 
 
 def recovery_json(recovery: Recovery) -> dict[str, Any]:
     formula = None if recovery.formula is None else math_pair(recovery.formula)
-    out = {"variable": recovery.variable, "formula": formula, "note": recovery.note}
+    out = {"variable": recovery.variable, "formula": formula,
+           "note": _sentence(recovery.note)}
     if recovery.relations:
         out["relations"] = [{"lhs": math_pair(e.lhs), "relation": e.relation,
                              "rhs": math_pair(e.rhs)} for e in recovery.relations
                             if not isinstance(e.lhs, Head)]
     return out
+
+
+def _sentence(sentence: str) -> str:
+    """An engine sentence with its marked names and signs in Unicode (``$x$`` -> ``x``)."""
+    from dualize.render.text import TextFormatter
+
+    return TextFormatter().prose(sentence)
 
 
 def diagnostic_json(d: Diagnostic) -> dict[str, Any]:
@@ -209,7 +222,7 @@ def derivation_json(derivation: Derivation, analysis: Analysis | None = None) ->
         "steps": [step_json(s) for s in derivation.steps],
         "kkt": [kkt_json(c) for c in derivation.kkt],
         "recovery": [recovery_json(r) for r in derivation.recovery],
-        "notes": list(derivation.notes),
+        "notes": [_sentence(n) for n in derivation.notes],
         "diagnostics": [diagnostic_json(d) for d in diagnostics],
         "caution": CAUTION,
     }

@@ -7,12 +7,12 @@
 
 from __future__ import annotations
 
-import re
+import textwrap
 from typing import Any
 
-from dualize.duality.result import Derivation, DualVariable
+from dualize.duality.result import Derivation
 from dualize.model import expr as ir
-from dualize.model.problem import Variable
+from dualize.render.caution import CAUTION
 from dualize.render.document import (
     Analysis,
     DocumentView,
@@ -21,9 +21,16 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
+from dualize.render.formatter import TargetFormatter
+from dualize.render.latex_breaks import (
+    DISPLAY_WIDTH,
+    INLINE_WIDTH,
+    broken,
+    displayed,
+    visible_width,
+)
 from dualize.render.latex_chars import math_symbol, text_character
-from dualize.render.latex_printer import IRLatexPrinter, latex_expr, latex_relation, latex_terms
-from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
+from dualize.render.latex_printer import RELATIONS, IRLatexPrinter, latex_expr
 from dualize.render.templating import fill
 
 __all__ = ["LatexFormatter", "latex_expr", "render_latex", "repr_latex"]
@@ -36,17 +43,9 @@ _SET_BASE: dict[str, tuple[str, str]] = {
 }
 
 
-def latex_prose(text: str) -> str:
-    """Plain sentences made safe for LaTeX; Greek names and math signs go to math mode."""
-    out = []
-    for kind, piece in prose_pieces(text):
-        if kind == "name":
-            out.append(f"${latex_name(piece)}$")
-        elif kind == "relation":
-            out.append(f"${latex_relation(PROSE_RELATIONS[piece])}$")
-        else:
-            out.append(_escape_text(piece))
-    return "".join(out)
+def latex_prose(text: str, formulas: tuple[tuple[str, object], ...] = ()) -> str:
+    """Plain sentences made safe for LaTeX; names, signs and marked formulas in math mode."""
+    return LatexFormatter().prose(text, formulas)
 
 
 def _escape_text(text: str) -> str:
@@ -93,34 +92,19 @@ def _bound(node: ir.Expr | None) -> str:
     return "?" if node is None else latex_expr(node)
 
 
-class LatexFormatter:
+class LatexFormatter(TargetFormatter):
     """The LaTeX spelling of every piece a document shows."""
 
-    def __init__(self, **settings: Any) -> None:
-        self.settings = settings
+    printer = IRLatexPrinter
+    relations = RELATIONS
+    set_of = staticmethod(latex_set)
+    words = staticmethod(_escape_text)
 
-    def expr(self, node: ir.Expr) -> str:
-        return latex_expr(node, **self.settings)
-
-    def relation(self, relation: str) -> str:
-        return latex_relation(relation)
-
-    def name(self, name: str) -> str:
-        return latex_name(name)
-
-    def domain(self, variable: Variable) -> str:
-        d = variable.domain
-        return latex_set(d.kind, variable.symbol.shape, d.lo, d.hi)
-
-    def dual_set(self, variable: DualVariable) -> str:
-        return latex_set("symmetric" if variable.set == "symmetric" else "free",
-                         variable.symbol.shape)
-
-    def prose(self, text: str) -> str:
-        return latex_prose(text)
-
-    def terms(self, node: ir.Expr) -> tuple[str, ...]:
-        return latex_terms(node, **self.settings)
+    def inline(self, math: str) -> str:
+        """Inline mathematics; a formula too wide for a line is displayed instead."""
+        if visible_width(math) > INLINE_WIDTH:
+            return "\n" + displayed(math) + "\n"
+        return f"${math}$"
 
     def gradient(self, variable: str, of: str) -> str:
         return rf"\nabla_{{{variable}}} {of}"
@@ -131,7 +115,8 @@ def problem_block(view: ProblemView) -> str:
     over = r",\, ".join(view.over)
     sense = rf"\text{{{view.sense}}}"
     lead = rf"\underset{{{over}}}{{{sense}}}" if over else sense
-    rows = [rf"{lead} \quad & {_objective(view)}"]
+    objective = broken(_objective(view), first=visible_width(lead) + 4)
+    rows = [rf"{lead} \quad & {objective}"]
     for index, line in enumerate(view.lines):
         lead = r"\text{subject to} \quad " if index == 0 else ""
         rows.append(f"{lead}& {_relation_row(line)}{_tag(line)}")
@@ -155,10 +140,12 @@ def _tag(line: Line) -> str:
     return rf" && \quad \text{{({line.note})}}" if line.note else ""
 
 
-def align_block(lines: tuple[Line, ...]) -> str:
-    """Equations of one step, aligned at their relation signs."""
+def align_block(lines: tuple[Line, ...], environment: str = "align*") -> str:
+    """Equations of one step, aligned at their relation signs (``align*`` in a paper,
+    ``aligned`` inside a Markdown ``$$`` block)."""
     rows = [_align_row(line) for line in lines]
-    return "\\begin{align*}\n" + " \\\\\n".join(rows) + "\n\\end{align*}"
+    return (f"\\begin{{{environment}}}\n" + " \\\\\n".join(rows)
+            + f"\n\\end{{{environment}}}")
 
 
 def _align_row(line: Line) -> str:
@@ -167,32 +154,13 @@ def _align_row(line: Line) -> str:
     return f"{line.lhs} &{line.relation} {broken_rhs(line)}{_note(line)}"
 
 
-LINE_WIDTH = 64
+LINE_WIDTH = DISPLAY_WIDTH
 """Visible characters of mathematics that fit beside a left-hand side on a page."""
 
 
 def broken_rhs(line: Line) -> str:
-    """A long sum broken after whole terms onto continuation rows ``& \\quad + ...``."""
-    if visible_width(line.rhs) + visible_width(line.lhs) <= LINE_WIDTH or len(
-            line.rhs_terms) < 2:
-        return line.rhs
-    rows: list[list[str]] = [[]]
-    width = visible_width(line.lhs)
-    for term in line.rhs_terms:
-        if rows[-1] and width + visible_width(term) > LINE_WIDTH:
-            rows.append([])
-            width = 4
-        rows[-1].append(term)
-        width += visible_width(term) + 1
-    return " \\\\\n&\\quad ".join(" ".join(row) for row in rows)
-
-
-def visible_width(latex: str) -> int:
-    """A rough count of the characters a formula shows: commands count one, markup none."""
-    shown = re.sub(r"\\(left|right|quad|,|;|!)", "", latex)
-    shown = re.sub(r"\\(mathbf|mathrm|operatorname|text|tfrac|frac)", "", shown)
-    shown = re.sub(r"\\[A-Za-z]+", "x", shown)
-    return len(re.sub(r"[{}^_\s]", "", shown))
+    """A long right-hand side broken after whole terms onto rows ``& \\quad + ...``."""
+    return broken(line.rhs, first=visible_width(line.lhs))
 
 
 def _note(line: Line) -> str:
@@ -232,7 +200,13 @@ def render_latex(derivation: Derivation, analysis: Analysis | None = None,
     view = build_view(derivation, analysis, LatexFormatter())
     comment = f"Lagrange dual of {derivation.problem.path}; needs amsmath and amssymb."
     return fill("derivation.tex.j2", standalone=standalone, comment=comment,
-                **_context(view))
+                caution_comment=comment_lines(CAUTION), **_context(view))
+
+
+def comment_lines(text: str, width: int = 76) -> list[str]:
+    """The caution as the lines of a LaTeX comment block: kept with the file, silent on the
+    page, so a paper can include the fragment as it is."""
+    return textwrap.wrap("Caution: " + text.replace("%", r"\%"), width)
 
 
 def repr_latex(derivation: Derivation) -> str:

@@ -17,9 +17,8 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
-from dualize.render.latex import LatexFormatter, broken_rhs, problem_block
-from dualize.render.latex_printer import latex_relation
-from dualize.render.names import PROSE_RELATIONS, latex_name, prose_pieces
+from dualize.render.latex import LatexFormatter, align_block, problem_block
+from dualize.render.latex_breaks import CONTINUATION, INLINE_WIDTH, broken, visible_width
 from dualize.render.templating import fill
 
 __all__ = ["MarkdownFormatter", "render_markdown", "repr_markdown"]
@@ -27,24 +26,23 @@ __all__ = ["MarkdownFormatter", "render_markdown", "repr_markdown"]
 _MARKDOWN_SPECIAL = frozenset("\\*_`$[]#")
 
 
-def markdown_prose(text: str) -> str:
-    """Sentences with Markdown's special characters escaped and Greek names as inline math."""
-    out = []
-    for kind, piece in prose_pieces(text):
-        if kind == "name":
-            out.append(f"${latex_name(piece)}$")
-        elif kind == "relation":
-            out.append(f"${latex_relation(PROSE_RELATIONS[piece])}$")
-        else:
-            out.append("".join("\\" + c if c in _MARKDOWN_SPECIAL else c for c in piece))
-    return "".join(out)
-
-
 class MarkdownFormatter(LatexFormatter):
     """LaTeX mathematics with Markdown prose."""
 
-    def prose(self, text: str) -> str:
-        return markdown_prose(text)
+    def words(self, text: str) -> str:
+        return "".join("\\" + c if c in _MARKDOWN_SPECIAL else c for c in text)
+
+    def inline(self, math: str) -> str:
+        """Inline mathematics; a formula too wide for a line gets a ``$$`` block of its own."""
+        if visible_width(math) <= INLINE_WIDTH:
+            return f"${math}$"
+        rows = broken(math, joint=" \\\\\n&" + CONTINUATION)
+        return "\n\n" + display("\\begin{aligned}\n&" + rows + "\n\\end{aligned}") + "\n\n"
+
+
+def markdown_prose(text: str) -> str:
+    """Sentences with Markdown's special characters escaped and mathematics inline."""
+    return MarkdownFormatter().prose(text)
 
 
 def display(body: str) -> str:
@@ -62,15 +60,7 @@ def _guard(line: str) -> str:
 
 def aligned(lines: tuple[Line, ...]) -> str:
     """Equations aligned at their relation signs, in an ``aligned`` environment."""
-    rows = [_row(line) for line in lines]
-    return "\\begin{aligned}\n" + " \\\\\n".join(rows) + "\n\\end{aligned}"
-
-
-def _row(line: Line) -> str:
-    if not line.relation:
-        return rf"& \text{{{line.note}}}"
-    return f"{line.lhs} &{line.relation} {broken_rhs(line)}" + (
-        rf" \quad \text{{({line.note})}}" if line.note else "")
+    return align_block(lines, "aligned")
 
 
 def _verdict_rows(view: DocumentView) -> list[str]:

@@ -101,25 +101,30 @@ def text_name(name: str) -> str:
     return base + small if small is not None else f"{base}_{sub}"
 
 
-_PROSE_TOKEN = re.compile(r"(?<![\w\\])([A-Za-z]+(?:_?[A-Za-z0-9]+)?)(?![\w])|(<=|>=|==|!=)")
+_PROSE_TOKEN = re.compile(
+    r"\$([^$]+)\$|(?<![\w\\])([A-Za-z]+(?:_?[A-Za-z0-9]+)?)(?![\w])|(<=|>=|==|!=)")
 PROSE_RELATIONS: dict[str, str] = {"<=": "<=", ">=": ">=", "==": "=", "!=": "!="}
 
 
 def prose_pieces(text: str) -> list[tuple[str, str]]:
-    """A sentence cut into plain text, Greek names (``alpha_i``) and relation signs.
+    """A sentence cut into plain text, marked formulas, Greek names and relation signs.
 
-    Engine sentences say "beta >= 0"; readers expect the letter and the sign, so
-    each target shows these pieces as mathematics and leaves the rest as words.
+    Engine sentences mark their mathematics as ``$key$`` (a name, or the key of a
+    formula the step carries); an unmarked "beta >= 0" still shows the letter and
+    the sign, so each target sets these pieces as mathematics and the rest as words.
     """
     pieces: list[tuple[str, str]] = []
     last = 0
     for match in _PROSE_TOKEN.finditer(text):
-        word, relation = match.group(1), match.group(2)
+        marked, word, relation = match.group(1), match.group(2), match.group(3)
         if word is not None and split_name(word).base not in GREEK:
             continue
         if match.start() > last:
             pieces.append(("text", text[last:match.start()]))
-        pieces.append(("name", word) if word is not None else ("relation", relation))
+        if marked is not None:
+            pieces.append(("math", marked))
+        else:
+            pieces.append(("name", word) if word is not None else ("relation", relation))
         last = match.end()
     if last < len(text):
         pieces.append(("text", text[last:]))

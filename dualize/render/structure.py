@@ -199,7 +199,8 @@ def ordered_terms(node: ir.Add) -> tuple[ir.Expr, ...]:
         return tuple(ordered)
     lead_rank = _term_rank(positive[0], roles)
     lead = [t for t in positive if _term_rank(t, roles) == lead_rank]
-    return tuple(lead + [t for t in ordered if all(t is not p for p in lead)])
+    chosen = {id(p) for p in lead}
+    return tuple(lead + [t for t in ordered if id(t) not in chosen])
 
 
 PRIMAL = frozenset({"variable", "auxiliary"})
@@ -265,39 +266,3 @@ def _max_degree(children: tuple[ir.Expr, ...], roles: frozenset[str]) -> int | N
 def _sum_degree(children: tuple[ir.Expr, ...], roles: frozenset[str]) -> int | None:
     degrees = [degree(c, roles) for c in children]
     return None if None in degrees else sum(degrees)  # type: ignore[arg-type]
-
-
-class SharedLeaves:
-    """Printing rules the LaTeX and text printers share: the ones vector, the
-    identity, zero, and sums with their signs.  Mixed in before the sympy printer,
-    it needs ``wrap`` and the settings ``ones``, ``identity`` and ``order_terms``."""
-
-    _settings: dict
-
-    def wrap(self, node: ir.Expr, bound: int) -> str:  # pragma: no cover - overridden
-        raise NotImplementedError
-
-    def _print_ir_Ones(self, node: ir.Ones) -> str:  # noqa: N802
-        return self._settings["ones"]
-
-    def _print_ir_Identity(self, node: ir.Identity) -> str:  # noqa: N802
-        return self._settings["identity"]
-
-    def _print_ir_Zero(self, node: ir.Zero) -> str:  # noqa: N802
-        return "0"
-
-    def _print_ir_Add(self, node: ir.Add) -> str:  # noqa: N802
-        return " ".join(self.add_pieces(node))
-
-    def add_pieces(self, node: ir.Add) -> list[str]:
-        """The terms of a sum as printed, each but the first with its sign: ``a``, ``- b``."""
-        terms = ordered_terms(node) if self._settings["order_terms"] else flat_terms(node)
-        pieces = []
-        for index, term in enumerate(terms):
-            negative, magnitude = split_sign(term)
-            shown = self.wrap(magnitude, NEG if negative else ADD)
-            if index == 0:
-                pieces.append(("-" if negative else "") + shown)
-            else:
-                pieces.append(("- " if negative else "+ ") + shown)
-        return pieces

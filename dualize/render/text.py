@@ -9,9 +9,8 @@ from __future__ import annotations
 
 from typing import Any
 
-from dualize.duality.result import Derivation, DualVariable
+from dualize.duality.result import Derivation
 from dualize.model import expr as ir
-from dualize.model.problem import Variable
 from dualize.render.document import (
     Analysis,
     DocumentView,
@@ -20,9 +19,10 @@ from dualize.render.document import (
     build_view,
     unbounded_sentence,
 )
-from dualize.render.names import PROSE_RELATIONS, prose_pieces, text_name, unicode_subscript
+from dualize.render.formatter import TargetFormatter
+from dualize.render.names import unicode_subscript
 from dualize.render.templating import fill
-from dualize.render.text_printer import text_expr, text_relation, text_terms
+from dualize.render.text_printer import RELATIONS, IRTextPrinter, text_expr, unicode_scalar
 
 __all__ = ["TextFormatter", "render_text", "text_expr"]
 
@@ -45,17 +45,9 @@ def paint(text: str, style: str, color: bool) -> str:
     return f"\x1b[{_STYLES[style]}m{text}\x1b[0m"
 
 
-def text_prose(text: str) -> str:
-    """Sentences with Greek names as letters and ``>=`` as ``≥``."""
-    out = []
-    for kind, piece in prose_pieces(text):
-        if kind == "name":
-            out.append(text_name(piece))
-        elif kind == "relation":
-            out.append(text_relation(PROSE_RELATIONS[piece]))
-        else:
-            out.append(piece)
-    return "".join(out)
+def text_prose(text: str, formulas: tuple[tuple[str, object], ...] = ()) -> str:
+    """Sentences with Greek names as letters, ``>=`` as ``≥`` and formulas in Unicode."""
+    return TextFormatter().prose(text, formulas)
 
 
 def text_set(kind: str, shape: ir.Shape, lo: ir.Expr | None = None,
@@ -77,31 +69,21 @@ def _size(size: Any) -> str:
     return shown if shown.isalnum() else f"({shown})"
 
 
-class TextFormatter:
+class TextFormatter(TargetFormatter):
     """The terminal spelling of every piece a document shows."""
 
-    def expr(self, node: ir.Expr) -> str:
-        return text_expr(node)
+    printer = IRTextPrinter
+    relations = RELATIONS
+    set_of = staticmethod(text_set)
 
-    def relation(self, relation: str) -> str:
-        return text_relation(relation)
+    def words(self, text: str) -> str:
+        return text
 
-    def name(self, name: str) -> str:
-        return text_name(name)
+    def inline(self, math: str) -> str:
+        return math
 
-    def domain(self, variable: Variable) -> str:
-        d = variable.domain
-        return text_set(d.kind, variable.symbol.shape, d.lo, d.hi)
-
-    def dual_set(self, variable: DualVariable) -> str:
-        kind = "symmetric" if variable.set == "symmetric" else "free"
-        return text_set(kind, variable.symbol.shape)
-
-    def prose(self, text: str) -> str:
-        return text_prose(text)
-
-    def terms(self, node: ir.Expr) -> tuple[str, ...]:
-        return text_terms(node)
+    def scalar(self, value: Any) -> str:
+        return unicode_scalar(value)
 
     def gradient(self, variable: str, of: str) -> str:
         small = unicode_subscript(variable)

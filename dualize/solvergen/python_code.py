@@ -13,7 +13,6 @@ constant computed once per instance.  An IR node without a rule raises
 
 from __future__ import annotations
 
-import keyword
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -24,32 +23,11 @@ from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.functions import LOG, lookup
 from dualize.solvergen.ir_rewrite import LogSumExp, Softmax, is_scalar, is_vector_like
-
-RESERVED = frozenset({"np", "scipy", "json", "sys", "d", "z", "x", "p", "c", "math"})
-"""Names the generated module uses itself; user names equal to these get a suffix."""
+from dualize.solvergen.pynames import python_names  # noqa: F401 - re-exported
 
 
 class UnknownNode(DualizeError):
     """An IR node the code printer has no rule for."""
-
-
-def python_names(names: list[str]) -> dict[str, str]:
-    """Map problem names to safe Python identifiers, deterministically.
-
-    A name must be an identifier; keywords (``lambda``) and the module's own
-    names get a trailing underscore, repeated until the result is unique.
-    """
-    out: dict[str, str] = {}
-    taken: set[str] = set()
-    for name in sorted(set(names)):
-        if not name.isidentifier() or name.startswith("_"):
-            raise DualizeError(f"the name {name!r} cannot be used in a Python module", 2)
-        ident = name
-        while keyword.iskeyword(ident) or ident in RESERVED or ident in taken:
-            ident += "_"
-        out[name] = ident
-        taken.add(ident)
-    return out
 
 
 @dataclass
@@ -310,6 +288,12 @@ class NumpyPrinter(Printer):
         return self._right_to_left(factors)
 
     def _right_to_left(self, factors: tuple[ir.Expr, ...]) -> str:
+        if len(factors) > 1 and isinstance(factors[-1], ir.Diag):
+            # a trailing diagonal scales columns: never an m x m np.diag
+            rest = factors[:-1]
+            acc = self._print(rest[0]) if len(rest) == 1 else self._right_to_left(rest)
+            shape = ir.Shape(rest[0].shape.rows, rest[-1].shape.cols)
+            return self._apply_right(acc, shape, factors[-1])
         acc, shape = self._print(factors[-1]), factors[-1].shape
         for factor in reversed(factors[:-1]):
             acc = self._apply_left(factor, acc, shape)

@@ -68,6 +68,8 @@ class Spec:
     restricted: object = None
     lagrangian: object = None
     lagrangian_domain: object = None
+    cones: object = None
+    hessian_diagonal: object = None
     caution: str = ""
 
 
@@ -262,10 +264,24 @@ def _read_dims(p, data):
     return dims
 
 
+def _normalized(data):
+    """Keys as the problem's names are: after Unicode compatibility normalization (NFKC)."""
+    import unicodedata
+
+    out = {}
+    for key, value in data.items():
+        name = unicodedata.normalize("NFKC", key)
+        if name in out:
+            raise InputError(f"{name}: given twice (keys equal after Unicode normalization)")
+        out[name] = value
+    return out
+
+
 def _read(p, data):
     """The instance's data checked against the declarations, sizes bound, facts tested."""
     if not isinstance(data, dict):
         raise InputError("the instance must be a JSON object mapping names to values")
+    data = _normalized(data)
     known = {row[0] for row in p.data} | set(p.dims)
     unknown = sorted(set(data) - known)
     if unknown:

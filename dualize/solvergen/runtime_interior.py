@@ -66,6 +66,8 @@ def _gram_factor(p, d, size, probes=48):
             good = np.abs(exact - factor @ (factor.T @ check)).max() <= 1e-8 * scale
             return factor if good else None
         probes *= 2
+        if 4 * probes > size:  # past a quarter of the size a dense factor is as cheap
+            return None
     return None
 
 
@@ -198,18 +200,7 @@ def _with_slacks(p, d, z0, lo, hi):
     a = np.vstack(rows) if rows else None
     b = None if a is None else np.concatenate([v for v in (b_eq, b_ub) if v is not None])
 
-    def widened(h):
-        return h if not extra else scipy.linalg.block_diag(h, np.zeros((extra, extra)))
-
-    fixed = None
-    if p.constant_hessian:
-        fixed = _structured_hessian(p, d, size, extra, lo, hi)
-        if fixed is None:
-            fixed = (widened(p.hessian(z0, d)), None, 0.0)
-
-    def hessian(z):
-        return fixed if fixed is not None else (widened(p.hessian(z[:size], d)), None, 0.0)
-
+    hessian = _hessian_function(p, d, z0, extra, lo, hi)
     def objective(z):
         return p.objective(z[:size], d)
 
@@ -222,6 +213,28 @@ def _with_slacks(p, d, z0, lo, hi):
         start = np.concatenate([z0, np.where(room > 1e-8, room, 1.0)])
     return (objective, gradient, hessian, a, b, start,
             np.concatenate([lo, np.zeros(extra)]), np.concatenate([hi, np.full(extra, np.inf)]))
+
+
+def _hessian_function(p, d, z0, extra, lo, hi):
+    """z -> (dense matrix or None, Gram factor or None, diagonal) on (z, slacks): the
+    diagonal printed for a structurally diagonal Hessian; a constant Hessian looked at
+    once (diagonal, low-rank Gram, else dense); otherwise the dense Hessian at z."""
+    size = len(z0)
+
+    def widened(h):
+        return h if not extra else scipy.linalg.block_diag(h, np.zeros((extra, extra)))
+
+    if p.hessian_diagonal is not None and p.hessian_diagonal(z0, d) is not None:
+        def diagonal(z):
+            values = np.concatenate([p.hessian_diagonal(z[:size], d), np.zeros(extra)])
+            return None, np.zeros((size + extra, 0)), values
+
+        return diagonal
+    if p.constant_hessian:
+        fixed = _structured_hessian(p, d, size, extra, lo, hi)
+        fixed = fixed if fixed is not None else (widened(p.hessian(z0, d)), None, 0.0)
+        return lambda z: fixed
+    return lambda z: (widened(p.hessian(z[:size], d)), None, 0.0)
 
 
 def _structured_hessian(p, d, size, extra, lo, hi):
@@ -271,18 +284,23 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
         weights = np.where(low, wl / it.sl, 0.0) + np.where(up, wu / it.su, 0.0)
         dense, factor, diagonal = hessian(z)
         solve = _kkt_solver(dense, factor, weights + diagonal, a)
-        dz, _, dwl, dwu = it.direction(solve, dual_res, primal_res, 0.0, 0.0)
-        predicted = it.gap_after(it.longest(dz, dwl, dwu), dz, dwl, dwu) / count
-        sigma = (max(predicted, 0.0) / mu) ** 3 if mu > 0 else 0.0
-        dz, dy, dwl, dwu = it.direction(solve, dual_res, primal_res,
-                                        sigma * mu - np.where(low, dz, 0.0) * dwl,
-                                        sigma * mu + np.where(up, dz, 0.0) * dwu)
+        dz, dy, dwl, dwu = _mehrotra(it, solve, dual_res, primal_res, mu, count)
         dy = np.zeros_like(y) if dy is None else dy
         step = _damped(objective, z, dz, 0.995 * it.longest(dz, dwl, dwu))
         if step == 0.0:
             return z[:len(z0)], False, "interior point: no step keeps the objective finite"
         z, y, wl, wu = z + step * dz, y + step * dy, wl + step * dwl, wu + step * dwu
     return z[:len(z0)], False, "interior point: iteration limit reached"
+
+
+def _mehrotra(it, solve, dual_res, primal_res, mu, count):
+    """The predictor step, then the corrector toward sigma mu with sigma = (mu_aff/mu)^3."""
+    dz, _, dwl, dwu = it.direction(solve, dual_res, primal_res, 0.0, 0.0)
+    predicted = it.gap_after(it.longest(dz, dwl, dwu), dz, dwl, dwu) / count
+    sigma = (max(predicted, 0.0) / mu) ** 3 if mu > 0 else 0.0
+    return it.direction(solve, dual_res, primal_res,
+                        sigma * mu - np.where(it.low, dz, 0.0) * dwl,
+                        sigma * mu + np.where(it.up, dz, 0.0) * dwu)
 
 
 def _damped(objective, z, dz, step):

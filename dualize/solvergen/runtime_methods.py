@@ -66,14 +66,19 @@ def _solve_linprog(p, d, z0, lo, hi, tol, max_iter):
         bounds=list(zip(lo, hi, strict=True)), method="highs",
         options={"maxiter": max_iter, "primal_feasibility_tolerance": max(tol, 1e-10)},
     )
-    if res.status in (2, 3):  # HiGHS proved the (negated) dual infeasible or unbounded
-        raise NoFiniteDual("infeasible" if res.status == 2 else "unbounded", str(res.message))
+    if res.status == 2:  # HiGHS proved the (negated) dual infeasible or unbounded
+        raise NoFiniteDual("infeasible", "HiGHS proved that no multipliers meet the dual's "
+                           "constraints")
+    if res.status == 3:
+        raise NoFiniteDual("unbounded", "HiGHS found the dual objective unbounded")
     z = res.x if res.x is not None else z0
     if res.status == 0:
         _keep_multipliers(p, z, d, res.ineqlin.marginals if a_ub is not None else [],
                           res.eqlin.marginals if a_eq is not None else [],
                           (res.lower.marginals, res.upper.marginals))
-    return z, res.status == 0, res.message
+    words = {0: "the linear program was solved to HiGHS's tolerances",
+             1: "HiGHS hit its iteration limit"}
+    return z, res.status == 0, words.get(res.status, "HiGHS ran into numerical difficulty")
 
 
 def _walled(fun, z0):

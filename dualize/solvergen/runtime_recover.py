@@ -38,8 +38,10 @@ def _fill_unrecovered(p, x, z, d, dual_value):
 def _candidates(rows, size):
     """Vectors that may be a primal variable of ``size`` entries: each block of the dual's
     multipliers of that size and the difference of two (the two sides of a norm ball,
-    whose multipliers give a variable's positive and negative parts), with either sign."""
-    same = [r for r in rows if r.size == size and np.all(np.isfinite(r))]
+    whose multipliers give a variable's positive and negative parts), with either sign;
+    a matrix variable (``size`` None) from the multiplier of a semidefinite constraint."""
+    fits = (lambda r: r.ndim == 2) if size is None else (lambda r: r.size == size)
+    same = [r for r in rows if fits(r) and np.all(np.isfinite(r))]
     found = [r for r in same]
     found += [same[i] - same[j] for i in range(len(same)) for j in range(i + 1, len(same))]
     return [sign * r for r in found for sign in (1.0, -1.0)]
@@ -56,9 +58,9 @@ def _fill_by_multipliers(p, x, d, dual_value):
     rows = d.get("_row_multipliers")
     if not rows or dual_value is None:
         return False
-    spec = p.unknowns(d)
+    spec = p.unknowns(d) or [(name, None, -np.inf, np.inf) for name in p.unrecovered]
     choices = [_candidates(rows, size) for _, size, _, _ in spec]
-    if not all(choices) or np.prod([len(c) for c in choices]) > 256:
+    if not spec or not all(choices) or np.prod([len(c) for c in choices]) > 256:
         return False
     for pick in np.ndindex(*[len(c) for c in choices]):
         trial = dict(x)
@@ -91,7 +93,8 @@ def _fill_by_linear_program(p, x, d):
         bounds=bounds, method="highs",
     )
     if res.status != 0:
-        return f"the linear program over the unrecovered variables failed: {res.message}"
+        return "the linear program over the unrecovered variables has no solution (HiGHS " \
+            f"status {res.status})"
     values = np.split(res.x, np.cumsum([size for _, size, _, _ in variables])[:-1])
     _place(p, x, [(name, size) for name, size, _, _ in variables], values)
     return None

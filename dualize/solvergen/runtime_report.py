@@ -19,13 +19,14 @@ from dualize.solvergen.runtime import (
     _split,
     load_instance,
 )
+from dualize.solvergen.runtime_conic import NeedsConicSolver, _solve_conic
 from dualize.solvergen.runtime_interior import _solve_interior
+from dualize.solvergen.runtime_lp import _solve_lp
 from dualize.solvergen.runtime_methods import (
     _domain_start,
     _finite_at,
     _solve_augmented,
     _solve_lbfgsb,
-    _solve_linprog,
     _solve_slsqp,
     _start,
 )
@@ -34,11 +35,12 @@ from dualize.solvergen.runtime_recover import _listed, _primal_report
 # ---- copied into the generated module from here ----
 
 SOLVERS = {
-    "linprog": _solve_linprog,
+    "linprog": _solve_lp,
     "lbfgsb": _solve_lbfgsb,
     "interior": _solve_interior,
     "augmented": _solve_augmented,
     "slsqp": _solve_slsqp,
+    "conic": _solve_conic,
 }
 
 
@@ -55,10 +57,6 @@ def _dual_point(p, d, lo, hi, tol, max_iter):
     return (start, *SOLVERS[p.method](p, d, start, lo, hi, tol, max_iter))
 
 
-class NeedsConicSolver(Exception):
-    """The dual has a semidefinite constraint: exit status 2."""
-
-
 def run(p, data, tol=1e-9, max_iter=20000):
     """Solve the dual of ``p`` on ``data`` (a dict of name -> number or nested list).
 
@@ -66,9 +64,6 @@ def run(p, data, tol=1e-9, max_iter=20000):
     every constraint within VIOLATION_TOL, the multipliers meet the dual's within the
     same, and primal and dual values agree within GAP_TOL (1 + |p| + |d|).
     """
-    if p.method == "conic":
-        raise NeedsConicSolver("this dual has a semidefinite constraint: it needs a conic "
-                               "(SDP) solver, which this module does not include")
     d = _read(p, data)
     with np.errstate(all="ignore"), _blas_threads():
         d.update(p.prepare(d))

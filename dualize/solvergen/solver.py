@@ -11,15 +11,17 @@ pastes no user text except validated identifiers.
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 from dualize.duality.result import Derivation
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
+from dualize.model.ops import is_zero
 from dualize.render.caution import CAUTION
 from dualize.solvergen.ir_rewrite import length
+from dualize.solvergen.pynames import literal
 from dualize.solvergen.python_code import python_names
+from dualize.solvergen.solver_conic import conic_plan
 from dualize.solvergen.solver_emit import Emitter, Scope, function
 from dualize.solvergen.solver_plan import Plan, is_conic, make_plan
 from dualize.solvergen.solver_recover import (
@@ -34,7 +36,8 @@ from dualize.solvergen.solver_recover import (
 )
 from dualize.solvergen.solver_text import docstring
 
-RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_recover", "runtime_report")
+RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_lp", "runtime_conic",
+           "runtime_recover", "runtime_report")
 """The runtime modules, in the order their sources are copied into a generated module."""
 MARKER = "# ---- copied into the generated module from here ----\n"
 
@@ -62,9 +65,7 @@ def render_solver(derivation: Derivation) -> str:
             "cannot generate a solver: the dual has no closed form (the Lagrangian is "
             f"still minimized over {inner})", 2
         )
-    if is_conic(dual):
-        return _render_conic(derivation, _scope(derivation))
-    plan = make_plan(dual)
+    plan = conic_plan(dual) if is_conic(dual) else make_plan(dual)
     rule = choose(derivation, missing_of(derivation))
     return _render(derivation, plan, rule, _scope(derivation, plan.auxiliary, rule.auxiliary))
 
@@ -134,6 +135,45 @@ def _hessian(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     return function(emitter, "def _hessian(z, d):", body, used)
 
 
+def diagonal_of(expr: ir.Expr) -> ir.Expr | None:
+    """The vector v when ``expr`` is diag(v) by its structure (sums and scalings of diagonal
+    matrices, identities, zeros), else None."""
+    if isinstance(expr, ir.Diag):
+        return expr.arg
+    if isinstance(expr, ir.Identity):
+        return ir.Ones(expr.n)
+    if isinstance(expr, ir.Zero) and expr.shape.rows == expr.shape.cols:
+        return ir.Zero(ir.Shape(expr.shape.rows, 1))
+    if isinstance(expr, ir.Scale):
+        inner = diagonal_of(expr.arg)
+        return None if inner is None else ir.Scale(expr.factor, inner)
+    if isinstance(expr, ir.Add):
+        terms = [diagonal_of(t) for t in expr.terms]
+        return None if any(t is None for t in terms) else ir.Add(tuple(terms))  # type: ignore
+    return None
+
+
+def _hessian_diagonal(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    """``_hessian_diagonal(z, d)``: the Hessian's diagonal when the Hessian is diagonal by
+    its structure (zero blocks off the diagonal), so that no m x m matrix is formed."""
+    none = "def _hessian_diagonal(z, d):\n    return None"
+    if plan.hessian is None:
+        return none
+    pieces, used = [], set()
+    for i, (row, symbol) in enumerate(zip(plan.hessian, symbols, strict=True)):
+        if any(j != i and not is_zero(block) for j, block in enumerate(row)):
+            return none
+        vector = row[i] if symbol.shape.is_scalar else diagonal_of(row[i])
+        if vector is None:
+            return none
+        code, reads = emitter.code(vector, hoist=not plan.constant_hessian)
+        size, sreads = emitter.size(length(symbol.shape))
+        used |= reads | sreads
+        pieces.append(f"_flat({code}, {size})")
+    body = [f"return np.concatenate([{', '.join([*pieces, 'np.zeros(0)'])}])"]
+    return function(emitter, "def _hessian_diagonal(z, d):", body, used)
+
+
 def _bounds(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
     body, used = ["sizes = _dual_sizes(d)", "lo = [np.full(s, -np.inf) for s in sizes]",
                   "hi = [np.full(s, np.inf) for s in sizes]"], set()
@@ -176,7 +216,7 @@ def _recovery(emitter: Emitter, derivation: Derivation) -> str:
         if rec.formula is not None:
             code, reads = emitter.code(rec.formula)
             used |= reads
-            body.append(f"x[{json.dumps(rec.variable)}] = {code}")
+            body.append(f"x[{literal(rec.variable)}] = {code}")
     body.append("return x")
     return function(emitter, "def _recover(z, d):", body, used)
 
@@ -194,6 +234,18 @@ def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
     return function(emitter, "def _primal(x, d):", body, used)
 
 
+def _cones(emitter: Emitter, plan: Plan) -> str:
+    """``_cones(z, d)``: the matrices that must be positive semidefinite (a conic dual)."""
+    body, used = ["out = []"], set()
+    for matrix in plan.cones:
+        code, reads = emitter.code(matrix)
+        size, sreads = emitter.size(matrix.shape.rows)
+        used |= reads | sreads
+        body.append(f"out.append(_block({code}, {size}, {size}))")
+    body.append("return out")
+    return function(emitter, "def _cones(z, d):", body, used)
+
+
 def _prepare(emitter: Emitter) -> str:
     """Constants are emitted last-registered last, so each sees the ones it reads."""
     body, reads = [], set()
@@ -201,7 +253,7 @@ def _prepare(emitter: Emitter) -> str:
         reads |= {u for u in used if not u.startswith("_k")}
         body.append(f"{name} = {code}")
     names = [n for n, _, _ in emitter.constants.entries]
-    body.append("return {" + ", ".join(f"{json.dumps(n)}: {n}" for n in names) + "}")
+    body.append("return {" + ", ".join(f"{literal(n)}: {n}" for n in names) + "}")
     return function(emitter, "def _prepare(d):", body, reads)
 
 
@@ -211,8 +263,8 @@ def _declarations(derivation: Derivation, scope: Scope) -> str:
     for decl in derivation.problem.data:
         shape = decl.symbol.shape
         facts = sorted(decl.symbol.facts)
-        rows.append(f"    ({json.dumps(decl.name)}, {_size_spec(shape.rows)}, "
-                    f"{_size_spec(shape.cols)}, {json.dumps(facts)}),")
+        rows.append(f"    ({literal(decl.name)}, {_size_spec(shape.rows)}, "
+                    f"{_size_spec(shape.cols)}, {literal(facts)}),")
     return "DATA = [\n" + "\n".join(rows) + "\n]" if rows else "DATA = []"
 
 
@@ -221,7 +273,7 @@ def _size_spec(size: object) -> str:
     if text.isdigit():
         return text
     if text.isidentifier():
-        return json.dumps(text)
+        return literal(text)
     raise DualizeError(f"cannot generate a solver: a data size {text} is not a plain name", 2)
 
 
@@ -231,19 +283,19 @@ def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagra
     problem = derivation.problem
     dual = derivation.dual
     entries = [
-        ("method", json.dumps(method)),
-        ("dual_names", json.dumps([v.name for v in dual.variables])),
-        ("dual_sense", json.dumps(dual.sense)),
-        ("primal_sense", json.dumps(problem.sense)),
-        ("primal_names", json.dumps([v.name for v in problem.variables])),
+        ("method", literal(method)),
+        ("dual_names", literal([v.name for v in dual.variables])),
+        ("dual_sense", literal(dual.sense)),
+        ("primal_sense", literal(problem.sense)),
+        ("primal_names", literal([v.name for v in problem.variables])),
         ("primal_scalar", repr([v.symbol.shape.is_scalar for v in problem.variables])),
         ("scalars", "SCALARS"),
         ("data", "DATA"),
         ("dims", "DIMS"),
-        ("unrecovered", json.dumps(dict(sorted(missing.items())))),
+        ("unrecovered", literal(dict(sorted(missing.items())))),
         ("by_lagrangian", repr(by_lagrangian)),
         ("constant_hessian", repr(constant_hessian)),
-        ("caution", json.dumps(CAUTION)),
+        ("caution", literal(CAUTION)),
     ]
     if printed:
         entries += [(name, f"_{code}") for name, code in _PRINTED]
@@ -254,7 +306,8 @@ _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "obje
             ("gradient", "gradient"), ("hessian", "hessian"), ("bounds", "bounds"),
             ("constraints", "constraints"), ("recover", "recover"), ("primal", "primal"),
             ("unknowns", "unknowns"), ("restricted", "restricted"), ("lagrangian", "lagrangian"),
-            ("lagrangian_domain", "lagrangian_domain"))
+            ("lagrangian_domain", "lagrangian_domain"), ("cones", "cones"),
+            ("hessian_diagonal", "hessian_diagonal"))
 
 
 def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
@@ -273,6 +326,7 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         _objective(emitter, plan),
         _gradient(emitter, plan, symbols),
         _hessian(emitter, plan, symbols),
+        _hessian_diagonal(emitter, plan, symbols),
         _bounds(emitter, plan, symbols),
         _constraints(emitter, plan, symbols),
         _recovery(emitter, derivation),
@@ -281,6 +335,7 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         restricted(emitter, derivation, rule),
         lagrangian(emitter, derivation, rule),
         lagrangian_domain(emitter, derivation, rule),
+        _cones(emitter, plan),
     ]
     functions.insert(0, _prepare(emitter))
     return fill(
@@ -288,25 +343,9 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
         runtime=runtime_source(),
         declarations=_declarations(derivation, scope),
-        dims=json.dumps(sorted(str(s) for s in derivation.problem.dims)),
+        dims=literal(sorted(str(s) for s in derivation.problem.dims)),
         scalars=_scalars(derivation, plan.auxiliary),
         functions="\n\n\n".join(functions),
         spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",
                    plan.constant_hessian, True),
-    )
-
-
-def _render_conic(derivation: Derivation, scope: Scope) -> str:
-    from dualize.render.templating import fill
-
-    reason = "the dual has a semidefinite constraint; it needs a conic solver"
-    return fill(
-        "solver.py.j2",
-        docstring=docstring(derivation, "conic", reason, {}),
-        runtime=runtime_source(),
-        declarations=_declarations(derivation, scope),
-        dims=json.dumps(sorted(str(s) for s in derivation.problem.dims)),
-        scalars=_scalars(derivation, ()),
-        functions="",
-        spec=_spec(derivation, "conic", {}, False, False, False),
     )

@@ -8,11 +8,11 @@ binding lines a function body needs.
 
 from __future__ import annotations
 
-import json
 from dataclasses import dataclass
 
 from dualize.model import expr as ir
 from dualize.solvergen.ir_rewrite import normalize
+from dualize.solvergen.pynames import literal
 from dualize.solvergen.python_code import Constants, NumpyPrinter, bare
 
 
@@ -52,11 +52,11 @@ class Emitter:
         for ident in sorted(used):
             name = by_ident.get(ident, ident)
             if ident.startswith("_k") or name in self.scope.data:
-                lines.append(f"{ident} = d[{json.dumps(name)}]")
+                lines.append(f"{ident} = d[{literal(name)}]")
             elif name in self.scope.dual:
                 lines.append(f"{ident} = _parts[{self.scope.dual.index(name)}]")
             elif name in self.scope.primal:
-                lines.append(f"{ident} = x[{json.dumps(name)}]")
+                lines.append(f"{ident} = x[{literal(name)}]")
         if any(by_ident.get(i) in self.scope.dual for i in used):
             lines.insert(0, "_parts = _split(z, _dual_sizes(d), SCALARS)")
         return lines

@@ -66,6 +66,8 @@ class Plan:
     """Epigraph variables of the lift; they follow the multipliers and are never reported."""
     hessian: tuple[tuple[ir.Expr, ...], ...] | None = None
     constant_hessian: bool = False
+    cones: tuple[ir.Expr, ...] = ()
+    """Matrices that must be positive semidefinite (affine in the multipliers)."""
 
 
 def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:
@@ -102,10 +104,13 @@ def make_plan(dual: DualProblem) -> Plan:
             general.append(_general(part, variables))
     linear = not any(ir.depends_on(g, names) for g in gradients)
     plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
-    if plan.method in ("augmented", "slsqp") and all(g.affine for g in general):
+    if plan.method in ("augmented", "slsqp", "lbfgsb") and all(g.affine for g in general):
         hessian = _hessian_blocks(gradients, variables)
-        if hessian is not None:
-            constant = not any(ir.depends_on(block, names) for row in hessian for block in row)
+        constant = hessian is not None and not any(
+            ir.depends_on(block, names) for row in hessian for block in row)
+        # Bounds only: L-BFGS-B stays for a nonquadratic dual; a quadratic one gets Newton
+        # steps, whose accuracy a certificate at 1e-6 needs.
+        if hessian is not None and (plan.method != "lbfgsb" or constant):
             kind = "a quadratic" if constant else "a smooth convex"
             reason = f"{kind} objective with bounds and linear constraints: a primal-dual " \
                 "interior-point method (Mehrotra predictor-corrector) on the analytic Hessian"

@@ -24,7 +24,6 @@ with the reasons of both.
 
 from __future__ import annotations
 
-import json
 from dataclasses import dataclass
 from typing import Literal
 
@@ -37,6 +36,7 @@ from dualize.model.functions import lookup
 from dualize.model.problem import Variable
 from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
 from dualize.solvergen.ir_rewrite import length, normalize
+from dualize.solvergen.pynames import literal
 from dualize.solvergen.solver_emit import Emitter, function
 from dualize.solvergen.solver_lift import MINUS, Lift, Part, Subject, epigraph_lift
 
@@ -159,7 +159,7 @@ def restricted(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
     """
     if rule.kind != "linprog" or rule.lift is None:
         text = rule.reason or "the primal is not a linear program in the unrecovered variables"
-        return f"def _restricted(x, d):\n    return {json.dumps(text)}"
+        return f"def _restricted(x, d):\n    return {literal(text)}"
     lift = rule.lift
     unknown = _unknown(derivation, missing_of(derivation))
     moving = [v.symbol for v in unknown] + list(lift.auxiliary)
@@ -207,7 +207,7 @@ def _domain_bounds(emitter: Emitter, unknown: list[Variable], used: set[str]) ->
             lo, lreads = emitter.code(var.domain.lo)
             hi, hreads = emitter.code(var.domain.hi)
             used |= lreads | hreads
-        items.append(f"({json.dumps(var.name)}, {size}, {lo}, {hi})")
+        items.append(f"({literal(var.name)}, {size}, {lo}, {hi})")
     return items
 
 
@@ -216,7 +216,7 @@ def _free(emitter: Emitter, auxiliary: tuple[ir.Symbol, ...], used: set[str]) ->
     for symbol in auxiliary:
         size, reads = emitter.size(length(symbol.shape))
         used |= reads
-        items.append(f"({json.dumps(symbol.name)}, {size}, -np.inf, np.inf)")
+        items.append(f"({literal(symbol.name)}, {size}, -np.inf, np.inf)")
     return items
 
 
@@ -277,7 +277,7 @@ def _unpriced(derivation: Derivation, unknown: list[Variable]) -> str:
 def lagrangian(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
     """``_lagrangian(x, z, d)``: L at the multipliers in z and its gradient in the unknowns."""
     if rule.kind != "lagrangian":
-        text = json.dumps("the Lagrangian is not minimized for the recovery")
+        text = literal("the Lagrangian is not minimized for the recovery")
         return f"def _lagrangian(x, z, d):\n    return {text}"
     expr = _lagrangian(derivation)
     code, used = emitter.code(expr)
@@ -319,7 +319,7 @@ def lagrangian_domain(emitter: Emitter, derivation: Derivation, rule: Rule) -> s
         if any(ir.depends_on(jacobian(arg, s), names) for s in moving):
             text = "a logarithm, root or real power in the Lagrangian has an argument that " \
                 "is not affine, so no linear program finds a point inside its domain"
-            return f"{head}\n    return {json.dumps(text)}"
+            return f"{head}\n    return {literal(text)}"
         size, sreads = emitter.size(length(arg.shape))
         value, vreads = emitter.code(_at_zero(arg, moving))
         used |= sreads | vreads

@@ -8,6 +8,7 @@ grammar rule cannot be skipped silently.  The tree's depth is checked before
 from __future__ import annotations
 
 import re
+import unicodedata
 from fractions import Fraction
 
 from lark import Token, Transformer, Tree
@@ -25,6 +26,23 @@ SUBSCRIPTS = {"₁": "1", "₂": "2", "_∞": "inf"}
 MAX_DECIMAL_EXPONENT = 400
 MAX_DIGITS = 1000
 EXPONENT = re.compile(r"[eE]([+-]?\d+)$")
+
+
+def ident(token: object) -> str:
+    """A name as the language knows it: NFKC-normalized, the way Python reads identifiers.
+
+    So ``b`` and the fullwidth ``ｂ`` (or the mathematical italic ``𝑏``) are one name
+    everywhere, and a second declaration of it is a located duplicate, never two names
+    that a generated Python module would silently merge.
+    """
+    text = str(token)
+    normal = unicodedata.normalize("NFKC", text)
+    return normal if NAME.fullmatch(normal) else text
+
+
+NAME = re.compile(r"(?![ᵀ])[^\W\d_](?:(?![ᵀ])[^\W_]|_(?!\+))*")
+"""The grammar's NAME: a normalized spelling that is no longer a name (``²`` is ``2``)
+keeps its own spelling, so its diagnostics stay what they were."""
 
 
 class BuildError(Exception):
@@ -91,15 +109,15 @@ class Builder(Transformer):
         return ast.Constraint(span, labels, parts, relations)
 
     def rule_labels(self, span: Span, c: list) -> tuple[ast.Label, ...]:
-        return tuple(ast.Label(token_span(t), str(t)) for t in c)
+        return tuple(ast.Label(token_span(t), ident(t)) for t in c)
 
     def rule_decl(self, span: Span, c: list) -> ast.Decl:
-        return ast.Decl(span, str(c[0]), token_span(c[0]), c[2])
+        return ast.Decl(span, ident(c[0]), token_span(c[0]), c[2])
 
     # ---- sets --------------------------------------------------------------
     def rule_named_set(self, span: Span, c: list) -> ast.NamedSet:
         sign = str(c[2])[1:] if c[2] is not None else ""
-        return ast.NamedSet(span, str(c[0]), c[1] or (), sign)
+        return ast.NamedSet(span, ident(c[0]), c[1] or (), sign)
 
     def rule_binary_set(self, span: Span, c: list) -> ast.BinarySet:
         low, high = (self._number(token_span(t), t) for t in c[:2])
@@ -116,7 +134,7 @@ class Builder(Transformer):
             raise BuildError(R.BAD_SIZE_SEPARATOR, span, found=str(c[0]))
 
     def rule_size(self, span: Span, c: list) -> ast.Size:
-        return ast.Size(span, str(c[0]))
+        return ast.Size(span, ident(c[0]))
 
     # ---- expressions -------------------------------------------------------
     def rule_number(self, span: Span, c: list) -> ast.Number:
@@ -137,7 +155,7 @@ class Builder(Transformer):
         return ast.Number(span, text, Fraction(text))
 
     def rule_name(self, span: Span, c: list) -> ast.Name:
-        return ast.Name(span, str(c[0]))
+        return ast.Name(span, ident(c[0]))
 
     def rule_binop(self, span: Span, c: list) -> ast.BinOp:
         op = "-" if str(c[1]) == "−" else str(c[1])
@@ -154,7 +172,7 @@ class Builder(Transformer):
 
     def rule_call(self, span: Span, c: list) -> ast.Call:
         args = tuple(a for a in c[1:] if a is not None)
-        return ast.Call(span, str(c[0]), token_span(c[0]), args)
+        return ast.Call(span, ident(c[0]), token_span(c[0]), args)
 
     def rule_norm(self, span: Span, c: list) -> ast.Norm:
         p = SUBSCRIPTS.get(str(c[3]), str(c[3])[1:]) if c[3] is not None else "2"

@@ -69,3 +69,34 @@ def test_derivation_states_where_the_dual_function_is_finite() -> None:
     up = _derive("data c in R^n\nmaximize c' * x\nover x in R^n\nsubject to\n  cap: x <= 1")
     [last] = [s for s in up.steps if s.rule == "dual-problem"]
     assert "plus infinity" in last.text and "unbounded below only if" in last.text
+
+
+def test_entropic_transport_dual() -> None:
+    # Entropy-regularized transport, minimize <C, P> + eps sum P log P s.t. P 1 = r,
+    # P'1 = c, has the dual maximize -r'u - c'v - eps sum exp((-u 1' - 1 v' - C)/eps - 1)
+    # with P = exp((-u 1' - 1 v' - C)/eps - 1) (M. Cuturi, Sinkhorn distances, 2013,
+    # from memory; our multipliers u, v are the rows and cols labels).
+    data = "data C in R^(m,n)\ndata r in R^m_++\ndata c in R^n_++\ndata eps in R_++"
+    d = _derive(data + "\nminimize sum(C .* P) + eps * sum(P .* log(P))\n"
+                "over P in R^(m,n)_+\nsubject to\n  rows: P * ones(n) == r\n"
+                "  cols: P' * ones(m) == c")
+    # The exponent's canonical forms differ by where 1/eps is distributed, so the two
+    # objectives are compared on numbers at random multipliers.
+    import numpy as np
+
+    from dualize.numeric.evaluate import evaluate
+
+    assert d.dual.closed_form and not d.dual.constraints
+    rng = np.random.default_rng(2)
+    m, n = 3, 4
+    for _ in range(3):
+        v = {"C": rng.normal(size=(m, n)), "r": rng.uniform(0.5, 1, m),
+             "c": rng.uniform(0.5, 1, n), "eps": 0.7, "rows": rng.normal(size=m),
+             "cols": rng.normal(size=n)}
+        u, w = v["rows"], v["cols"]
+        want = -v["r"] @ u - v["c"] @ w - 0.7 * np.sum(
+            np.exp((-u[:, None] - w[None, :] - v["C"]) / 0.7 - 1))
+        got = float(evaluate(d.dual.objective, v, {"m": m, "n": n}))
+        assert abs(got - want) <= 1e-9 * max(1.0, abs(want))
+    [rec] = d.recovery
+    assert rec.formula is not None

@@ -115,3 +115,18 @@ def test_products_with_inverses_simplify() -> None:
     from dualize.model.expr import MatMul
 
     assert tidy(MatMul((K, Inverse(K), K))) == K
+
+
+def test_kernel_ridge_dual_depends_on_the_kernel_only() -> None:
+    # Kernel ridge regression, minimize 1/2 ||K a - y||^2 + lam/2 a'K a, has the dual
+    # maximize -1/(2 lam) z'K z - 1/2 z'z - y'z, and a = -z/lam: the data enter only
+    # through K (C. Saunders, A. Gammerman and V. Vovk, Ridge regression learning
+    # algorithm in dual variables, 1998, from memory).
+    data = "data K in S^m_+\ndata y in R^m\ndata lam in R_++"
+    d = _derive(data + "\nminimize 1/2 * ||K * a - y||^2 + lam/2 * a' * K * a\nover a in R^m")
+    claim = _claim(data, "maximize -1/(2*lam) * z' * K * z - 1/2 * z' * z - y' * z\n"
+                   "over z in R^m")
+    _check(d, claim)
+    assert _no_matrix_inequality(d)
+    [rec] = d.recovery
+    assert rec.formula is not None and "kernel expansion" in rec.note

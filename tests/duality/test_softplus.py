@@ -56,13 +56,14 @@ def test_softplus_curvature(body: str, expected: str) -> None:
     assert curvature(_objective(text)) == expected
 
 
-def test_the_written_out_form_is_not_decided_but_softplus_is() -> None:
+def test_the_written_out_form_and_softplus_are_both_convex() -> None:
     # log(1 + exp(u)) is convex (Boyd and Vandenberghe, 2004, section 3.1.5, from
-    # memory), but log is concave increasing and 1 + exp(u) convex, so the composition
-    # rules cannot conclude: the named function is what makes it provable.
+    # memory). The plain composition rules cannot conclude it (log is concave
+    # increasing, 1 + exp(u) convex); the engine recognises the log-of-one-plus-exp
+    # pattern as softplus, so both spellings are decided convex.
     spelled = "data A in R^(m,n)\nminimize sum(log(1 + exp(A*x)))\nover x in R^n\n"
     named = "data A in R^(m,n)\nminimize sum(softplus(A*x))\nover x in R^n\n"
-    assert curvature(_objective(spelled)) == "unknown"
+    assert curvature(_objective(spelled)) == "convex"
     assert curvature(_objective(named)) == "convex"
 
 

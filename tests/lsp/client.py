@@ -20,7 +20,8 @@ T = TypeVar("T")
 class Session:
     """The client, the diagnostics it received (by URI), and helpers to wait for them."""
 
-    def __init__(self) -> None:
+    def __init__(self, capabilities: lsp.ClientCapabilities | None = None) -> None:
+        self.capabilities = capabilities or lsp.ClientCapabilities()
         self.client = LanguageClient("dualize-tests", "1")
         self.published: dict[str, list[lsp.PublishDiagnosticsParams]] = defaultdict(list)
         self.arrived = asyncio.Event()
@@ -36,7 +37,7 @@ class Session:
         await self.client.start_io(sys.executable, "-m", "dualize", "serve", *options,
                                    env=env, cwd=str(ROOT))
         await self.client.initialize_async(lsp.InitializeParams(
-            capabilities=lsp.ClientCapabilities(), process_id=os.getpid(),
+            capabilities=self.capabilities, process_id=os.getpid(),
             root_uri=ROOT.as_uri()))
         self.client.initialized(lsp.InitializedParams())
 
@@ -74,11 +75,11 @@ class Session:
 
 
 def run(scenario: Callable[[Session], Awaitable[T]], timeout: float = 120,
-        *options: str) -> T:
+        *options: str, capabilities: lsp.ClientCapabilities | None = None) -> T:
     """Run ``scenario`` against a fresh server, bounded in time; the server is ended
     (and its exit code checked by the scenario) before this returns."""
     async def main() -> T:
-        session = Session()
+        session = Session(capabilities)
         await session.start(*options)
         try:
             return await scenario(session)

@@ -132,3 +132,30 @@ def test_malformed_messages_do_not_end_the_server() -> None:
     assert done.returncode == 0
     assert b"Traceback" not in done.stdout + done.stderr
     assert b"window/showMessage" not in done.stdout  # a client's slip is logged, not shown
+
+
+def test_positions_follow_the_encoding_the_client_offers() -> None:
+    """A client that counts in UTF-32 gets code-point columns; the default is UTF-16,
+    where a character outside the Basic Multilingual Plane counts twice (LSP 3.17,
+    position encodings)."""
+    text = 'title "\U0001d53c" zz\nminimize x over x in R\n'
+    utf32 = lsp.ClientCapabilities(general=lsp.GeneralClientCapabilities(
+        position_encodings=[lsp.PositionEncodingKind.Utf32]))
+    for capabilities, column in ((utf32, 10), (None, 11)):
+        async def scenario(s: Session) -> int:
+            s.open("untitled:wide", text)
+            [found] = await s.diagnostics("untitled:wide")
+            assert await s.stop() == 0
+            return found.range.start.character
+
+        assert run(scenario, capabilities=capabilities) == column
+
+
+def test_a_vanished_client_ends_the_server() -> None:
+    """Standard input closing without `exit` (the editor died) ends the server with
+    exit code 1, as the protocol's `exit` without `shutdown` does."""
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    done = subprocess.run([sys.executable, "-m", "dualize", "serve"], input=b"",
+                          capture_output=True, env=env, timeout=60)
+    assert done.returncode == 1 and done.stdout == b""
+    assert b"Traceback" not in done.stderr

@@ -103,22 +103,31 @@ def test_write_latex_beside_the_file(tmp_path: Path) -> None:
     problem.write_text(SOFT_MARGIN.read_text(encoding="utf-8"), encoding="utf-8")
     uri = uri_of(problem)
 
-    async def scenario(s: Session) -> None:
+    async def scenario(s: Session) -> str:
         s.open(uri, problem.read_text(encoding="utf-8"))
         result = await s.client.workspace_execute_command_async(lsp.ExecuteCommandParams(
             "dualize.writeLatex", [uri, {"standalone": True}]))
         assert Path(result["path"]) == tmp_path / "margin.tex"
+        derived = await s.client.workspace_execute_command_async(lsp.ExecuteCommandParams(
+            "dualize.deriveDual", [uri]))
         assert await s.stop() == 0
+        return derived["markdown"]
 
-    run(scenario)
+    markdown = run(scenario)
     written = (tmp_path / "margin.tex").read_text(encoding="utf-8")
     assert "\\begin{document}" in written and "{maximize}" in written
-    env = {**os.environ, "PYTHONPATH": str(ROOT)}
-    same = subprocess.run([sys.executable, "-m", "dualize", "derive", str(problem), "--format",
-                           "latex", "--standalone"], capture_output=True, text=True, env=env,
-                          timeout=120, check=True)
-    assert written == same.stdout  # the same text as the command line writes
+    # the same texts as the command line gives for the file
+    assert written == _derive_cli(problem, "latex", "--standalone")
+    assert markdown == _derive_cli(problem, "markdown")
     assert sorted(p.name for p in tmp_path.iterdir()) == ["margin.prob", "margin.tex"]
+
+
+def _derive_cli(problem: Path, fmt: str, *options: str) -> str:
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    done = subprocess.run([sys.executable, "-m", "dualize", "derive", str(problem), "--format",
+                           fmt, *options], capture_output=True, text=True, env=env,
+                          timeout=120, check=True)
+    return done.stdout
 
 
 def test_project_settings_choose_the_findings(tmp_path: Path) -> None:
@@ -136,6 +145,31 @@ def test_project_settings_choose_the_findings(tmp_path: Path) -> None:
         s.open("untitled:same", text)  # no project: the defaults report the unused data
         found = await s.diagnostics("untitled:same", version=1)
         assert [d.code for d in found] == ["unused-data"]
+        assert await s.stop() == 0
+
+    run(scenario)
+
+
+def test_code_actions_honour_the_requested_kinds(tmp_path: Path) -> None:
+    uri = uri_of(tmp_path / "typos.prob")
+
+    async def scenario(s: Session) -> None:
+        s.open(uri, TYPOS)
+        found = await s.diagnostics(uri, version=1)
+        whole = lsp.Range(lsp.Position(0, 0), lsp.Position(6, 0))
+        for only, kinds in ((["quickfix"], {"quickfix"}), (["source"], set()), (None,
+                                                                               {"quickfix"})):
+            actions = await s.client.text_document_code_action_async(lsp.CodeActionParams(
+                _doc(uri), whole, lsp.CodeActionContext(diagnostics=found, only=only)))
+            assert {str(getattr(a.kind, "value", a.kind)) for a in actions} == kinds
+        s.replace(uri, TYPOS.replace("abs(x - a)", "|x - a|").replace("x / d", "x ./ d"), 2)
+        await s.diagnostics(uri, version=2)
+        actions = await s.client.text_document_code_action_async(lsp.CodeActionParams(
+            _doc(uri), whole, lsp.CodeActionContext(diagnostics=[], only=["source"])))
+        # (pygls's client reads these answers as bare commands; the titles are what
+        # it keeps faithfully)
+        assert [a.title for a in actions] == ["Derive the Lagrange dual (Markdown)",
+                                              "Write the dual's LaTeX beside the file"]
         assert await s.stop() == 0
 
     run(scenario)

@@ -30,6 +30,7 @@ def test_positions_count_utf16_code_units() -> None:
     assert utf16.position(1, 11) == lsp.Position(0, 11)
     assert TextMap(text, lsp.PositionEncodingKind.Utf32).position(1, 11) == lsp.Position(0, 10)
     assert TextMap(text, lsp.PositionEncodingKind.Utf8).position(1, 11) == lsp.Position(0, 13)
+    assert TextMap(text, "utf-8").position(1, 11) == lsp.Position(0, 13)
     assert utf16.offset(lsp.Position(0, 11)) == 10
     assert utf16.offset(lsp.Position(99, 0)) == len(text)
     span = Span(2, 10, 2, 11, 25, 26)
@@ -74,3 +75,16 @@ def test_hover_on_a_variable_shows_domain_and_recovery() -> None:
     assert "domain `ℝ`" in text and "`x = ½ c`" in text
     text, _ = hover_text(snap, GOOD.index("c:"), None, "still deriving")
     assert "multiplier `c`: nonnegative" in text and "still deriving" in text
+
+
+def test_hover_on_the_objective_states_the_dual() -> None:
+    # inequality-form LP min c'x s.t. Ax <= b: the dual is max -b'l s.t. A'l + c = 0,
+    # l >= 0 (Boyd and Vandenberghe, Convex Optimization, 2004, section 5.2.1, from memory)
+    from dualize.api import derive
+
+    text = "data A in R^(m,n)\ndata b in R^m\ndata c in R^n\nminimize c' * x\n" \
+           "over x in R^n\nsubject to\n  l: A*x <= b\n"
+    snap = snapshot("untitled:lp", 1, text)
+    shown, _ = hover_text(snap, text.index("minimize") + 3, derive(snap.loaded.problem))
+    assert "dual: maximize over l" in shown and "`-bᵀ l`" in shown
+    assert "`Aᵀ l = -c`" in shown and "`l ∈ ℝ^m_+`" in shown

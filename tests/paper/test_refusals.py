@@ -18,7 +18,8 @@ REFUSED = [
     (r"\max_{\alpha} \sum_{i=1}^m \alpha_i \quad \text{s.t.} \quad \alpha_i \ge 0", SVM,
      "paper-index", 61, "bound by no sum"),
     # x_i alone (not in x_i^T u) is a vector-valued sum, which a dual objective is not
-    (r"\max_{\alpha} \sum_{i=1}^m \alpha_i x_i", SVM, "paper-index", 37, "is row i"),
+    # (a weighted sum of rows, \sum_i alpha_i x_i, is a vector and reads as X' alpha)
+    (r"\max_{\alpha} \sum_{i=1}^m \alpha_i x_i^2", SVM, "paper-index", 37, "is row i"),
     (r"\max_{\alpha} \sum_{i,j} \alpha_i \alpha_j", SVM, "paper-index", 15, "without x_i^T x_j"),
     (r"\max_{\alpha} \sum_{i=1}^m \sum_{j=1}^m \sum_{k=1}^m \alpha_i", SVM, "paper-index", 15,
      "more than two"),

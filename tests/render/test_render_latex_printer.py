@@ -29,9 +29,11 @@ from render_builders import (
     y,
 )
 
+from dualize.duality.result import Equation
 from dualize.model import expr as ir
 from dualize.render.latex import latex_prose, latex_set
 from dualize.render.latex_printer import IRLatexPrinter, latex_expr
+from dualize.render.text import text_prose
 
 P = ir.Symbol("P", "data", ir.Shape(n, n), frozenset({"symmetric", "pd"}))
 q = ir.Symbol("q", "data", vec(n))
@@ -120,10 +122,11 @@ def test_parentheses_only_where_needed() -> None:
 
 
 def test_scalar_products_put_numbers_and_symbols_before_compound_factors() -> None:
-    # Common practice: "\tfrac{1}{4} \gamma^{-1} q^\top P q", not "(q^\top P q) ... \gamma^{-1}".
+    # Common practice: "\frac{1}{4\gamma} q^\top P q", not "(q^\top P q) ... \gamma^{-1}"
+    # (Boyd and Vandenberghe, Convex Optimization, 2004, sec. 5.1.5: "-(1/4) nu^T A A^T nu").
     gamma = ir.Symbol("gamma", "data", ir.SCALAR)
     node = ir.Scale(num("1/4"), ir.Scale(mm(T(q), P, q), ir.Inverse(gamma)))
-    assert latex_expr(node) == r"\tfrac{1}{4} \gamma^{-1} q^\top P q"
+    assert latex_expr(node) == r"\frac{1}{4 \gamma} q^\top P q"
     assert latex_expr(ir.Scale(mm(T(q), x), x)) == r"(q^\top x) x"
 
 
@@ -169,7 +172,7 @@ def test_unhandled_ir_node_raises() -> None:
 
 def test_prose_is_escaped_and_greek_names_become_math() -> None:
     assert latex_prose("Eliminating beta >= 0 gives 50% & more") == (
-        r"Eliminating $\beta$ $\geq$ 0 gives 50\% \& more")
+        r"Eliminating $\beta \geq 0$ gives 50\% \& more")
     assert latex_prose("x_i with α") == r"x\_i with $\alpha$"
     assert latex_prose("the alphabet") == "the alphabet"
 
@@ -178,3 +181,29 @@ def test_sympy_dimension_sizes_print_through_sympy() -> None:
     assert latex_set("free", vec(n + 1)) == r"\mathbb{R}^{n + 1}"
     assert latex_expr(ir.Scale(t, x)) == "t x"
     assert latex_expr(s) == "s"
+
+
+def test_scalar_quotients_print_as_fractions_in_lowest_terms() -> None:
+    # Common practice: "\frac{3\lambda}{\lambda + 1}", never "6 \lambda (2 \lambda + 2)^{-1}".
+    lam = ir.Symbol("lambda", "multiplier", ir.SCALAR)
+    denominator = add(ir.Scale(num(2), lam), num(2))
+    node = ir.Scale(num(6), ir.Scale(lam, ir.Power(denominator, sympy.Integer(-1))))
+    assert latex_expr(node) == r"\frac{3 \lambda}{\lambda + 1}"
+    assert latex_expr(ir.Scale(num(-1), node)) == r"-\frac{3 \lambda}{\lambda + 1}"
+    half_inverse = ir.Scale(num("-1/2"), ir.Scale(ir.Inverse(lam), x))
+    assert latex_expr(half_inverse) == r"-\frac{1}{2 \lambda} x"
+    assert latex_expr(ir.Scale(num("1/2"), x)) == r"\tfrac{1}{2} x"
+
+
+def test_marked_formulas_in_sentences_are_printed_from_the_ir() -> None:
+    # Common practice: mathematics in running text is set in math mode, never as ASCII.
+    lam = ir.Symbol("lambda", "multiplier", ir.SCALAR)
+    term = ir.Add((ir.Norm(x, "2"), ir.Scale(num(-1), mm(T(s), x))))
+    said = latex_prose("Minimizing over $x$: the infimum of $#term$ is 0 where $#c$.",
+                       (("#term", term), ("#c", Equation(ir.Norm(s, "2"), "<=", lam))))
+    assert said == (r"Minimizing over $x$: the infimum of $\lVert x \rVert_{2} - s^\top x$ is 0 "
+                    r"where $\lVert s \rVert_{2} \leq \lambda$.")
+    t = sympy.Symbol("t", real=True)
+    phi = sympy.Eq(sympy.Function("phi")(t), t * sympy.log(t), evaluate=False)
+    assert "\\phi" in latex_prose("with $#phi$", (("#phi", phi),))
+    assert text_prose("with $#phi$", (("#phi", phi),)) == "with φ(t) = t·log(t)"

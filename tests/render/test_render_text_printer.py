@@ -79,3 +79,12 @@ def test_colour_only_when_asked() -> None:
 def test_unknown_settings_are_rejected() -> None:
     with pytest.raises(TypeError):
         IRTextPrinter({"colour": True})
+
+
+def test_scalar_quotients_print_in_lowest_terms() -> None:
+    # Common practice: 3λ / (λ + 1) rather than 6 λ (2 λ + 2)⁻¹.
+    lam = ir.Symbol("lambda", "multiplier", ir.SCALAR)
+    denominator = ir.Add((ir.Scale(ir.Number(sympy.Integer(2)), lam), ir.Number(sympy.Integer(2))))
+    node = ir.Scale(ir.Number(sympy.Integer(6)),
+                    ir.Scale(lam, ir.Power(denominator, sympy.Integer(-1))))
+    assert text_expr(node) == "3 λ / (λ + 1)"

@@ -8,6 +8,8 @@ Convex Optimization, 2004, section 5.2.3, from memory).
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import cvxpy as cp
 import numpy as np
 import pytest
@@ -106,3 +108,26 @@ def test_free_multiplier_with_equality_and_bounds(text_solver, seed, m, n):
     assert report["primal_value"] == pytest.approx(value, rel=1e-6)
     assert report["dual_value"] <= report["primal_value"] + 1e-9 * (1 + abs(value))
     assert report["max_violation"] <= 1e-6
+
+
+def test_structurally_diagonal_hessian_is_printed_as_a_vector(text_solver):
+    # The logistic-regression dual's Hessian diag(1/z + 1/(1 - z)) is diagonal (the binary
+    # entropy is separable, common practice), so the module prints its diagonal and never
+    # an m x m matrix; the diagonal must agree with the dense Hessian it replaces.
+    from dualize.model import expr as ir
+    from dualize.solvergen.solver import diagonal_of
+
+    assert diagonal_of(ir.Identity(3)) == ir.Ones(3)
+    assert diagonal_of(ir.Symbol("A", ir.Shape(3, 3), "data")) is None
+    text = (Path(__file__).resolve().parents[2] / "bench" / "problems" /
+            "defect_logistic.prob").read_text(encoding="utf-8")
+    module = text_solver(text, "logistic")
+    rng = np.random.default_rng(3)
+    data = {"X": rng.normal(size=(30, 3)).tolist(), "y": np.sign(rng.normal(size=30)).tolist()}
+    d = module._read(module.SPEC, data)
+    d.update(module._prepare(d))
+    z = np.full(30, 0.3)
+    diagonal = module._hessian_diagonal(z, d)
+    assert diagonal is not None and diagonal.shape == (30,)
+    assert np.allclose(np.diag(diagonal), module._hessian(z, d))
+    assert module.solve(data)["status"] == "certified"

@@ -115,3 +115,34 @@ def test_runtime_source_has_no_imports_and_every_module_once():
     assert "\nimport " not in source and "\nfrom " not in source
     for name in ("def load_instance", "def _interior", "def _primal_report", "def run"):
         assert source.count(name + "(") == 1
+
+
+def lp_spec(c, A, b) -> runtime.Spec:
+    """min c'z s.t. A z <= b, z >= 0, as the generator would print it."""
+    return runtime.Spec(
+        method="linprog", dual_names=["z"], dual_sense="minimize", scalars=[False],
+        prepare=lambda d: {}, sizes=lambda d: [len(c)],
+        objective=lambda z, d: float(c @ z), gradient=lambda z, d: np.array(c, dtype=float),
+        bounds=lambda d: (np.zeros(len(c)), np.full(len(c), np.inf)),
+        constraints=lambda z, d: [("<=", A @ z - b, A)],
+    )
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_normal_equation_interior_point_matches_highs(seed):
+    # scipy's HiGHS as the reference optimum of a random bounded LP (c > 0, z >= 0).
+    import scipy.optimize
+
+    from dualize.solvergen import runtime_lp
+
+    rng = np.random.default_rng(seed)
+    A, c = rng.normal(size=(30, 12)), 0.5 + rng.random(12)
+    b = A @ rng.random(12) + rng.random(30)
+    spec = lp_spec(-c, A, b) if seed == 2 else lp_spec(c, A, b)
+    z, ok, _ = runtime_lp._solve_lp(spec, {}, np.zeros(12), np.zeros(12),
+                                    np.full(12, np.inf), 1e-9, 200)
+    reference = scipy.optimize.linprog(spec.gradient(None, None), A_ub=A, b_ub=b,
+                                       bounds=[(0, None)] * 12, method="highs")
+    assert ok and reference.status == 0
+    assert spec.objective(z, None) == pytest.approx(reference.fun, rel=1e-7, abs=1e-9)
+    assert np.max(A @ z - b) <= 1e-7 and z.min() >= -1e-9

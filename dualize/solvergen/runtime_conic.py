@@ -1,0 +1,122 @@
+"""The generated module's conic method, for a dual with a semidefinite constraint.
+
+Everything below the marker line is copied verbatim into each generated module; the
+imports above it serve linting and the unit tests only.  Clarabel is imported when
+the method runs, so a module whose dual needs no cone never asks for it.
+"""
+
+import numpy as np
+import scipy.sparse
+
+from dualize.solvergen.runtime import NoFiniteDual
+from dualize.solvergen.runtime_methods import _by_block, _linear_parts
+
+# ---- copied into the generated module from here ----
+
+
+class NeedsConicSolver(Exception):
+    """The dual needs the conic solver and it is not installed: exit status 2."""
+
+
+def _svec(matrix):
+    """The upper triangle column by column, off-diagonal entries times sqrt(2): the
+    vectorization under which Clarabel's semidefinite cone keeps inner products."""
+    cols, rows = np.tril_indices(matrix.shape[0])
+    sym = 0.5 * (matrix + matrix.T)
+    return np.where(rows == cols, 1.0, np.sqrt(2.0)) * sym[rows, cols]
+
+
+def _unsvec(vector, k):
+    cols, rows = np.tril_indices(k)
+    matrix = np.zeros((k, k))
+    matrix[rows, cols] = np.where(rows == cols, 1.0, 1.0 / np.sqrt(2.0)) * vector
+    return matrix + np.triu(matrix, 1).T
+
+
+def _affine_cones(p, d, size):
+    """For each semidefinite constraint M(z) >= 0: (svec M(0), columns svec(M(e_i) - M(0)))
+    and the check that M is affine at a random point."""
+    zero = np.zeros(size)
+    out = []
+    for index, base in enumerate(p.cones(zero, d)):
+        columns = [_svec(p.cones(np.eye(1, size, i)[0], d)[index] - base) for i in range(size)]
+        jac = np.column_stack(columns) if columns else np.zeros((len(_svec(base)), 0))
+        probe = np.random.default_rng(index).standard_normal(size)
+        expected = _svec(base) + jac @ probe
+        if np.abs(_svec(p.cones(probe, d)[index]) - expected).max(initial=0.0) > \
+                1e-8 * (1.0 + np.abs(expected).max(initial=0.0)):
+            raise ValueError("a semidefinite constraint is not affine in the multipliers")
+        out.append((_svec(base), jac, base.shape[0]))
+    return out
+
+
+def _conic_rows(p, d, size, lo, hi):
+    """Clarabel's A z + s = b, s in K: equalities, then inequalities and bounds, then cones."""
+    import clarabel
+
+    (a_ub, b_ub), (a_eq, b_eq) = _linear_parts(p, np.zeros(size), d)
+    eye = np.eye(size)
+    low, up = np.flatnonzero(np.isfinite(lo)), np.flatnonzero(np.isfinite(hi))
+    ineq = [m for m in (a_ub, -eye[low], eye[up]) if m is not None and len(m)]
+    right = [v for v in (b_ub, -lo[low], hi[up]) if v is not None and len(v)]
+    rows, rhs, cones = [], [], []
+    if a_eq is not None:
+        rows, rhs, cones = [a_eq], [b_eq], [clarabel.ZeroConeT(len(b_eq))]
+    if ineq:
+        rows.append(np.vstack(ineq))
+        rhs.append(np.concatenate(right))
+        cones.append(clarabel.NonnegativeConeT(len(rhs[-1])))
+    psd = _affine_cones(p, d, size)
+    for base, jac, k in psd:
+        rows.append(-jac)
+        rhs.append(base)
+        cones.append(clarabel.PSDTriangleConeT(k))
+    matrix = scipy.sparse.csc_matrix(np.vstack(rows)) if rows else \
+        scipy.sparse.csc_matrix((0, size))
+    counts = (0 if a_eq is None else len(b_eq), 0 if a_ub is None else len(b_ub))
+    return matrix, np.concatenate(rhs) if rhs else np.zeros(0), cones, counts, psd
+
+
+_CONIC_WORDS = {
+    "Solved": "the conic interior-point method met its tolerances",
+    "AlmostSolved": "the conic interior-point method stopped near, not at, its tolerances",
+    "MaxIterations": "the conic interior-point method hit its iteration limit",
+    "MaxTime": "the conic interior-point method hit its time limit",
+}
+
+
+def _solve_conic(p, d, z0, lo, hi, tol, max_iter):
+    """Clarabel on min 1/2 z'P z + q'z over the dual's bounds, linear rows and cones."""
+    try:
+        import clarabel
+    except ImportError:
+        raise NeedsConicSolver("this dual has a semidefinite constraint; the module solves "
+                               "it with clarabel, which is not installed (pip install "
+                               "clarabel)") from None
+    size = len(z0)
+    q = p.gradient(np.zeros(size), d)
+    hessian = p.hessian(np.zeros(size), d)
+    P = scipy.sparse.csc_matrix(np.triu(hessian) if hessian is not None else (size, size))
+    A, b, cones, (equalities, inequalities), psd = _conic_rows(p, d, size, lo, hi)
+    settings = clarabel.DefaultSettings()
+    settings.verbose = False
+    settings.max_iter = min(max_iter, 500)
+    settings.tol_gap_abs = settings.tol_gap_rel = settings.tol_feas = max(tol, 1e-12)
+    solution = clarabel.DefaultSolver(P, q, A, b, cones, settings).solve()
+    word = str(solution.status).split(".")[-1]
+    if word in ("PrimalInfeasible", "AlmostPrimalInfeasible"):
+        raise NoFiniteDual("infeasible", "the conic method found a certificate that no "
+                           "multipliers meet the dual's constraints")
+    if word in ("DualInfeasible", "AlmostDualInfeasible"):
+        raise NoFiniteDual("unbounded", "the conic method found a ray along which the dual "
+                           "objective grows without bound")
+    z, y = np.asarray(solution.x, dtype=float), np.asarray(solution.z, dtype=float)
+    blocks = _by_block(p, z, d, y[equalities:equalities + inequalities], y[:equalities])
+    start = len(b) - sum(len(base) for base, _, _ in psd)
+    for base, _, k in psd:
+        blocks.append(_unsvec(y[start:start + len(base)], k))
+        start += len(base)
+    d["_row_multipliers"] = blocks
+    message = _CONIC_WORDS.get(word, "the conic interior-point method stopped early "
+                               "(numerical difficulty or no progress)")
+    return z, word == "Solved", message

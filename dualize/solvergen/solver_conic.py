@@ -1,0 +1,79 @@
+"""The plan for a dual with a semidefinite constraint: a conic interior-point method.
+
+Such a dual (maximize a linear or concave quadratic function of vector multipliers
+subject to F(multipliers) >= 0 in the semidefinite order, F affine, and linear
+constraints and bounds) is handed to Clarabel (P. Goulart and Y. Chen, Clarabel: an
+interior-point solver for conic programs with quadratic objectives, 2024), a
+well-kept open conic solver, through its own API; the generated module imports it
+only when its dual needs it.
+"""
+
+from __future__ import annotations
+
+import sympy
+
+from dualize.duality.result import DualProblem, DualVariable
+from dualize.errors import DualizeError
+from dualize.model import expr as ir
+from dualize.solvergen.ir_rewrite import normalize
+from dualize.solvergen.solver_plan import (
+    Bound,
+    Plan,
+    _as_bound,
+    _differentiate,
+    _expand,
+    _general,
+    _hessian_blocks,
+    _zero,
+)
+
+REASON = "the dual has a semidefinite constraint: a conic interior-point method (Clarabel)"
+
+
+def conic_plan(dual: DualProblem) -> Plan:
+    """The conic plan, or a DualizeError saying what is beyond it."""
+    if any(v.set in ("psd", "symmetric") or v.symbol.shape.cols != 1 for v in dual.variables):
+        raise DualizeError("cannot generate a solver: the dual has a matrix multiplier; the "
+                           "conic route handles vector multipliers", 2)
+    sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
+    objective = normalize(ir.Scale(sign, dual.objective))
+    variables = tuple(v.symbol for v in dual.variables)
+    names = {v.name for v in dual.variables}
+    gradients = tuple(_differentiate(objective, v, "the dual objective") for v in variables)
+    hessian = _hessian_blocks(gradients, variables)
+    if hessian is None or any(ir.depends_on(b, names) for row in hessian for b in row):
+        raise DualizeError("cannot generate a solver: a dual with a semidefinite constraint "
+                           "needs a linear or quadratic objective for the conic route", 2)
+    bounds = [b for v in dual.variables for b in _sign_bounds(v)]
+    general, cones = [], []
+    for constraint in dual.constraints:
+        if constraint.relation in ("succeq", "preceq"):
+            cones.append(_psd_side(constraint.lhs, constraint.relation, constraint.rhs))
+            continue
+        for part in _expand(constraint):
+            bound = _as_bound(part, names)
+            if bound:
+                bounds.extend(bound)
+            else:
+                general.append(_general(part, variables))
+    if not all(g.affine for g in general):
+        raise DualizeError("cannot generate a solver: a dual with a semidefinite constraint "
+                           "and a nonlinear constraint is beyond the conic route", 2)
+    return Plan("conic", REASON, objective, gradients, tuple(bounds), tuple(general),
+                hessian=hessian, constant_hessian=True, cones=tuple(cones))
+
+
+def _sign_bounds(v: DualVariable) -> list[Bound]:
+    if v.set == "nonneg":
+        return [Bound(v.name, "lo", _zero())]
+    if v.set == "nonpos":
+        return [Bound(v.name, "hi", _zero())]
+    return []
+
+
+def _psd_side(lhs: ir.Expr, relation: str, rhs: ir.Expr) -> ir.Expr:
+    """The matrix that must be positive semidefinite: lhs - rhs, or rhs - lhs for preceq."""
+    minus = ir.Number(sympy.Integer(-1))
+    if relation == "succeq":
+        return normalize(ir.Add((lhs, ir.Scale(minus, rhs))))
+    return normalize(ir.Add((rhs, ir.Scale(minus, lhs))))
