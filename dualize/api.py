@@ -61,7 +61,6 @@ def write_bytes_atomically(path: str, data: bytes) -> None:
     write_output(path, data)
 
 
-
 def render(derivation: Derivation, fmt: str, analysis: object | None,
            standalone: bool = False, color: bool = False) -> str:
     """The derivation in one of the output formats."""
@@ -92,16 +91,16 @@ def _instance_of(problem: Problem, data: object) -> object:
 
 
 def prices(source: str | Path | Problem, data: object, limit: int = 200,
-           seconds: float = 300.0):  # type: ignore[no-untyped-def]
+           deadline: Deadline | None = None):  # type: ignore[no-untyped-def]
     """Every constraint entry priced on an instance, each rate checked by re-solving.
 
     Returns a ``Sensitivity`` (a table in a notebook); ``data`` is an instance file's
-    path or an ``Instance``.
+    path or an ``Instance``; past ``deadline`` the entries left are not checked.
     """
     from dualize.multipliers.sensitivity import sensitivity
 
     problem = load_problem(source)
-    return sensitivity(problem, _instance_of(problem, data), limit, seconds)  # type: ignore[arg-type]
+    return sensitivity(problem, _instance_of(problem, data), limit, deadline)  # type: ignore[arg-type]
 
 
 def other_form(source: str | Path | Problem, weight: str | None = None,
@@ -115,7 +114,8 @@ def other_form(source: str | Path | Problem, weight: str | None = None,
 
 def trade_off(source: object, data: object, weights: list[float] | None = None,
               bounds: list[float] | None = None, weight: str | None = None,
-              bound: str | None = None, tick: object = None):  # type: ignore[no-untyped-def]
+              bound: str | None = None, tick: object = None,
+              deadline: Deadline | None = None):  # type: ignore[no-untyped-def]
     """The weight and the bound matched at each value given (a ``Curve``: a table and
     the plot in a notebook).  ``source`` is a problem (or path) or a ``Pair``."""
     from dualize.multipliers.forms import Pair
@@ -131,4 +131,5 @@ def trade_off(source: object, data: object, weights: list[float] | None = None,
         pair = other_form(original, weight=weight, bound=bound)
     instance = _instance_of(original, data)
     given = "weight" if weights is not None else "bound"
-    return sweep(Forms(pair, instance), given, list(weights or bounds or []), tick)  # type: ignore[arg-type]
+    return sweep(Forms(pair, instance), given, list(weights or bounds or []),  # type: ignore[arg-type]
+                 tick, deadline)  # type: ignore[arg-type]

@@ -58,8 +58,10 @@ def _emit(text: str, output: str | None) -> None:
               help="Write to this file (atomically) instead of standard output.")
 @click.option("--limit", type=click.IntRange(min=0), default=200, show_default=True,
               help="Check the rates of at most this many constraint entries.")
-@click.option("--time-limit", type=click.FloatRange(min=1), default=300, show_default=True,
-              help="Seconds for the re-solves; entries left are reported unchecked.")
+@click.option("--time-limit", type=click.FloatRange(min=0, min_open=True), default=300,
+              show_default=True, metavar="SECONDS",
+              help="Stop re-solving after this many seconds; entries left are reported "
+              "unchecked.")
 @STANDALONE
 @click.option("--svg", "svg_path", type=click.Path(), default=None,
               help="Also draw the rates as bars, SVG (deterministic).")
@@ -79,13 +81,13 @@ def prices_command(file: str, data: str | None, fmt: str, output: str | None, li
     2 for bad input.
     """
     from dualize.api import prices
-    from dualize.commands.common import user_errors
+    from dualize.commands.common import deadline_of, user_errors
     from dualize.multipliers.printing import render_sensitivity
 
     with user_errors():
         problem = _problem(file, "nothing was priced")
         report = prices(problem, _instance(file, data, problem), limit=limit,
-                        seconds=time_limit)
+                        deadline=deadline_of(time_limit))
         _emit(render_sensitivity(report, fmt, standalone), output)
         if report.rows:
             _bars(report, svg_path, png_path)

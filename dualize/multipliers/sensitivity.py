@@ -20,11 +20,11 @@ point, and the solver's multiplier lies between them).
 
 from __future__ import annotations
 
-import time
 from dataclasses import dataclass, field
 
 import numpy as np
 
+from dualize.deadline import Deadline
 from dualize.model.problem import Problem
 from dualize.multipliers import entries as E
 from dualize.multipliers.solve import Point, Posed
@@ -108,8 +108,9 @@ class Sensitivity:
 
 
 def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT,
-                seconds: float = DEFAULT_SECONDS) -> Sensitivity:
-    """Price every constraint of ``problem`` on ``instance`` and check every rate."""
+                deadline: Deadline | None = None) -> Sensitivity:
+    """Price every constraint of ``problem`` on ``instance`` and check every rate; past
+    ``deadline`` the entries left are reported unchecked (one solve is never cut)."""
     from dualize.analysis.convexity import analyse_convexity
     from dualize.analysis.slater import strong_duality
 
@@ -134,7 +135,7 @@ def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT
         return Sensitivity(status=start.status, value=float("nan"), refusal=(
             f"the problem on this instance is {start.status}: there is no optimal "
             "multiplier to read"), **base)
-    rows = _rows(posed, start, limit, time.monotonic() + seconds)
+    rows = _rows(posed, start, limit, deadline or Deadline(DEFAULT_SECONDS))
     return Sensitivity(status=start.status, value=start.value, rows=tuple(rows), **base)
 
 
@@ -148,7 +149,7 @@ def _refusal(problem: Problem) -> str:
     return ""
 
 
-def _rows(posed: Posed, start: Point, limit: int, until: float) -> list[Rate]:
+def _rows(posed: Posed, start: Point, limit: int, deadline: Deadline) -> list[Rate]:
     problem, instance = posed.problem, posed.instance
     sign = -1.0 if problem.sense == "minimize" else 1.0
     everything = E.entries(problem, instance)
@@ -164,7 +165,7 @@ def _rows(posed: Posed, start: Point, limit: int, until: float) -> list[Rate]:
             row = _replace(row, note="not checked: the solver returned no multiplier")
         elif k >= limit:
             row = _replace(row, note=f"not checked: only the first {limit} entries are")
-        elif time.monotonic() > until:
+        elif deadline.expired():
             row = _replace(row, note="not checked: the time limit was reached")
         else:
             row = _check(posed, start, entry, row, scale)

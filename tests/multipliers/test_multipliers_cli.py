@@ -266,3 +266,17 @@ def test_weighted_terms_as_written(tmp_path: Path, objective: str, r_text: str) 
     assert code == 0
     data = json.loads(out)
     assert data["r"] == r_text and f"bound: {r_text} <= t" in data["other_form"]
+
+
+def test_time_limits_leave_entries_and_points_unchecked() -> None:
+    """A run past its time budget says what it did not do (common practice: a bounded run)."""
+    code, out, _ = run("prices", str(EXAMPLES / "parts_soft_margin.prob"), "--time-limit",
+                       "0.000001", "--format", "json")
+    assert code == 0
+    entries = json.loads(out)["entries"]
+    assert all(e["check"] == "not-checked" and "time limit" in e["note"] for e in entries)
+    code, out, _ = run("trade-off", str(EXAMPLES / "weighbridge_ridge.prob"),
+                       "--sweep-weights", "0.1:10:3", "--time-limit", "0.000001",
+                       "--format", "json")
+    assert code == 1
+    assert all("time limit" in p["note"] for p in json.loads(out)["points"])
