@@ -51,7 +51,6 @@ def _conjugate(phi: sympy.Expr, t: sympy.Symbol, region: sympy.Interval):  # typ
     return conjugate(phi, t, region)
 
 
-<<<<<<< HEAD
 def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
     """Where phi is continuous; a function in pieces (Huber's) is continuous on R when
     each piece is, which sympy's domain finder cannot tell."""
@@ -63,14 +62,10 @@ def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
     return continuous_domain(phi, t, sympy.S.Reals)
 
 
-def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain) -> Infimum | None:
-    """-sum(phi*(s)) with the domain of phi* as constraints on s."""
-=======
 def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
                       deadline: Deadline | None = None) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s; past ``deadline`` the
     conjugate is not attempted (``DeadlineExceeded`` names the step)."""
->>>>>>> reliability
     interval = _interval(domain)
     if interval is None or atom.body is None:
         return None

@@ -232,13 +232,13 @@ def _head_name(name: str, fmt: Formatter) -> str:
 
 
 def equation_line(equation: Equation, fmt: Formatter, note: str = "") -> Line:
-<<<<<<< HEAD
     lhs, relation, rhs = equation.lhs, equation.relation, equation.rhs
     if not isinstance(lhs, Head):
         lhs, relation, rhs = signs_as_written(lhs, relation, rhs)
-    left = head_text(lhs, fmt) if isinstance(lhs, Head) else fmt.expr(lhs)
-    return Line(left, fmt.relation(relation), fmt.expr(rhs),
-                note=fmt.prose(note) if note else "", rhs_terms=fmt.terms(rhs))
+    left = head_text(lhs, fmt) if isinstance(lhs, Head) else S.short_expr(lhs, fmt)
+    note = "; ".join(filter(None, (note, S.term_count_note(rhs))))
+    return Line(left, fmt.relation(relation), S.short_expr(rhs, fmt),
+                note=fmt.prose(note) if note else "", rhs_terms=S.short_terms(rhs, fmt))
 
 
 _FLIPPED = {"=": "=", "<=": ">=", ">=": "<=", "<": ">", ">": "<", "succeq": "preceq",
@@ -264,30 +264,13 @@ def signs_as_written(lhs: ir.Expr, relation: str,
 
 def step_view(step: Step, fmt: Formatter) -> StepView:
     return StepView(step.rule, fmt.prose(step.text, step.formulas),
-                    tuple(equation_line(e, fmt) for e in step.equations))
-=======
-    lhs = equation.lhs
-    left = head_text(lhs, fmt) if isinstance(lhs, Head) else S.short_expr(lhs, fmt)
-    note = "; ".join(filter(None, (note, S.term_count_note(equation.rhs))))
-    return Line(left, fmt.relation(equation.relation), S.short_expr(equation.rhs, fmt),
-                note=fmt.prose(note) if note else "", rhs_terms=S.short_terms(equation.rhs, fmt))
-
-
-def step_view(step: Step, fmt: Formatter) -> StepView:
-    return StepView(step.rule, fmt.prose(step.text),
                     tuple(S.grouped([equation_line(e, fmt) for e in step.equations], fmt,
                                     _note_line)))
->>>>>>> reliability
 
 
 def dual_view(dual: DualProblem, fmt: Formatter) -> ProblemView:
     """The dual with its constraints, then the sign conditions not already stated."""
-<<<<<<< HEAD
     lines = [_dual_line(c.lhs, c.relation, c.rhs, c.label, fmt) for c in dual.constraints]
-=======
-    lines = [Line(S.short_expr(c.lhs, fmt), fmt.relation(c.relation), S.short_expr(c.rhs, fmt),
-                  tag=fmt.name(c.label) if c.label else "") for c in dual.constraints]
->>>>>>> reliability
     lines += [_set_line(v, fmt) for v in dual.variables
               if v.set != "free" and not _stated(v, dual)]
     inner_op = "inf" if dual.sense == "maximize" else "sup"
@@ -301,7 +284,7 @@ def dual_view(dual: DualProblem, fmt: Formatter) -> ProblemView:
 def _dual_line(lhs: ir.Expr, relation: str, rhs: ir.Expr, label: str | None,
                fmt: Formatter) -> Line:
     lhs, relation, rhs = signs_as_written(lhs, relation, rhs)
-    return Line(fmt.expr(lhs), fmt.relation(relation), fmt.expr(rhs),
+    return Line(S.short_expr(lhs, fmt), fmt.relation(relation), S.short_expr(rhs, fmt),
                 tag=fmt.name(label) if label else "")
 
 
