@@ -108,7 +108,7 @@ def _not_established(report: Sensitivity) -> str:
 def rates_sentence(report: Sensitivity) -> str:
     rate = "dp*/du_i = -lambda_i" if report.minimize else "dp*/du_i = +lambda_i"
     state = "" if report.established else (" These rates are not established: the "
-                                           "conditions of the bound above do not hold.")
+                                           "conditions of the global bound do not hold.")
     return (f"Local rates: {rate} where p* is differentiable at u = 0 (Boyd and "
             f"Vandenberghe, 2004, section 5.6.3); where the one-sided rates differ (a kink "
             f"of p*) both are shown instead of one number.{state}")

@@ -114,7 +114,7 @@ def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT
     from dualize.analysis.convexity import analyse_convexity
     from dualize.analysis.slater import strong_duality
 
-    verdict = strong_duality(problem, analyse_convexity(problem), instance.values)
+    verdict = strong_duality(problem, analyse_convexity(problem), instance)  # type: ignore[arg-type]
     base = dict(problem=problem, instance=instance.source, verdict=verdict.status,
                 verdict_reason=verdict.reason)
     refusal = _refusal(problem)

@@ -59,16 +59,19 @@ def test_a_nonconvex_example_is_refused_with_the_reason() -> None:
 
 
 def test_the_bound_is_refused_without_strong_duality() -> None:
-    """lab_budget_max's log domain leaves Slater's condition undecided on the instance:
-    the rates are measured, but no global bound is stated."""
+    """minimize x s.t. x^2 <= 0 has one feasible point and no strictly feasible one:
+    Slater's condition fails, p*(u) = -sqrt(u) has an infinite slope at 0 and no optimal
+    multiplier exists (Boyd and Vandenberghe, 2004, section 5.2.3; the example is common
+    in courses, from memory). The global bound must be refused with that reason."""
     from dualize.multipliers.printing import bound_sentence
+    from dualize.numeric.instance import Instance
 
-    path = EXAMPLES / "lab_budget_max.prob"
-    report = prices(load_problem(path), str(path.with_suffix(".json")))
-    if report.verdict == "guaranteed":
-        pytest.skip("the verdict now proves strong duality on this instance")
-    assert not report.established
+    report = prices(load_problem("minimize x\nover x in R\nsubject to\n  c: x^2 <= 0\n"),
+                    Instance({}, {}))
+    assert report.verdict == "not-guaranteed" and not report.established
     assert bound_sentence(report).startswith("No global bound is stated: strong duality")
+    (row,) = report.rows
+    assert row.check != "agrees"  # no finite rate exists to agree with
 
 
 PROBLEMS = Path(__file__).resolve().parents[1] / "problems"
