@@ -49,7 +49,7 @@ def wrap(parts: list[str], title: str, standalone: bool) -> str:
 def sensitivity_latex(report: Sensitivity, standalone: bool = False) -> str:
     from dualize.multipliers import printing as P
 
-    head = P._header(report)
+    head = P.header(report)
     parts = [r"\paragraph{Prices of the constraints.} " + escape(" ".join(head))]
     if report.rows:
         parts += [escape(P.CONVENTION), tabular(P.table_rows(report))]

@@ -114,7 +114,7 @@ def rates_sentence(report: Sensitivity) -> str:
             f"of p*) both are shown instead of one number.{state}")
 
 
-def _header(report: Sensitivity) -> list[str]:
+def header(report: Sensitivity) -> list[str]:
     p = report.problem
     title = p.title or p.path
     return [f"Prices of the constraints of \"{title}\" on {report.instance}",
@@ -123,35 +123,35 @@ def _header(report: Sensitivity) -> list[str]:
 
 
 def sensitivity_text(report: Sensitivity) -> str:
-    lines = _header(report) + [""]
+    lines = header(report) + [""]
     if report.rows:
-        lines += [CONVENTION, "", *_aligned(table_rows(report)), ""]
+        lines += [CONVENTION, "", *aligned(table_rows(report)), ""]
         notes = [f"  {r.name}: {r.note}" for r in report.rows if r.note]
         lines += notes + ([""] if notes else []) + [METHOD, rates_sentence(report)]
     lines += ["", bound_sentence(report), "", CAUTION]
     return "\n".join(lines) + "\n"
 
 
-def _aligned(rows: list[list[str]]) -> list[str]:
+def aligned(rows: list[list[str]]) -> list[str]:
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     return ["  ".join(c.ljust(w) for c, w in zip(r, widths, strict=True)).rstrip()
             for r in rows]
 
 
 def sensitivity_markdown(report: Sensitivity) -> str:
-    head, *_ = _header(report)
-    lines = [f"### {head}", "", *[f"- {s}" for s in _header(report)[1:]], ""]
+    head, *_ = header(report)
+    lines = [f"### {head}", "", *[f"- {s}" for s in header(report)[1:]], ""]
     if report.rows:
         rows = table_rows(report)
-        lines += [CONVENTION, "", _md_row(rows[0]), _md_row(["---"] * len(rows[0]))]
-        lines += [_md_row(r) for r in rows[1:]] + [""]
+        lines += [CONVENTION, "", md_row(rows[0]), md_row(["---"] * len(rows[0]))]
+        lines += [md_row(r) for r in rows[1:]] + [""]
         lines += [f"- `{r.name}`: {r.note}" for r in report.rows if r.note]
         lines += ["", METHOD, "", rates_sentence(report)]
     lines += ["", bound_sentence(report), "", f"*{CAUTION}*"]
     return "\n".join(lines) + "\n"
 
 
-def _md_row(cells: list[str]) -> str:
+def md_row(cells: list[str]) -> str:
     return "| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |"
 
 
@@ -172,7 +172,7 @@ def html_page(lines: list[str], rows: list[list[str]], after: list[str]) -> str:
 
 def sensitivity_html(report: Sensitivity) -> str:
     notes = [f"{r.name}: {r.note}" for r in report.rows if r.note]
-    return html_page(_header(report), table_rows(report),
+    return html_page(header(report), table_rows(report),
                      notes + [bound_sentence(report), CAUTION])
 
 
@@ -180,7 +180,7 @@ def sensitivity_json(report: Sensitivity) -> str:
     p = report.problem
     data: dict[str, Any] = {
         "title": p.title, "file": p.path, "instance": report.instance, "sense": p.sense,
-        "status": report.status, "value": _j(report.value),
+        "status": report.status, "value": json_number(report.value),
         "strong_duality": {"status": report.verdict, "reason": report.verdict_reason},
         "perturbation": CONVENTION, "method": {"step_relative": STEP_REL,
                                                "agreement_relative": AGREE_REL},
@@ -192,15 +192,15 @@ def sensitivity_json(report: Sensitivity) -> str:
 
 
 def _row_json(r: Rate) -> dict[str, Any]:
+    n = json_number
     return {"entry": r.name, "constraint": r.constraint, "relation": r.relation,
-            "multiplier": _j(r.multiplier), "slack": _j(r.slack), "binds": r.binds,
-            "rate": _j(r.rate) if single_rate(r) else None,
-            "multiplier_rate": _j(r.rate), "step": _j(r.step), "left_rate": _j(r.left),
-            "right_rate": _j(r.right), "tolerance": _j(r.tolerance), "check": r.check,
-            "note": r.note}
+            "multiplier": n(r.multiplier), "slack": n(r.slack), "binds": r.binds,
+            "rate": n(r.rate) if single_rate(r) else None, "multiplier_rate": n(r.rate),
+            "step": n(r.step), "left_rate": n(r.left), "right_rate": n(r.right),
+            "tolerance": n(r.tolerance), "check": r.check, "note": r.note}
 
 
-def _j(value: float) -> float | None:
+def json_number(value: float) -> float | None:
     """JSON has no nan or infinity: null stands for a value that does not exist."""
     if not math.isfinite(value):
         return None
