@@ -91,7 +91,8 @@ def _instance_of(problem: Problem, data: object) -> object:
 
 
 def prices(source: str | Path | Problem, data: object, limit: int = 200,
-           deadline: Deadline | None = None):  # type: ignore[no-untyped-def]
+           deadline: Deadline | None = None,
+           tick: object = None):  # type: ignore[no-untyped-def]
     """Every constraint entry priced on an instance, each rate checked by re-solving.
 
     Returns a ``Sensitivity`` (a table in a notebook); ``data`` is an instance file's
@@ -100,7 +101,8 @@ def prices(source: str | Path | Problem, data: object, limit: int = 200,
     from dualize.multipliers.sensitivity import sensitivity
 
     problem = load_problem(source)
-    return sensitivity(problem, _instance_of(problem, data), limit, deadline)  # type: ignore[arg-type]
+    return sensitivity(problem, _instance_of(problem, data), limit, deadline,  # type: ignore[arg-type]
+                       tick)  # type: ignore[arg-type]
 
 
 def other_form(source: str | Path | Problem, weight: str | None = None,

@@ -48,6 +48,24 @@ def _emit(text: str, output: str | None) -> None:
         write_atomically(output, text)
 
 
+class _bar:
+    """A progress bar on stderr for long runs, only when stderr is a terminal."""
+
+    def __init__(self, count: int, label: str = "re-solving") -> None:
+        self.count, self.label, self.bar = count, label, None
+
+    def __enter__(self) -> Any:
+        if self.count < 2 or not sys.stderr.isatty():
+            return None
+        self.bar = click.progressbar(length=self.count, label=self.label,
+                                     file=sys.stderr).__enter__()
+        return lambda: self.bar.update(1)  # type: ignore[union-attr]
+
+    def __exit__(self, *exc: object) -> None:
+        if self.bar is not None:
+            self.bar.__exit__(*exc)
+
+
 @click.command("prices")
 @click.argument("file", type=click.Path())
 @click.option("--data", type=click.Path(), default=None,
@@ -86,12 +104,20 @@ def prices_command(file: str, data: str | None, fmt: str, output: str | None, li
 
     with user_errors():
         problem = _problem(file, "nothing was priced")
-        report = prices(problem, _instance(file, data, problem), limit=limit,
-                        deadline=deadline_of(time_limit))
+        instance = _instance(file, data, problem)
+        with _bar(_entry_count(problem, instance)) as tick:
+            report = prices(problem, instance, limit=limit, deadline=deadline_of(time_limit),
+                            tick=tick)
         _emit(render_sensitivity(report, fmt, standalone), output)
         if report.rows:
             _bars(report, svg_path, png_path)
     sys.exit(1 if report.failed_checks() or not report.rows else 0)
+
+
+def _entry_count(problem: Any, instance: Any) -> int:
+    from dualize.multipliers.entries import entries
+
+    return len(entries(problem, instance))
 
 
 def _bars(report: Any, svg_path: str | None, png_path: str | None) -> None:

@@ -12,7 +12,7 @@ from typing import Any
 
 import click
 
-from dualize.commands.multipliers import FORMATS, STANDALONE, _emit, _instance, _problem
+from dualize.commands.multipliers import FORMATS, STANDALONE, _bar, _emit, _instance, _problem
 from dualize.errors import DualizeError
 
 
@@ -70,7 +70,7 @@ def trade_off_command(file: str, data: str | None, weight: str | None, bound: st
         pair = other_form(problem, weight=weight, bound=bound)
         given, values = _values(pair, instance, at_weight, at_bound, sweep_weights,
                                 sweep_bounds)
-        with _bar(len(values)) as tick:
+        with _bar(len(values), "matching") as tick:
             curve = trade_off(pair, instance, **{given: values}, tick=tick,
                               deadline=deadline_of(time_limit))
         _emit(render_curve(curve, fmt, standalone), output)
@@ -112,24 +112,6 @@ def _from_instance(pair: Any, instance: Any) -> tuple[str, list[float]]:
         pass
     raise DualizeError("the instance has no value for the weight or the bound: give "
                        "--at-weight, --at-bound or a sweep", exit_code=2)
-
-
-class _bar:
-    """A progress bar on stderr for sweeps, only when stderr is a terminal."""
-
-    def __init__(self, count: int) -> None:
-        self.count, self.bar = count, None
-
-    def __enter__(self) -> Any:
-        if self.count < 2 or not sys.stderr.isatty():
-            return None
-        self.bar = click.progressbar(length=self.count, label="matching",
-                                     file=sys.stderr).__enter__()
-        return lambda: self.bar.update(1)  # type: ignore[union-attr]
-
-    def __exit__(self, *exc: object) -> None:
-        if self.bar is not None:
-            self.bar.__exit__(*exc)
 
 
 def _pictures(curve: Any, csv_path: str | None, svg_path: str | None,

@@ -20,6 +20,7 @@ point, and the solver's multiplier lies between them).
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -108,7 +109,8 @@ class Sensitivity:
 
 
 def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT,
-                deadline: Deadline | None = None) -> Sensitivity:
+                deadline: Deadline | None = None,
+                tick: Callable[[], None] | None = None) -> Sensitivity:
     """Price every constraint of ``problem`` on ``instance`` and check every rate; past
     ``deadline`` the entries left are reported unchecked (one solve is never cut)."""
     from dualize.analysis.convexity import analyse_convexity
@@ -135,7 +137,7 @@ def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT
         return Sensitivity(status=start.status, value=float("nan"), refusal=(
             f"the problem on this instance is {start.status}: there is no optimal "
             "multiplier to read"), **base)
-    rows = _rows(posed, start, limit, deadline or Deadline(DEFAULT_SECONDS))
+    rows = _rows(posed, start, limit, deadline or Deadline(DEFAULT_SECONDS), tick)
     return Sensitivity(status=start.status, value=start.value, rows=tuple(rows), **base)
 
 
@@ -149,7 +151,8 @@ def _refusal(problem: Problem) -> str:
     return ""
 
 
-def _rows(posed: Posed, start: Point, limit: int, deadline: Deadline) -> list[Rate]:
+def _rows(posed: Posed, start: Point, limit: int, deadline: Deadline,
+          tick: Callable[[], None] | None) -> list[Rate]:
     problem, instance = posed.problem, posed.instance
     sign = -1.0 if problem.sense == "minimize" else 1.0
     everything = E.entries(problem, instance)
@@ -170,6 +173,8 @@ def _rows(posed: Posed, start: Point, limit: int, deadline: Deadline) -> list[Ra
         else:
             row = _check(posed, start, entry, row, scale)
         out.append(row)
+        if tick is not None:
+            tick()
     return out
 
 
