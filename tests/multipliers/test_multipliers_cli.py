@@ -280,3 +280,14 @@ def test_time_limits_leave_entries_and_points_unchecked() -> None:
                        "--format", "json")
     assert code == 1
     assert all("time limit" in p["note"] for p in json.loads(out)["points"])
+
+
+@pytest.mark.parametrize("args", [
+    ["reform", str(EXAMPLES / "spectrum_lasso.prob"), "-o", "/nonexistent-folder/x.prob"],
+    ["prices", str(EXAMPLES / "joinery_lp.prob"), "--data", "/nonexistent-folder/i.json"],
+    ["trade-off", str(EXAMPLES / "weighbridge_ridge.prob"), "--png", "/nonexistent-folder/a"],
+    ["prices", str(EXAMPLES / "no_such_problem.prob")],
+])
+def test_unusable_paths_are_one_line_and_exit_2(args: list[str]) -> None:
+    code, _, err = run(*args)
+    assert code == 2 and "Traceback" not in err and "internal error" not in err
