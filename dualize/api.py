@@ -40,7 +40,8 @@ if TYPE_CHECKING:
 
 __all__ = ["CheckVerdict", "DerivedDual", "DraftVerdicts", "GeneratedSolver", "LintResult",
            "ProblemError", "Verification", "analyze", "check", "check_draft", "derive",
-           "generate_solver", "instance_of", "lint", "load_problem", "other_form", "prices",
+           "generate_solver", "instance_of", "lint", "load_problem", "other_form", "price_count",
+           "prices",
            "render", "sibling_instance", "trade_off", "verify", "write_atomically",
            "write_bytes_atomically"]
 
@@ -344,6 +345,13 @@ def instance_of(problem: Problem, data: object) -> object:
     if isinstance(data, Instance):
         return data
     return read_instance(str(data), problem)
+
+
+def price_count(problem: Problem, instance: object) -> int:
+    """How many constraint entries ``prices`` would price on ``instance``."""
+    from dualize.multipliers.entries import entries
+
+    return len(entries(problem, instance))  # type: ignore[arg-type]
 
 
 def prices(source: str | Path | Problem, data: object, limit: int = 200,

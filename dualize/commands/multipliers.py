@@ -111,9 +111,9 @@ def prices_command(file: str, data: str | None, fmt: str, output: str | None, li
 
 
 def _entry_count(problem: Any, instance: Any) -> int:
-    from dualize.multipliers.entries import entries
+    from dualize.api import price_count
 
-    return len(entries(problem, instance))
+    return price_count(problem, instance)
 
 
 def _bars(report: Any, svg_path: str | None, png_path: str | None) -> None:

@@ -78,7 +78,7 @@ PROBLEMS = Path(__file__).resolve().parents[1] / "problems"
 
 
 def _random_report(name: str, seed: int = 0):  # type: ignore[no-untyped-def]
-    from dualize.numeric.instance import random_instance
+    from dualize.numeric.random_data import random_instance
 
     problem = load_problem(PROBLEMS / f"{name}.prob")
     return prices(problem, random_instance(problem, None, seed))
