@@ -18,7 +18,7 @@ constraints (h >= c exp(-g/c - 1) for the entropy).
 from __future__ import annotations
 
 from dualize.duality import build as b
-from dualize.duality.atoms import Atom
+from dualize.duality.building_blocks import BuildingBlock
 from dualize.duality.normal import Term, rebuild, tidy
 from dualize.duality.result import DualConstraint, Equation, Recovery, Step
 from dualize.model.expr import SCALAR, Apply, Divide, Expr, Hadamard, Symbol, walk
@@ -56,7 +56,7 @@ def relative_entropy_pair(term: Term, variables: dict[str, Variable]) -> tuple[
 
 def _factor_pairs(e: Expr) -> list[tuple[Expr, Expr]]:
     """The two factors of sum(a .* f) or a' f (either order)."""
-    from dualize.duality.atoms import _summed
+    from dualize.duality.building_blocks import _summed
     from dualize.model.expr import MatMul, Transpose
 
     inner = _summed(e)
@@ -68,9 +68,9 @@ def _factor_pairs(e: Expr) -> list[tuple[Expr, Expr]]:
     return []
 
 
-def entropy_atom(coef: Expr, u: Symbol) -> Atom:
+def entropy_atom(coef: Expr, u: Symbol) -> BuildingBlock:
     """c * sum(u .* log(u)), the phi of the perspective, as a separable building block."""
-    return Atom(coef, "separable", u, body=Hadamard(u, Apply("log", u)))
+    return BuildingBlock(coef, "separable", u, body=Hadamard(u, Apply("log", u)))
 
 
 def pair_outcome(u: Symbol, v: Symbol, g: Expr, h: Expr, entries: Expr,

@@ -74,18 +74,20 @@ def factored_value(x: Symbol, H: Expr, w: Expr, g: Expr, r: Expr,
     value = tidy(b.sub(r, b.scale(b.num(HALF), b.mul(b.transpose(g), w))))
     xstar = tidy(b.neg(w))
     why = ("positive definite" if kind == "pd" else
-           "positive semidefinite, possibly singular")
-    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ with Hessian $#H$ ({why}), "
-            "and its linear coefficient is that Hessian times $#w$: the gradient vanishes at "
-            "$#at$, so the infimum is $#value$, with no inverse to form.")
+           "positive semidefinite (possibly singular)")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ with Hessian $#H$ {why}, "
+            "and its linear coefficient is $#Hw$ for the $w$ shown: the gradient vanishes at "
+            f"$#at$, so the block contributes $#value$, with no inverse.")
+    said = (("#H", H), ("#Hw", b.mul(H, Symbol("w", "auxiliary", w.shape))),
+            ("#at", Equation(x, "=", xstar)), ("#value", value))
     note = _kernel_note(x, H, w)
     if kind != "pd":
-        note = (note + "; " if note else "") + (f"every {x.name} = -w + d with H d = 0 "
+        note = (note + "; " if note else "") + (f"every ${x.name}$ that differs from the point "
+                                                "above by a null-space direction of the Hessian "
                                                 "minimizes the Lagrangian as well")
     step = Step("minimize-quadratic-factored", text,
                 (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name,
-                formulas=(("#H", H), ("#w", tidy(w)), ("#at", Equation(x, "=", xstar)),
-                          ("#value", value)))
+                formulas=said)
     return value, step, Recovery(x.name, xstar, note)
 
 
@@ -185,17 +187,18 @@ def range_witness(x: Symbol, H: Expr, g: Expr, r: Expr) -> tuple[Expr, DualConst
     c = DualConstraint(lhs, "=", b.zeros(lhs.shape),
                        f"the infimum over {x.name} is finite only where its linear coefficient "
                        f"lies in the range of the Hessian: g = -H v for some v")
-    cond = Equation(tidy(g), "=", tidy(b.neg(b.mul(H, v))))
-    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian $#H$ is positive "
-            "semidefinite, possibly singular: it is bounded below exactly when its linear "
-            "coefficient lies in the range of the Hessian (the pseudo-inverse rule), and "
-            "minus infinity otherwise. Written with a witness, the condition is $#cond$; "
-            "then the infimum is $#value$, attained at $#at$.")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian $#H$ is "
+            "positive semidefinite, possibly singular: its infimum is finite only when the "
+            "linear coefficient $#g$ lies in the range of the Hessian. Writing that condition "
+            f"with a witness ${v.name}$ as shown, the gradient vanishes at $#at$ and the block "
+            "contributes $#value$.")
+    said = (("#H", H), ("#g", tidy(g)), ("#at", Equation(x, "=", v)), ("#value", value))
     var = DualVariable(v, "free", f"range witness of the quadratic in {x.name}")
-    step = Step("minimize-quadratic-range", text, (cond, Equation(x, "=", v)), block=x.name,
-                formulas=(("#H", H), ("#cond", cond), ("#value", value),
-                          ("#at", Equation(x, "=", v))))
-    rec = Recovery(x.name, v, f"every {x.name} = {v.name} + d with H d = 0 minimizes the "
+    step = Step("minimize-quadratic-range", text,
+                (Equation(tidy(g), "=", tidy(b.neg(b.mul(H, v)))), Equation(x, "=", v)),
+                block=x.name, formulas=said)
+    rec = Recovery(x.name, v, f"every ${x.name}$ that differs from ${v.name}$ by a null-space "
+                   "direction of the Hessian minimizes the "
                    "Lagrangian; where H is singular, choose d so that the primal constraints and "
                    "complementary slackness hold")
     return value, c, var, step, rec
