@@ -122,8 +122,10 @@ def _gram(n: int, rng: np.random.Generator, shift: float) -> np.ndarray:
 def _low_rank_gram(n: int, rng: np.random.Generator) -> np.ndarray:
     """A singular member of S^n_+ (rank about n/2): S^n_+ data need not be invertible,
     and the singular case is the one that tests the range conditions."""
-    g = rng.normal(size=(n, max(1, n // 2)))
-    return g @ g.T / n
+    # Entries on a grid of quarters make G G' exact in floating point, so the matrix is
+    # positive semidefinite in exact arithmetic too (the instance check is exact).
+    g = np.round(rng.normal(size=(n, max(1, n // 2))) * 4) / 4
+    return g @ g.T / 4
 
 
 def _stored(arr: np.ndarray) -> np.ndarray | float:
