@@ -283,12 +283,16 @@ def _is_entropy(node: E.Hadamard, rules: _Rules) -> bool:
 
 
 def _is_relative_entropy(node: E.Hadamard, rules: _Rules) -> bool:
-    """u .* log(u ./ v) with u and v affine: the relative entropy, jointly convex as the
-    perspective of -log (Boyd and Vandenberghe, 2004, section 3.2.6, from memory)."""
+    """u .* log(u ./ v) with u and v affine and known nonnegative: the relative entropy,
+    jointly convex as the perspective of w log w (Boyd and Vandenberghe, 2004, section
+    3.2.6, from memory).  Where u and v may both be negative it is concave there
+    (u log(u/v) has second derivative 1/u in u), so the signs must be known."""
     for a, b in ((node.left, node.right), (node.right, node.left)):
         if (isinstance(b, E.Apply) and b.func == "log" and isinstance(b.arg, E.Divide)
                 and b.arg.left == a):
-            return rules.of(a) == "affine" and rules.of(b.arg.right) in ("affine", "constant")
+            v = b.arg.right
+            return (rules.of(a) == "affine" and rules.of(v) in ("affine", "constant")
+                    and rules.sign(a) in S.NONNEG and rules.sign(v) in S.NONNEG)
     return False
 
 

@@ -68,3 +68,12 @@ def test_undecided_unconstrained_problem_is_not_called_strongly_dual() -> None:
     analysis = analyze(loaded.problem)
     assert analysis.convex is None
     assert analysis.strong_duality_status != "guaranteed"
+
+
+def test_relative_entropy_needs_known_signs() -> None:
+    # u log(u/q) is concave in u where u and q are negative (second derivative 1/u), so
+    # with q of unknown sign no convexity is claimed (Boyd and Vandenberghe, 2004,
+    # section 3.1.5, from memory).
+    loaded = load("data q in R^n\nminimize sum(relent(p, q))\nover p in R^n_+\n")
+    assert loaded.problem is not None
+    assert analyze(loaded.problem).convex is None
