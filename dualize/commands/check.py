@@ -52,7 +52,7 @@ def check_command(file: str, claim_path: str, name_map: str, data: str | None, c
 
     The claim may omit the data declarations of FILE.  It is compared
     symbolically and by solving it on instances.  Exit status: 0 for
-    "equivalent", 1 for any other verdict, 2 for bad input.
+    "equivalent" and "tight, not attained", 1 for any other verdict, 2 for bad input.
     """
     with user_errors():
         report = _run(file, claim_path, data, count, seed, dims, save_path, name_map,

@@ -1,7 +1,8 @@
 """``dualize check-draft``: every marked dual of a LaTeX draft, checked in one call.
 
-Exit codes: 0 when every claim is "equivalent"; 1 when any is not, or cannot be
-read or checked; 2 for bad input (an unreadable draft, no marked claim).
+Exit codes: 0 when every claim is "equivalent" (or "tight, not attained"); 1 when any
+is not, or cannot be read or checked; 2 for bad input (an unreadable draft, no marked
+claim).
 """
 
 from __future__ import annotations
@@ -34,7 +35,7 @@ def check_draft_command(draft: str, name_map: str, count: int, fmt: str) -> None
         emit(json.dumps({"draft": draft, "claims": rows}, indent=2) if fmt == "json"
              else "\n".join(_line(draft, r) for r in rows)
              or f"{draft}: no claim for a problem file")
-    sys.exit(0 if checks and all(c.verdict == "equivalent" for c in checks) else 1)
+    sys.exit(0 if checks and all(c.verdict in _PASSING for c in checks) else 1)
 
 
 def _row(check) -> dict:  # type: ignore[no-untyped-def]
@@ -47,3 +48,7 @@ def _line(draft: str, row: dict) -> str:  # type: ignore[type-arg]
     where = f"{row['problem']}" if row["problem"] else "no problem file"
     tail = f" ({row['error']})" if row["error"] else ""
     return f"{draft}:{row['line']}: {row['verdict']}  [{where}]{tail}"
+
+
+_PASSING = ("equivalent", "tight, not attained")
+"""Verdicts that mean the claim's optimal value is the primal optimum."""
