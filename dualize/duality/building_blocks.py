@@ -106,7 +106,7 @@ def _shaped(coef: Expr, e: Expr) -> BuildingBlock | None:
     if isinstance(e, Power) and e.exponent == 2 and isinstance(e.base, Norm) and e.base.p == "2":
         return BuildingBlock(coef, "square", e.base.arg)
     if isinstance(e, Apply) and e.func == LOG.name:
-        inner = summed(e.arg)
+        inner = summed_argument(e.arg)
         if inner is not None and isinstance(inner, Apply) and inner.func == EXP.name:
             return BuildingBlock(coef, "logsumexp", inner.arg)
     if isinstance(e, Apply) and e.func == ABS.name and e.shape.is_scalar:
@@ -114,7 +114,7 @@ def _shaped(coef: Expr, e: Expr) -> BuildingBlock | None:
     if isinstance(e, Extremum) and e.kind == "max" and is_zero(e.right):
         return BuildingBlock(coef, "hinge", e.left)
     weighted = _weighted(e)
-    weight, inner = weighted if weighted is not None else (None, summed(e))
+    weight, inner = weighted if weighted is not None else (None, summed_argument(e))
     if inner is None:
         return None
     if isinstance(inner, Apply) and inner.func == ABS.name:
@@ -129,11 +129,11 @@ def _weighted(e: Expr) -> tuple[Expr, Expr] | None:
     from dualize.model.expr import Hadamard
 
     pair = None
-    inner = summed(e)
-    if isinstance(inner, Hadamard):
-        pair = (inner.left, inner.right)
+    summed = summed_argument(e)
+    if isinstance(summed, Hadamard):
+        pair = (summed.left, summed.right)
         if not _nonneg_data(pair[0]):
-            pair = (inner.right, inner.left)
+            pair = (summed.right, summed.left)
     elif isinstance(e, MatMul) and len(e.factors) == 2 and isinstance(e.factors[0], Transpose):
         pair = (e.factors[0].arg, e.factors[1])  # w'E, or E'w as the normal form writes it
         if not _nonneg_data(pair[0]):
@@ -147,7 +147,7 @@ def _nonneg_data(w: Expr) -> bool:
     return isinstance(w, Symbol) and w.role == "data" and bool(w.facts & {"nonneg", "pos"})
 
 
-def summed(e: Expr) -> Expr | None:
+def summed_argument(e: Expr) -> Expr | None:
     """E when e is sum(E) (written sum(E) or 1'E)."""
     if isinstance(e, SumAll):
         return e.arg
@@ -178,7 +178,7 @@ def _scalar_product(term: Term, dependent: list[Expr],
 
 def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> BuildingBlock | None:
     """coef * sum(E(v)) with E elementwise in one decision variable v."""
-    inner = summed(e)
+    inner = summed_argument(e)
     if inner is None and isinstance(e, MatMul) and len(e.factors) == 2:
         first, second = e.factors
         if isinstance(first, Transpose) and first.arg.shape.cols == 1:
