@@ -198,6 +198,14 @@ def _questions(server: ProblemServer) -> None:
                              ls.work.last_parsed.get(snap.uri), text)
         return lsp.CompletionList(is_incomplete=False, items=items)
 
+    @server.feature(lsp.TEXT_DOCUMENT_CODE_LENS)
+    async def lenses(ls: ProblemServer, params: lsp.CodeLensParams) -> list[lsp.CodeLens]:
+        snap = await ls.current(params.text_document.uri)
+        if snap.document is None or snap.loaded.problem is None:
+            return []
+        where = ls.text_map(snap).span_range(snap.document.objective.span)
+        return [lsp.CodeLens(range=where, command=a.command) for a in _source_actions(snap)]
+
     @server.feature(lsp.TEXT_DOCUMENT_CODE_ACTION, lsp.CodeActionOptions(
         code_action_kinds=[lsp.CodeActionKind.QuickFix, lsp.CodeActionKind.Source]))
     async def act(ls: ProblemServer, params: lsp.CodeActionParams) -> list[lsp.CodeAction]:
