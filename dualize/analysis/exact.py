@@ -63,7 +63,7 @@ class _Env:
         return exact_2d(expr, self.values, self.dims)
 
     def size(self, size: Any) -> int:
-        from dualize.numeric.evaluate import size_of
+        from dualize.model.sizes import size_of
 
         return size_of(size, self.dims)
 

@@ -7,7 +7,6 @@ bad input (an unreadable problem, instance or option).
 
 from __future__ import annotations
 
-import os
 import sys
 from typing import Any
 
@@ -20,26 +19,23 @@ STANDALONE = click.option("--standalone", is_flag=True,
                           help="LaTeX: a complete document for pdflatex.")
 
 
-def _problem(file: str, outcome: str) -> Any:
-    from dualize.commands.common import load_problem
+def problem_for(file: str, outcome: str) -> Any:
+    from dualize.api import load_problem
 
-    if not os.path.isfile(file):
-        raise DualizeError(f"{file}: no such problem file", exit_code=2)
     return load_problem(file, outcome)
 
 
-def _instance(file: str, data: str | None, problem: Any) -> Any:
-    from dualize.commands.common import sibling_instance
-    from dualize.numeric.instance import read_instance
+def instance_for(file: str, data: str | None, problem: Any) -> Any:
+    from dualize.api import instance_of, sibling_instance
 
     path = data if data is not None else sibling_instance(file)
     if path is None:
         raise DualizeError(f"{file}: no instance: give one with --data (JSON or TOML)",
                            exit_code=2)
-    return read_instance(path, problem)
+    return instance_of(problem, path)
 
 
-def _emit(text: str, output: str | None) -> None:
+def emit_to(text: str, output: str | None) -> None:
     from dualize.api import write_atomically
 
     if output is None:
@@ -83,10 +79,10 @@ def prices_command(file: str, data: str | None, fmt: str, output: str | None, li
     from dualize.multipliers.printing import render_sensitivity
 
     with user_errors():
-        problem = _problem(file, "nothing was priced")
-        report = prices(problem, _instance(file, data, problem), limit=limit,
+        problem = problem_for(file, "nothing was priced")
+        report = prices(problem, instance_for(file, data, problem), limit=limit,
                         seconds=time_limit)
-        _emit(render_sensitivity(report, fmt, standalone), output)
+        emit_to(render_sensitivity(report, fmt, standalone), output)
         if report.rows:
             _bars(report, svg_path, png_path)
     sys.exit(1 if report.failed_checks() or not report.rows else 0)
@@ -131,8 +127,8 @@ def reform_command(file: str, weight: str | None, bound: str | None, name: str |
     with user_errors():
         if weight is not None and bound is not None:
             raise DualizeError("give --weight or --bound, not both", exit_code=2)
-        pair = other_form(_problem(file, "nothing was written"), weight=weight, bound=bound,
+        pair = other_form(problem_for(file, "nothing was written"), weight=weight, bound=bound,
                           name=name)
         if output is not None:
             write_atomically(output, pair.other_text)
-        _emit(render_pair(pair, fmt, standalone), None)
+        emit_to(render_pair(pair, fmt, standalone), None)

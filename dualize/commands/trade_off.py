@@ -12,7 +12,7 @@ from typing import Any
 
 import click
 
-from dualize.commands.multipliers import FORMATS, STANDALONE, _emit, _instance, _problem
+from dualize.commands.multipliers import FORMATS, STANDALONE, emit_to, instance_for, problem_for
 from dualize.errors import DualizeError
 
 
@@ -60,14 +60,14 @@ def trade_off_command(file: str, data: str | None, weight: str | None, bound: st
     from dualize.multipliers.path_print import render_curve
 
     with user_errors():
-        problem = _problem(file, "nothing was matched")
-        instance = _instance(file, data, problem)
+        problem = problem_for(file, "nothing was matched")
+        instance = instance_for(file, data, problem)
         pair = other_form(problem, weight=weight, bound=bound)
         given, values = _values(pair, instance, at_weight, at_bound, sweep_weights,
                                 sweep_bounds)
         with _bar(len(values)) as tick:
             curve = trade_off(pair, instance, **{given: values}, tick=tick)
-        _emit(render_curve(curve, fmt, standalone), output)
+        emit_to(render_curve(curve, fmt, standalone), output)
         _pictures(curve, csv_path, svg_path, png_path)
     sys.exit(1 if curve.failed() or curve.problems else 0)
 

@@ -74,27 +74,37 @@ def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> O
         return _affine_condition(x, g, r, ">=", f"its coefficient is nonnegative (${x.name}$ "
                                  "ranges over the nonnegative orthant)")
     if kind == "box":
-        lo, hi = domain.lo, domain.hi
-        assert lo is not None and hi is not None
-        term = b.minimum(b.scale(lo, g), b.scale(hi, g))
-        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        text = ("Over the box from $#lo$ to $#hi$ the infimum of the linear term $#term$ is "
-                "attained at a corner, entry by entry: the block contributes $#value$.")
-        said = _said(lo=lo, hi=hi, term=b.inner(g, x), value=tidy(value))
-        return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
-                       "where its coefficient is positive and at its upper bound where it is "
-                       "negative"), steps=[Step("minimize-affine-box", text, block=x.name,
-                                                formulas=said)])
+        return _affine_box(x, domain, g, r)
     if kind == "binary":
-        term = b.minimum(g, b.zeros(g.shape))
-        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        text = ("Over binary values the infimum of the linear term $#term$ is attained entry by "
-                "entry at 0 or 1: the block contributes $#value$.")
-        said = _said(term=b.inner(g, x), value=tidy(value))
-        return Outcome(value, steps=[Step("minimize-affine-binary", text, block=x.name,
-                                          formulas=said)],
-                       recovery=Recovery(x.name, None, "x_i = 1 where its coefficient is negative"))
+        return _affine_binary(x, g, r)
     return None
+
+
+def _affine_box(x: Symbol, domain: Domain, g: Expr, r: Expr) -> Outcome:
+    """inf over a box [l, u] of g'x + r = r + sum(min(l g, u g)), attained at a corner."""
+    lo, hi = domain.lo, domain.hi
+    assert lo is not None and hi is not None
+    term = b.minimum(b.scale(lo, g), b.scale(hi, g))
+    value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+    text = ("Over the box from $#lo$ to $#hi$ the infimum of the linear term $#term$ is "
+            "attained at a corner, entry by entry: the block contributes $#value$.")
+    said = _said(lo=lo, hi=hi, term=b.inner(g, x), value=tidy(value))
+    return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
+                   "where its coefficient is positive and at its upper bound where it is "
+                   "negative"), steps=[Step("minimize-affine-box", text, block=x.name,
+                                            formulas=said)])
+
+
+def _affine_binary(x: Symbol, g: Expr, r: Expr) -> Outcome:
+    """inf over {0,1}^n of g'x + r = r + sum(min(g, 0)), entry by entry."""
+    term = b.minimum(g, b.zeros(g.shape))
+    value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+    text = ("Over binary values the infimum of the linear term $#term$ is attained entry by "
+            "entry at 0 or 1: the block contributes $#value$.")
+    said = _said(term=b.inner(g, x), value=tidy(value))
+    return Outcome(value, steps=[Step("minimize-affine-binary", text, block=x.name,
+                                      formulas=said)],
+                   recovery=Recovery(x.name, None, "x_i = 1 where its coefficient is negative"))
 
 
 def _said(**formulas: object) -> tuple[tuple[str, object], ...]:

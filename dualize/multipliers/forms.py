@@ -52,16 +52,6 @@ class Pair:
     def other(self) -> Problem:
         return self.constrained if self.given == "penalized" else self.penalized
 
-    def _repr_markdown_(self) -> str:
-        from dualize.multipliers.path_print import pair_markdown
-
-        return pair_markdown(self)
-
-    def _repr_html_(self) -> str:
-        from dualize.multipliers.path_print import pair_html
-
-        return pair_html(self)
-
 
 class FormError(DualizeError):
     """The problem has no weighted term or bound of the kind asked (exit code 2)."""

@@ -63,26 +63,6 @@ class Curve:
     def failed(self) -> tuple[Match, ...]:
         return tuple(p for p in self.points if p.status in ("disagrees", "failed"))
 
-    def _repr_markdown_(self) -> str:
-        from dualize.multipliers.path_print import curve_markdown
-
-        return curve_markdown(self)
-
-    def _repr_html_(self) -> str:
-        from dualize.multipliers.path_print import curve_html
-
-        return curve_html(self)
-
-    def _repr_svg_(self) -> str:
-        from dualize.multipliers.plot import curve_svg
-
-        return curve_svg(self)
-
-    def _repr_png_(self) -> bytes:
-        from dualize.multipliers.plot import curve_png
-
-        return curve_png(self)
-
 
 class Forms:
     """Both forms posed once on one instance; each solve only changes ``w`` or ``t``."""

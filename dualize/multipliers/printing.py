@@ -209,8 +209,24 @@ def render_sensitivity(report: Sensitivity, fmt: str, standalone: bool = False) 
     """The report in ``fmt`` (text, markdown, latex or json); ``standalone`` LaTeX
     is a complete document."""
     if fmt == "latex":
-        from dualize.multipliers.latex import sensitivity_latex
-
         return sensitivity_latex(report, standalone)
     return {"text": sensitivity_text, "markdown": sensitivity_markdown,
             "json": sensitivity_json}[fmt](report)
+
+
+def sensitivity_latex(report: Sensitivity, standalone: bool = False) -> str:
+    from dualize.multipliers.latex import escape, tabular, wrap
+
+    head = _header(report)
+    parts = [r"\paragraph{Prices of the constraints.} " + escape(" ".join(head[1:]))]
+    if report.rows:
+        parts += [escape(CONVENTION), tabular(table_rows(report))]
+        parts += [escape(f"{r.name}: {r.note}") for r in report.rows if r.note]
+        parts += [escape(METHOD + " " + rates_sentence(report))]
+    if report.established:
+        rel = r"\geq" if report.minimize else r"\leq"
+        sign = "-" if report.minimize else "+"
+        parts.append(f"\\[ p^\\star(u) {rel} p^\\star(0) {sign} \\lambda^{{\\star\\top}} u "
+                     "\\quad \\text{for every } u \\]")
+    parts += [escape(bound_sentence(report)), r"\emph{" + escape(CAUTION) + "}"]
+    return wrap(parts, head[0], standalone)

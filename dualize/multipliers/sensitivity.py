@@ -85,30 +85,17 @@ class Sensitivity:
     def failed_checks(self) -> tuple[Rate, ...]:
         return tuple(r for r in self.rows if r.check.endswith("disagrees"))
 
-    def _repr_markdown_(self) -> str:
-        from dualize.multipliers.printing import sensitivity_markdown
-
-        return sensitivity_markdown(self)
-
-    def _repr_html_(self) -> str:
-        from dualize.multipliers.printing import sensitivity_html
-
-        return sensitivity_html(self)
-
-    def _repr_svg_(self) -> str | None:
-        """The rates as bars (None, so a notebook shows no picture, when nothing is priced)."""
-        from dualize.multipliers.plot import prices_svg
-
-        return prices_svg(self) if self.rows else None
-
 
 def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT,
                 seconds: float = DEFAULT_SECONDS) -> Sensitivity:
     """Price every constraint of ``problem`` on ``instance`` and check every rate."""
     from dualize.analysis.convexity import analyse_convexity
+    from dualize.analysis.measured import Measured
     from dualize.analysis.slater import strong_duality
+    from dualize.numeric.evaluate import evaluate_2d
 
-    verdict = strong_duality(problem, analyse_convexity(problem), instance.values)
+    verdict = strong_duality(problem, analyse_convexity(problem),
+                             Measured(instance.values, evaluate_2d))
     base = dict(problem=problem, instance=instance.source, verdict=verdict.status,
                 verdict_reason=verdict.reason)
     refusal = _refusal(problem)
