@@ -114,9 +114,7 @@ def _names(problem: Problem) -> set[str]:
 def _lagrangian_step(problem: Problem, L: Expr, mults) -> Step:  # type: ignore[no-untyped-def]
     args = tuple(v.name for v in problem.variables) + tuple(m.name for m in mults)
     if not problem.constraints:
-        text = ("The problem has no constraints, so the Lagrangian is the objective itself and "
-                "the dual function is its " + ("infimum" if problem.sense == "minimize" else
-                                              "supremum") + ", a constant: the optimal value.")
+        text = "The problem has no constraints, so the Lagrangian is the objective itself."
     elif problem.sense == "minimize":
         text = ("The Lagrangian adds each constraint function, weighted by its multiplier "
                 "(nonnegative for inequalities, free for equalities, positive semidefinite for "
