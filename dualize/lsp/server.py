@@ -146,6 +146,7 @@ def build(limits: Limits | None = None, version: str = "0") -> ProblemServer:
     server = ProblemServer(limits or Limits(), version)
     _documents(server)
     _questions(server)
+    _actions(server)
     _commands(server)
     return server
 
@@ -198,6 +199,9 @@ def _questions(server: ProblemServer) -> None:
                              ls.work.last_parsed.get(snap.uri), text)
         return lsp.CompletionList(is_incomplete=False, items=items)
 
+
+
+def _actions(server: ProblemServer) -> None:
     @server.feature(lsp.TEXT_DOCUMENT_CODE_LENS)
     async def lenses(ls: ProblemServer, params: lsp.CodeLensParams) -> list[lsp.CodeLens]:
         snap = await ls.current(params.text_document.uri)
