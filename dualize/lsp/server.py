@@ -50,6 +50,7 @@ class ProblemServer(LanguageServer):
         self.work = Work()
         self.pending: dict[str, asyncio.Task[None]] = {}
         self.shown: set[str] = set()
+        self.orderly = False
 
     def report_server_error(self, error: Exception, source: Any) -> None:
         """A notification that could not be handled (a change to a document that was
@@ -152,6 +153,10 @@ def build(limits: Limits | None = None, version: str = "0") -> ProblemServer:
 
 
 def _documents(server: ProblemServer) -> None:
+    @server.feature(lsp.SHUTDOWN)
+    def shutting_down(ls: ProblemServer, *args: Any) -> None:
+        ls.orderly = True  # an `exit` after this ends the process with code 0
+
     @server.feature(lsp.TEXT_DOCUMENT_DID_OPEN)
     def opened(ls: ProblemServer, params: lsp.DidOpenTextDocumentParams) -> None:
         ls.schedule(params.text_document.uri, 0.0)
