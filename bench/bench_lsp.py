@@ -132,7 +132,7 @@ def main() -> None:
     for key in ("ratio_open", "ratio_change"):
         values = [r[key] for r in rows]
         summary[f"max_{key}"] = max(values)
-        summary[f"median_{key}"] = statistics.median(values)
+        summary[f"median_{key}"] = round(statistics.median(values), 4)
     print(f"first answer (cold) {summary['first_answer_s']} s; on opening: ratio median "
           f"{summary['median_ratio_open']}, max {summary['max_ratio_open']}; after a change "
           f"(with the debounce): median {summary['median_ratio_change']}, max "

@@ -24,24 +24,23 @@ class Derived:
 
     def analysis(self) -> Any:
         """The analysis a report shows (verdicts, findings), computed when one is made."""
-        from dualize.analysis import analyze
+        from dualize import api
 
-        return analyze(self.derivation.problem)
+        return api.analyze(self.derivation.problem)
 
 
 def derive_snapshot(snap: Snapshot, seconds: float) -> Derived:
     """Derive the dual of the snapshot's problem within ``seconds`` (past them the engine
     keeps what it has and its notes say which step was cut); a problem with errors is
     refused."""
-    from dualize.deadline import Deadline
-    from dualize.duality import derive
+    from dualize import api
 
     problem = snap.loaded.problem
     errors = [d for d in snap.loaded.diagnostics if d.severity == "error"]
     if problem is None or errors:
         raise DualizeError(f"{snap.path}: the problem has {len(errors) or 'syntax'} "
                            f"error(s); nothing was derived", exit_code=2)
-    return Derived(derive(problem, Deadline(seconds)))
+    return Derived(api.derive(problem, time_limit=seconds))
 
 
 def markdown(derived: Derived) -> str:

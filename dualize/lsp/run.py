@@ -27,7 +27,7 @@ def serve(time_limit: float) -> NoReturn:
     except SystemExit as done:
         code = done.code if isinstance(done.code, int) else 1
     else:
-        code = 0 if server.protocol._shutdown else 1
+        code = 0 if server.orderly else 1
     finally:
         server.work.close()
         sys.stderr.flush()  # standard output is closed by the exit request: each

@@ -50,6 +50,7 @@ class ProblemServer(LanguageServer):
         self.work = Work()
         self.pending: dict[str, asyncio.Task[None]] = {}
         self.shown: set[str] = set()
+        self.orderly = False
 
     def report_server_error(self, error: Exception, source: Any) -> None:
         """A notification that could not be handled (a change to a document that was
@@ -146,11 +147,16 @@ def build(limits: Limits | None = None, version: str = "0") -> ProblemServer:
     server = ProblemServer(limits or Limits(), version)
     _documents(server)
     _questions(server)
+    _actions(server)
     _commands(server)
     return server
 
 
 def _documents(server: ProblemServer) -> None:
+    @server.feature(lsp.SHUTDOWN)
+    def shutting_down(ls: ProblemServer, *args: Any) -> None:
+        ls.orderly = True  # an `exit` after this ends the process with code 0
+
     @server.feature(lsp.TEXT_DOCUMENT_DID_OPEN)
     def opened(ls: ProblemServer, params: lsp.DidOpenTextDocumentParams) -> None:
         ls.schedule(params.text_document.uri, 0.0)
@@ -197,6 +203,17 @@ def _questions(server: ProblemServer) -> None:
         items = await ls.ask(navigate.completions, snap, text.offset(params.position),
                              ls.work.last_parsed.get(snap.uri), text)
         return lsp.CompletionList(is_incomplete=False, items=items)
+
+
+
+def _actions(server: ProblemServer) -> None:
+    @server.feature(lsp.TEXT_DOCUMENT_CODE_LENS)
+    async def lenses(ls: ProblemServer, params: lsp.CodeLensParams) -> list[lsp.CodeLens]:
+        snap = await ls.current(params.text_document.uri)
+        if snap.document is None or snap.loaded.problem is None:
+            return []
+        where = ls.text_map(snap).span_range(snap.document.objective.span)
+        return [lsp.CodeLens(range=where, command=a.command) for a in _source_actions(snap)]
 
     @server.feature(lsp.TEXT_DOCUMENT_CODE_ACTION, lsp.CodeActionOptions(
         code_action_kinds=[lsp.CodeActionKind.QuickFix, lsp.CodeActionKind.Source]))

@@ -67,7 +67,7 @@ def config_for(file: Path | None) -> tuple[LintConfig, str | None]:
 
 def snapshot(uri: str, version: int | None, text: str) -> Snapshot:
     """Parse and resolve one version of a document (no analysis yet)."""
-    from dualize.model import load
+    from dualize.model.loading import load_parsed
     from dualize.syntax.parser import parse
 
     file = file_of(uri)
@@ -76,8 +76,8 @@ def snapshot(uri: str, version: int | None, text: str) -> Snapshot:
         text = " " + text[1:]
     config, error = config_for(file)
     parsed = parse(text, path)
-    return Snapshot(uri, version, text, path, file, load(text, path), parsed.document,
-                    config, error)
+    return Snapshot(uri, version, text, path, file, load_parsed(parsed, text, path),
+                    parsed.document, config, error)
 
 
 def analysed(snap: Snapshot) -> Snapshot:

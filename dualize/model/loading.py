@@ -15,7 +15,7 @@ from dualize.errors import DualizeError
 from dualize.model.problem import Problem
 from dualize.model.resolve import resolve
 from dualize.syntax import rules as R
-from dualize.syntax.parser import parse
+from dualize.syntax.parser import ParseResult, parse
 from dualize.syntax.span import Span
 
 
@@ -33,7 +33,12 @@ class Loaded:
 
 def load(text: str, path: str = "<string>") -> Loaded:
     """Parse and resolve one problem's text."""
-    parsed = parse(text, path)
+    return load_parsed(parse(text, path), text, path)
+
+
+def load_parsed(parsed: ParseResult, text: str, path: str = "<string>") -> Loaded:
+    """Resolve a problem already parsed from ``text`` (for callers that keep the syntax
+    tree too, such as the language server, so the text is parsed once)."""
     if parsed.document is None:
         return Loaded(None, parsed.diagnostics)
     problem, diagnostics = resolve(parsed.document, text, path)

@@ -176,3 +176,19 @@ def test_code_actions_honour_the_requested_kinds(tmp_path: Path) -> None:
         assert await s.stop() == 0
 
     run(scenario)
+
+
+def test_code_lenses_over_the_objective_run_the_commands(tmp_path: Path) -> None:
+    text = SOFT_MARGIN.read_text(encoding="utf-8")
+    uri = uri_of(tmp_path / "margin.prob")
+
+    async def scenario(s: Session) -> None:
+        s.open(uri, text)
+        lenses = await s.client.text_document_code_lens_async(lsp.CodeLensParams(_doc(uri)))
+        assert [x.command.command for x in lenses] == ["dualize.deriveDual",
+                                                       "dualize.writeLatex"]
+        assert all(x.range.start == position_of(text, "minimize") for x in lenses)
+        assert list(lenses[0].command.arguments) == [uri]
+        assert await s.stop() == 0
+
+    run(scenario)
