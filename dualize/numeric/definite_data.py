@@ -3,12 +3,14 @@
 An eigenvalue test with a tolerance relative to the largest entry rejects
 ``diag(1, 1e-10)``, which is positive definite.  Instead:
 
-- up to :data:`EXACT_SIZE` rows, the answer is exact: symmetric Gaussian
+- up to :data:`EXACT_SIZE` rows, a "yes" is exact: symmetric Gaussian
   elimination (LDL') over the rationals with diagonal pivoting, on the
-  matrix's exact entries.  A negative pivot, or a zero pivot with a nonzero
-  rest of its row, proves the matrix is not semidefinite; a positive pivot at
-  every step proves it definite (G. H. Golub and C. F. Van Loan, Matrix
-  Computations, 4th ed., 2013, section 4.2, from memory).
+  matrix's exact entries; a positive pivot at every step proves it definite, a
+  nonnegative one with zero rests semidefinite (G. H. Golub and C. F. Van Loan,
+  Matrix Computations, 4th ed., 2013, section 4.2, from memory).  An exact "no"
+  (a negative pivot) may be rounding of a singular semidefinite matrix computed
+  in floating point, so a "no" is said only when the scaled test below also
+  finds the smallest eigenvalue below minus its margin; else "undecided".
 - above, a scaled test: with D = diag(a_ii)^(-1/2) the matrix S = D A D has a
   unit diagonal and the same inertia (Sylvester's law of inertia), so its
   smallest eigenvalue is compared with a stated margin, ``MARGIN * n``, well
@@ -35,9 +37,12 @@ def decide(matrix: np.ndarray, strict: bool, exact: np.ndarray | None = None) ->
     n = matrix.shape[0]
     if n == 0:
         return "yes"
-    if n <= EXACT_SIZE:
-        return _exact(_symmetric(matrix, exact), strict)
-    return _scaled(np.asarray(matrix, dtype=float), strict)
+    if n <= EXACT_SIZE and _exact(_symmetric(matrix, exact), strict) == "yes":
+        return "yes"
+    scaled = _scaled(np.asarray(matrix, dtype=float), strict)
+    if n <= EXACT_SIZE and scaled == "yes":
+        return "undecided"  # definite to the margin, not exactly: rounding decides
+    return scaled
 
 
 def _symmetric(matrix: np.ndarray, exact: np.ndarray | None) -> list[list[Fraction]]:
