@@ -19,6 +19,7 @@ import argparse
 import json
 import os
 import shutil
+import signal
 import subprocess
 import sys
 import tempfile
@@ -52,11 +53,16 @@ def measured(command: list[str], timeout: float) -> dict:
     timer = shutil.which("time") and Path("/usr/bin/time").exists()
     full = ["/usr/bin/time", "-v", *command] if timer else command
     start = time.perf_counter()
-    try:
-        done = subprocess.run(full, capture_output=True, text=True, env=env, timeout=timeout,
-                              check=False)
-    except subprocess.TimeoutExpired:
-        return {"error": f"killed after {timeout:.0f} s"}
+    # A session of its own, so that a timeout ends the solver too, not only /usr/bin/time.
+    with subprocess.Popen(full, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+                          env=env, start_new_session=True) as child:
+        try:
+            stdout, stderr = child.communicate(timeout=timeout)
+        except subprocess.TimeoutExpired:
+            os.killpg(child.pid, signal.SIGKILL)
+            child.communicate()
+            return {"error": f"killed after {timeout:.0f} s"}
+    done = subprocess.CompletedProcess(full, child.returncode, stdout, stderr)
     seconds = time.perf_counter() - start
     peak = None
     for line in done.stderr.splitlines():
@@ -134,18 +140,23 @@ def main() -> None:
     parser = argparse.ArgumentParser()
     parser.add_argument("--quick", action="store_true", help="the small size of each case")
     parser.add_argument("--only", help="run only this case (soft_margin, lp, lasso, ...)")
+    parser.add_argument("--size", help="run only this size of the case(s), e.g. 10000x100")
     parser.add_argument("--timeout", type=float, default=600.0)
+    parser.add_argument("--out", help="where to write the figures (default: bench/results_"
+                        "solver.json, or results_solver_quick.json with --quick)")
     args = parser.parse_args()
     plan = QUICK if args.quick else [(n, s) for n, c in CASES.items() for s in c.sizes]
     rows = []
     with tempfile.TemporaryDirectory() as scratch:
         for name, size in plan:
-            if args.only and name != args.only:
+            if (args.only and name != args.only) or \
+                    (args.size and "x".join(map(str, size)) != args.size):
                 continue
             rows.append(one_case(name, size, Path(scratch), args.timeout))
             print(json.dumps(rows[-1]), flush=True)
     print(table(rows))
-    out = ROOT / "bench" / ("results_solver_quick.json" if args.quick else "results_solver.json")
+    out = Path(args.out) if args.out else \
+        ROOT / "bench" / ("results_solver_quick.json" if args.quick else "results_solver.json")
     out.write_text(json.dumps(rows, indent=2) + "\n", encoding="utf-8")
 
 

@@ -64,18 +64,19 @@ class _Env:
 
     def size(self, size: Any) -> int:
         """A symbolic size (``n``, ``m + 1``) as an integer, from the instance's sizes."""
-        value = sympy.sympify(size)
-        free = sorted(value.free_symbols, key=lambda s: s.name)
-        if any(s.name not in self.dims for s in free):
-            raise NotExact(f"no size for {value}")
-        return int(value.subs({s: int(self.dims[s.name]) for s in free}))
+        from dualize.model.sizes import size_of
+
+        try:
+            return size_of(size, self.dims)
+        except KeyError as exc:
+            raise NotExact(f"no size for {size}") from exc
 
     def shape(self, shape: ir.Shape) -> tuple[int, int]:
         return self.size(shape.rows), self.size(shape.cols)
 
 
 def _rational(value: Any, dims: Mapping[str, int]) -> Fraction:
-    value = sympy.sympify(value)
+    value = value if isinstance(value, sympy.Basic) else sympy.Rational(value)
     free = sorted(value.free_symbols, key=lambda s: s.name)
     value = value.subs({s: int(dims[s.name]) for s in free}) if free else value
     if not value.is_Rational:

@@ -74,27 +74,38 @@ def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> O
         return _affine_condition(x, g, r, ">=", f"its coefficient is nonnegative (${x.name}$ "
                                  "ranges over the nonnegative orthant)")
     if kind == "box":
-        lo, hi = domain.lo, domain.hi
-        assert lo is not None and hi is not None
-        term = b.minimum(b.scale(lo, g), b.scale(hi, g))
-        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        text = ("Over the box from $#lo$ to $#hi$ the infimum of the linear term $#term$ is "
-                "attained at a corner, entry by entry: the block contributes $#value$.")
-        said = _said(lo=lo, hi=hi, term=b.inner(g, x), value=tidy(value))
-        return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
-                       "where its coefficient is positive and at its upper bound where it is "
-                       "negative"), steps=[Step("minimize-affine-box", text, block=x.name,
-                                                formulas=said)])
+        return _affine_box(x, g, r, domain)
     if kind == "binary":
-        term = b.minimum(g, b.zeros(g.shape))
-        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        text = ("Over binary values the infimum of the linear term $#term$ is attained entry by "
-                "entry at 0 or 1: the block contributes $#value$.")
-        said = _said(term=b.inner(g, x), value=tidy(value))
-        return Outcome(value, steps=[Step("minimize-affine-binary", text, block=x.name,
-                                          formulas=said)],
-                       recovery=Recovery(x.name, None, "x_i = 1 where its coefficient is negative"))
+        return _affine_binary(x, g, r)
     return None
+
+
+def _affine_box(x: Symbol, g: Expr, r: Expr, domain: Domain) -> Outcome:
+    """Over lo <= x <= hi each entry sits at the bound its coefficient's sign picks."""
+    lo, hi = domain.lo, domain.hi
+    assert lo is not None and hi is not None
+    term = b.minimum(b.scale(lo, g), b.scale(hi, g))
+    value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+    text = ("Over the box from $#lo$ to $#hi$ the infimum of the linear term $#term$ is "
+            "attained at a corner, entry by entry: the block contributes $#value$.")
+    said = _said(lo=lo, hi=hi, term=b.inner(g, x), value=tidy(value))
+    return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
+                   "where its coefficient is positive and at its upper bound where it is "
+                   "negative"), steps=[Step("minimize-affine-box", text, block=x.name,
+                                            formulas=said)])
+
+
+def _affine_binary(x: Symbol, g: Expr, r: Expr) -> Outcome:
+    """Over {0,1}^n each entry is 1 exactly where its coefficient is negative."""
+    term = b.minimum(g, b.zeros(g.shape))
+    value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+    text = ("Over binary values the infimum of the linear term $#term$ is attained entry by "
+            "entry at 0 or 1: the block contributes $#value$.")
+    said = _said(term=b.inner(g, x), value=tidy(value))
+    return Outcome(value, steps=[Step("minimize-affine-binary", text, block=x.name,
+                                      formulas=said)],
+                   recovery=Recovery(x.name, None, f"${x.name}$ has entry 1 where its "
+                                     "coefficient is negative and 0 elsewhere"))
 
 
 def _said(**formulas: object) -> tuple[tuple[str, object], ...]:
@@ -104,7 +115,7 @@ def _said(**formulas: object) -> tuple[tuple[str, object], ...]:
 
 def _affine_condition(x: Symbol, g: Expr, r: Expr, rel: str, why: str) -> Outcome:
     text = (f"The Lagrangian is affine in ${x.name}$; it is bounded below only where "
-            f"{why}, and then its infimum is the constant part, $#value$.")
+            f"{why}, and then the block contributes its constant part, $#value$.")
     c = zero_constraint(g, rel, f"the Lagrangian is affine in {x.name}: {why}")
     shown = (Equation(_grad_head(x), "=", tidy(g)),
              Equation(tidy(g), rel, b.zeros(g.shape)))  # type: ignore[arg-type]

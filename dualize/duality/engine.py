@@ -7,7 +7,7 @@
    multiplier z, which leaves an equivalent problem whose Lagrangian is affine
    in the original variables (S. Boyd and L. Vandenberghe, Convex
    Optimization, 2004, section 5.7).
-3. Minimize block by block (``blocks``, ``atoms``, ``separable``).
+3. Minimize block by block (``blocks``, ``building_blocks``, ``separable``).
 4. Simplify the dual (``simplify``) and state KKT and recovery (``kkt``).
 """
 
@@ -17,8 +17,14 @@ from dataclasses import dataclass, field
 
 from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
-from dualize.duality.atoms import Atom, atom_expression, infimum, recognise, with_argument
 from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
+from dualize.duality.building_blocks import (
+    BuildingBlock,
+    block_expression,
+    infimum,
+    recognise,
+    with_argument,
+)
 from dualize.duality.definite import definiteness
 from dualize.duality.kkt import conditions
 from dualize.duality.lagrangian import lagrangian, multipliers
@@ -52,7 +58,7 @@ class Work:
     coupled: list[Term] = field(default_factory=list)
     extra: list[DualVariable] = field(default_factory=list)
     steps: list[Step] = field(default_factory=list)
-    aux_blocks: list[tuple[Symbol, Atom, Symbol]] = field(default_factory=list)
+    aux_blocks: list[tuple[Symbol, BuildingBlock, Symbol]] = field(default_factory=list)
     aux_args: dict[str, Expr] = field(default_factory=dict)
     deadline: Deadline = field(default_factory=Deadline.unlimited)
     cut: list[str] = field(default_factory=list)
@@ -108,9 +114,7 @@ def _names(problem: Problem) -> set[str]:
 def _lagrangian_step(problem: Problem, L: Expr, mults) -> Step:  # type: ignore[no-untyped-def]
     args = tuple(v.name for v in problem.variables) + tuple(m.name for m in mults)
     if not problem.constraints:
-        text = ("The problem has no constraints, so the Lagrangian is the objective itself and "
-                "the dual function is its " + ("infimum" if problem.sense == "minimize" else
-                                              "supremum") + ", a constant: the optimal value.")
+        text = "The problem has no constraints, so the Lagrangian is the objective itself."
     elif problem.sense == "minimize":
         text = ("The Lagrangian adds each constraint function, weighted by its multiplier "
                 "(nonnegative for inequalities, free for equalities, positive semidefinite for "
@@ -156,7 +160,7 @@ def _distribute(work: Work, terms: list[Term]) -> None:
                 work.coupled.append(t)
 
 
-def _split(work: Work, atom: Atom) -> None:
+def _split(work: Work, atom: BuildingBlock) -> None:
     """Introduce u = arg with a free multiplier z: the term becomes atom(u) + z'(arg - u)."""
     u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
     z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
@@ -337,16 +341,16 @@ def _affine_only(polys: list[Quadratic], x: Symbol) -> bool:
     return all(q.Q is None for q in polys)
 
 
-def _square_poly(a: Atom, x: Symbol) -> Quadratic:
+def _square_poly(a: BuildingBlock, x: Symbol) -> Quadratic:
     q = quadratic(b.scale(a.coef, b.inner(a.arg, a.arg)), x)
     assert q is not None
     return q
 
 
 def _sum(parts: list[Quadratic | None]) -> Quadratic | None:
-    from dualize.duality.linear import _quad_sum
+    from dualize.duality.linear import quad_sum
 
-    return _quad_sum(parts) if parts else Quadratic(None, None, None)
+    return quad_sum(parts) if parts else Quadratic(None, None, None)
 
 
 def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome | None:
@@ -355,7 +359,7 @@ def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome | None:
     return quadratic_block(v.symbol, v.domain, q)
 
 
-def _split_local(work: Work, atom: Atom, polys: list[Quadratic], x: Symbol) -> None:
+def _split_local(work: Work, atom: BuildingBlock, polys: list[Quadratic], x: Symbol) -> None:
     """Split an atom of one block; its z'arg part joins that block's polynomial terms."""
     u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
     z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
@@ -372,12 +376,12 @@ def _split_local(work: Work, atom: Atom, polys: list[Quadratic], x: Symbol) -> N
     polys.append(q)
 
 
-def _kind_name(atom: Atom) -> str:
+def _kind_name(atom: BuildingBlock) -> str:
     return {"norm": "norm", "square": "squared norm", "hinge": "hinge", "abs": "absolute value",
             "logsumexp": "log-sum-exp", "separable": "separable"}[atom.kind]
 
 
-def _direct(work: Work, v: Variable, atom: Atom, polys: list[Quadratic]) -> Outcome:
+def _direct(work: Work, v: Variable, atom: BuildingBlock, polys: list[Quadratic]) -> Outcome:
     """inf over x of atom(x) + g'x + r = r - atom*(-g)."""
     q = _sum(polys)  # type: ignore[arg-type]
     assert q is not None
@@ -387,12 +391,12 @@ def _direct(work: Work, v: Variable, atom: Atom, polys: list[Quadratic]) -> Outc
     return _conjugate_outcome(v.symbol, atom, s, r, v.domain, work)
 
 
-def _aux_block(u: Symbol, atom: Atom, z: Symbol) -> Outcome:
+def _aux_block(u: Symbol, atom: BuildingBlock, z: Symbol) -> Outcome:
     """inf over u of atom(u) - z'u = -atom*(z)."""
     return _conjugate_outcome(u, atom, z, b.num(0), Domain("free"), None)
 
 
-def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
+def _conjugate_outcome(x: Symbol, atom: BuildingBlock, s: Expr, r: Expr, domain: Domain,
                        work: Work | None) -> Outcome:
     if atom.kind == "separable":
         inf = separable_infimum(atom, s, x, domain,
@@ -400,7 +404,7 @@ def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
     else:
         inf = infimum(atom, s, x) if domain.kind == "free" else None
     if inf is None:
-        kept = b.add(atom_expression(atom), b.neg(b.inner(s, x)), r)
+        kept = b.add(block_expression(atom), b.neg(b.inner(s, x)), r)
         return Outcome(tidy(kept), inner=True, steps=[Step(
             "no-closed-form", f"No closed form for the infimum over ${x.name}$ of this "
             f"{_kind_name(atom)} term: the infimum is kept.", block=x.name)])

@@ -75,15 +75,19 @@ def factored_value(x: Symbol, H: Expr, w: Expr, g: Expr, r: Expr,
     xstar = tidy(b.neg(w))
     why = ("positive definite" if kind == "pd" else
            "positive semidefinite (possibly singular)")
-    text = (f"The Lagrangian is a convex quadratic in {x.name} with Hessian H {why}, and its "
-            f"linear coefficient is H w for the w shown: the gradient H ({x.name} + w) vanishes "
-            f"at {x.name} = -w, so the infimum is r - 1/2 w'H w, with no inverse (H H^+ H = H).")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ with Hessian $#H$ {why}, "
+            "and its linear coefficient is $#Hw$ for the $w$ shown: the gradient vanishes at "
+            f"$#at$, so the block contributes $#value$, with no inverse.")
+    said = (("#H", H), ("#Hw", b.mul(H, Symbol("w", "auxiliary", w.shape))),
+            ("#at", Equation(x, "=", xstar)), ("#value", value))
     note = _kernel_note(x, H, w)
     if kind != "pd":
-        note = (note + "; " if note else "") + (f"every {x.name} = -w + d with H d = 0 "
+        note = (note + "; " if note else "") + (f"every ${x.name}$ that differs from the point "
+                                                "above by a null-space direction of the Hessian "
                                                 "minimizes the Lagrangian as well")
     step = Step("minimize-quadratic-factored", text,
-                (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name)
+                (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name,
+                formulas=said)
     return value, step, Recovery(x.name, xstar, note)
 
 
@@ -115,16 +119,18 @@ def range_witness(x: Symbol, H: Expr, g: Expr, r: Expr) -> tuple[Expr, DualConst
     c = DualConstraint(lhs, "=", b.zeros(lhs.shape),
                        f"the infimum over {x.name} is finite only where its linear coefficient "
                        f"lies in the range of the Hessian: g = -H v for some v")
-    text = (f"The Lagrangian is a convex quadratic in {x.name} whose Hessian H is positive "
-            "semidefinite, possibly singular: its infimum is r - 1/2 g'H^+ g when g lies in "
-            "the range of H and minus infinity otherwise. Writing the range condition as "
-            f"g = -H v with a witness v, the value is r - 1/2 v'H v and {x.name} = v "
-            "minimizes the Lagrangian.")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian $#H$ is "
+            "positive semidefinite, possibly singular: its infimum is finite only when the "
+            "linear coefficient $#g$ lies in the range of the Hessian. Writing that condition "
+            f"with a witness ${v.name}$ as shown, the gradient vanishes at $#at$ and the block "
+            "contributes $#value$.")
+    said = (("#H", H), ("#g", tidy(g)), ("#at", Equation(x, "=", v)), ("#value", value))
     var = DualVariable(v, "free", f"range witness of the quadratic in {x.name}")
     step = Step("minimize-quadratic-range", text,
                 (Equation(tidy(g), "=", tidy(b.neg(b.mul(H, v)))), Equation(x, "=", v)),
-                block=x.name)
-    rec = Recovery(x.name, v, f"every {x.name} = {v.name} + d with H d = 0 minimizes the "
+                block=x.name, formulas=said)
+    rec = Recovery(x.name, v, f"every ${x.name}$ that differs from ${v.name}$ by a null-space "
+                   "direction of the Hessian minimizes the "
                    "Lagrangian; where H is singular, choose d so that the primal constraints and "
                    "complementary slackness hold")
     return value, c, var, step, rec

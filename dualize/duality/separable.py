@@ -16,7 +16,7 @@ import sympy
 from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
 from dualize.duality import derivation_cache as cache
-from dualize.duality.atoms import Atom, Infimum
+from dualize.duality.building_blocks import BuildingBlock, Infimum
 from dualize.duality.conjugate import Conjugate, NoClosedForm, conjugate
 from dualize.duality.elementwise import LiftError, lift, lift_interval, scalar_form
 from dualize.duality.scalar import Scope, to_sympy
@@ -62,7 +62,7 @@ def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
     return continuous_domain(phi, t, sympy.S.Reals)
 
 
-def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
+def separable_infimum(atom: BuildingBlock, s: Expr, x: Symbol, domain: Domain,
                       deadline: Deadline | None = None) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s; past ``deadline`` the
     conjugate is not attempted (``DeadlineExceeded`` names the step)."""
@@ -98,13 +98,13 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
                    _formulas(atom, phi, t, shown, conj.s))
 
 
-def _formulas(atom: Atom, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,
+def _formulas(atom: BuildingBlock, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,
               s: sympy.Symbol) -> tuple[tuple[str, object], ...]:
     """The separable term, its entry function and its conjugate, for the step's sentence."""
-    from dualize.duality.atoms import atom_expression
+    from dualize.duality.building_blocks import block_expression
 
     entry, conjugate_of = sympy.Function("phi"), sympy.Function("phi^*")
-    return (("#term", atom_expression(atom)),
+    return (("#term", block_expression(atom)),
             ("#phi", sympy.Eq(entry(t), phi, evaluate=False)),
             ("#conj", sympy.Eq(conjugate_of(s), conj, evaluate=False)))
 
@@ -115,7 +115,7 @@ Found = tuple[Conjugate, sympy.Expr] | None
 
 def _conjugate_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
     """phi* over the part of ``interval`` where phi is continuous, read from the disk
-    cache when an earlier process derived and checked it (see conjugate_cache)."""
+    cache when an earlier process derived and checked it (see derivation_cache)."""
     return cache.memo(cache.key_of("conjugate", phi, t, interval),  # type: ignore[no-any-return]
                       lambda: _derive_on(phi, t, interval), _to_payload, _from_payload)
 

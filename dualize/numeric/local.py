@@ -19,6 +19,7 @@ from dualize.model import expr as ir
 from dualize.model.problem import Constraint, Domain, Problem, Variable
 from dualize.numeric.evaluate import evaluate_2d, shape_of
 from dualize.numeric.instance import Instance
+from dualize.numeric.solution import Solution
 
 STARTS = 12
 LARGE = 20  # above this many unknowns, finite-difference SLSQP runs are costly
@@ -33,8 +34,6 @@ FEAS_TOL = 1e-6
 def solve_local(problem: Problem, instance: Instance, fixed: dict[str, np.ndarray],
                 why: str) -> Any:
     """The best of several SLSQP runs from random points (seeded: deterministic)."""
-    from dualize.numeric.reference import Solution
-
     free = [v for v in problem.variables if v.name not in fixed]
     blocker = _unsupported(problem, free)
     if blocker:

@@ -114,11 +114,19 @@ def _sparse_block(value, rows, cols):
 
 
 def _split(z, sizes, scalars):
-    """The stacked vector z cut into one part per variable; scalars as numbers."""
+    """The stacked vector z cut into one part per variable: a number (scalar True), a
+    vector (False) or a square matrix ("square", its entries row by row)."""
     if not sizes:
         return []
     parts = np.split(np.asarray(z, dtype=float), np.cumsum(sizes)[:-1])
-    return [np.float64(q[0]) if scalar else q for q, scalar in zip(parts, scalars, strict=True)]
+    return [_shaped(q, kind) for q, kind in zip(parts, scalars, strict=True)]
+
+
+def _shaped(part, kind):
+    if kind == "square":
+        k = int(round(np.sqrt(part.size)))
+        return part.reshape(k, k)
+    return np.float64(part[0]) if kind else part
 
 
 def _unique_keys(pairs):
@@ -158,11 +166,18 @@ def load_instance(raw):
     return data
 
 
-def _bracket_depth(raw):
-    """An upper bound on the nesting depth, counted on the bytes (fast on large files)."""
+def _bracket_depth(raw, chunk=1 << 20):
+    """An upper bound on the nesting depth, counted on the bytes a megabyte at a time (fast
+    on large files, and without a temporary the size of the file)."""
     codes = np.frombuffer(raw, dtype=np.uint8)
-    steps = np.isin(codes, (91, 123)).astype(np.int64) - np.isin(codes, (93, 125))
-    return int(np.cumsum(steps).max(initial=0))
+    depth = deepest = 0
+    for start in range(0, len(codes), chunk):
+        part = codes[start:start + chunk]
+        steps = (part == 91).astype(np.int32) + (part == 123) - (part == 93) - (part == 125)
+        running = depth + np.cumsum(steps)
+        deepest = max(deepest, int(running.max(initial=depth)))
+        depth = int(running[-1]) if len(running) else depth
+    return deepest
 
 
 def _depth(value, level):

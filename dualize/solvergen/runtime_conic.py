@@ -50,6 +50,32 @@ def _affine_cones(p, d, size):
     return out
 
 
+def _linear_objective(p, d, size):
+    """q with f(z) = f(0) + q'z, read off at unit vectors and checked at a random point."""
+    origin = p.objective(np.zeros(size), d)
+    q = np.array([p.objective(np.eye(1, size, i)[0], d) - origin for i in range(size)])
+    probe = np.random.default_rng(7).standard_normal(size)
+    if abs(p.objective(probe, d) - origin - q @ probe) > 1e-8 * (1.0 + abs(origin) +
+                                                                 np.abs(q).sum()):
+        raise ValueError("the dual objective over the matrix multiplier is not linear")
+    return q
+
+
+def _symmetry_rows(p, d, size):
+    """Rows V[i, j] - V[j, i] = 0 for each square multiplier V stacked in z."""
+    rows, start = [], 0
+    for length, kind in zip(p.sizes(d), p.scalars, strict=False):
+        if kind == "square":
+            k = int(round(np.sqrt(length)))
+            for i in range(k):
+                for j in range(i + 1, k):
+                    row = np.zeros(size)
+                    row[start + i * k + j], row[start + j * k + i] = 1.0, -1.0
+                    rows.append(row)
+        start += length
+    return np.array(rows).reshape(len(rows), size)
+
+
 def _conic_rows(p, d, size, lo, hi):
     """Clarabel's A z + s = b, s in K: equalities, then inequalities and bounds, then cones."""
     import clarabel
@@ -59,6 +85,11 @@ def _conic_rows(p, d, size, lo, hi):
     low, up = np.flatnonzero(np.isfinite(lo)), np.flatnonzero(np.isfinite(hi))
     ineq = [m for m in (a_ub, -eye[low], eye[up]) if m is not None and len(m)]
     right = [v for v in (b_ub, -lo[low], hi[up]) if v is not None and len(v)]
+    symmetric = _symmetry_rows(p, d, size)
+    if len(symmetric):
+        a_eq = symmetric if a_eq is None else np.vstack([a_eq, symmetric])
+        b_eq = np.zeros(len(symmetric)) if b_eq is None else \
+            np.concatenate([b_eq, np.zeros(len(symmetric))])
     rows, rhs, cones = [], [], []
     if a_eq is not None:
         rows, rhs, cones = [a_eq], [b_eq], [clarabel.ZeroConeT(len(b_eq))]
@@ -95,6 +126,7 @@ def _solve_conic(p, d, z0, lo, hi, tol, max_iter):
                                "clarabel)") from None
     size = len(z0)
     q = p.gradient(np.zeros(size), d)
+    q = _linear_objective(p, d, size) if q is None else q
     hessian = p.hessian(np.zeros(size), d)
     P = scipy.sparse.csc_matrix(np.triu(hessian) if hessian is not None else (size, size))
     A, b, cones, (equalities, inequalities), psd = _conic_rows(p, d, size, lo, hi)

@@ -24,10 +24,24 @@ def _start(lo, hi):
     return z
 
 
+def _numeric_jacobian(p, index, z, d):
+    """The Jacobian of the affine constraint ``index``, read off at unit vectors (for a dual
+    over a matrix multiplier, which has no printed Jacobian)."""
+    base = np.zeros(len(z))
+    origin = np.atleast_1d(p.constraints(base, d)[index][1])
+    columns = []
+    for i in range(len(z)):
+        base[i] = 1.0
+        columns.append(np.atleast_1d(p.constraints(base, d)[index][1]) - origin)
+        base[i] = 0.0
+    return np.column_stack(columns) if columns else np.zeros((len(origin), 0))
+
+
 def _linear_parts(p, z, d):
     """The general constraints as J z (<= or =) b, exact because they are affine."""
     ub, eq = [], []
-    for relation, value, jac in p.constraints(z, d):
+    for index, (relation, value, jac) in enumerate(p.constraints(z, d)):
+        jac = _numeric_jacobian(p, index, z, d) if jac is None else jac
         target = eq if relation == "=" else ub
         target.append((jac, jac @ z - value))
     stack = [(np.vstack([j for j, _ in q]), np.concatenate([b for _, b in q]))

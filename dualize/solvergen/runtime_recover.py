@@ -35,7 +35,7 @@ def _fill_unrecovered(p, x, z, d, dual_value):
     return f"{failure}; {more}", None
 
 
-def _candidates(rows, size):
+def _candidates(rows, size, pairs=True):
     """Vectors that may be a primal variable of ``size`` entries: each block of the dual's
     multipliers of that size and the difference of two (the two sides of a norm ball,
     whose multipliers give a variable's positive and negative parts), with either sign;
@@ -43,7 +43,8 @@ def _candidates(rows, size):
     fits = (lambda r: r.ndim == 2) if size is None else (lambda r: r.size == size)
     same = [r for r in rows if fits(r) and np.all(np.isfinite(r))]
     found = [r for r in same]
-    found += [same[i] - same[j] for i in range(len(same)) for j in range(i + 1, len(same))]
+    if pairs:
+        found += [same[i] - same[j] for i in range(len(same)) for j in range(i + 1, len(same))]
     return [sign * r for r in found for sign in (1.0, -1.0)]
 
 
@@ -59,16 +60,17 @@ def _fill_by_multipliers(p, x, d, dual_value):
     if not rows or dual_value is None:
         return False
     spec = p.unknowns(d) or [(name, None, -np.inf, np.inf) for name in p.unrecovered]
-    choices = [_candidates(rows, size) for _, size, _, _ in spec]
-    if not spec or not all(choices) or np.prod([len(c) for c in choices]) > 256:
-        return False
-    for pick in np.ndindex(*[len(c) for c in choices]):
-        trial = dict(x)
-        for (name, size, low, high), options, k in zip(spec, choices, pick, strict=True):
-            _place(p, trial, [(name, size)], [np.clip(options[k], low, high)])
-        if not _uncertified(p, trial, d, dual_value):
-            x.update(trial)
-            return True
+    for pairs in (False, True):  # single blocks first: fewer combinations to try
+        choices = [_candidates(rows, size, pairs) for _, size, _, _ in spec]
+        if not spec or not all(choices) or np.prod([len(c) for c in choices]) > 4096:
+            continue
+        for pick in np.ndindex(*[len(c) for c in choices]):
+            trial = dict(x)
+            for (name, size, low, high), options, k in zip(spec, choices, pick, strict=True):
+                _place(p, trial, [(name, size)], [np.clip(options[k], low, high)])
+            if not _uncertified(p, trial, d, dual_value):
+                x.update(trial)
+                return True
     return False
 
 

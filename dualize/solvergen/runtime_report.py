@@ -49,6 +49,8 @@ def _dual_point(p, d, lo, hi, tol, max_iter):
     dual's domain."""
     if lo.size == 0:
         return lo, lo, True, "the dual has no variables: its value is a constant"
+    if p.method == "conic":  # an interior-point method with its own start
+        return lo * 0.0, *SOLVERS["conic"](p, d, np.zeros(lo.size), lo, hi, tol, max_iter)
     start = _domain_start(p, _start(lo, hi), lo, hi, d)
     if not _finite_at(p, start, d):
         return start, start, False, "no start was found where the dual objective is " \
@@ -75,7 +77,8 @@ def run(p, data, tol=1e-9, max_iter=20000):
         except (FloatingPointError, OverflowError, np.linalg.LinAlgError, ValueError) as err:
             return _without_optimum(p, "unreliable", f"the method broke down: {err}")
         report = _report(p, d, z, (lo, hi), bool(converged), str(message))
-        if report["status"] != "certified" and _diverges(p, d, start, z, lo, hi):
+        if report["status"] != "certified" and p.method != "conic" and \
+                _diverges(p, d, start, z, lo, hi):
             return _without_optimum(p, "unbounded", "the dual objective grows without bound "
                                     f"along a ray of feasible multipliers ({message})")
         return report
@@ -130,6 +133,8 @@ def _dual_violation(p, d, z, lo, hi):
     for relation, value, _ in p.constraints(z, d):
         worst = max(worst, float(np.max(np.abs(value) if relation == "=" else value,
                                         initial=0.0)))
+    for matrix in p.cones(z, d) if p.cones is not None else ():
+        worst = max(worst, -float(np.linalg.eigvalsh(0.5 * (matrix + matrix.T)).min()))
     return worst if np.isfinite(worst) else float("inf")
 
 
@@ -211,7 +216,9 @@ def command(p, argv):
         print(f"error: cannot read {argv[0]}: {err.strerror}", file=sys.stderr)
         return 2
     try:
-        report = run(p, load_instance(raw))
+        data = load_instance(raw)
+        del raw  # the parsed instance is all that is needed from here on
+        report = run(p, data)
     except (InputError, NeedsConicSolver) as err:
         print(f"error: {argv[0]}: {err}", file=sys.stderr)
         return 2

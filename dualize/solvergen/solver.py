@@ -103,6 +103,8 @@ def _objective(emitter: Emitter, plan: Plan) -> str:
 
 
 def _gradient(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
+    if not plan.gradients and symbols:  # a conic dual over a matrix: read off numerically
+        return "def _gradient(z, d):\n    return None"
     pieces, used = [], set()
     for grad, symbol in zip(plan.gradients, symbols, strict=True):
         code, reads = emitter.code(grad)
@@ -195,6 +197,9 @@ def _constraints(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         value, reads = emitter.code(general.function)
         rows, rreads = emitter.size(length(general.function.shape))
         used |= reads | rreads
+        if not general.jacobians and symbols:  # read off numerically (a conic dual)
+            body.append(f"out.append(({general.relation!r}, _flat({value}, {rows}), None))")
+            continue
         blocks = []
         for jac, symbol in zip(general.jacobians, symbols, strict=True):
             code, jreads = emitter.code(jac)
@@ -278,7 +283,7 @@ def _size_spec(size: object) -> str:
 
 
 def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagrangian: bool,
-          constant_hessian: bool, printed: bool) -> list[tuple[str, str]]:
+          constant_hessian: bool) -> list[tuple[str, str]]:
     """The keyword arguments of the module's ``Spec``, as code."""
     problem = derivation.problem
     dual = derivation.dual
@@ -297,9 +302,7 @@ def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagra
         ("constant_hessian", repr(constant_hessian)),
         ("caution", literal(CAUTION)),
     ]
-    if printed:
-        entries += [(name, f"_{code}") for name, code in _PRINTED]
-    return entries
+    return entries + [(name, f"_{code}") for name, code in _PRINTED]
 
 
 _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "objective"),
@@ -311,8 +314,15 @@ _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "obje
 
 
 def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
-    dual = [v.symbol.shape.is_scalar for v in derivation.dual.variables]
-    return repr(dual + [s.shape.is_scalar for s in auxiliary])
+    """Per part of z: True (a number), False (a vector) or "square" (a matrix multiplier,
+    its k * k entries in z)."""
+    def kind(symbol: ir.Symbol) -> object:
+        if symbol.shape.cols != 1 and symbol.shape.rows != 1:
+            return "square"
+        return symbol.shape.is_scalar
+
+    return repr([kind(v.symbol) for v in derivation.dual.variables] +
+                [kind(s) for s in auxiliary])
 
 
 def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str:
@@ -347,5 +357,5 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         scalars=_scalars(derivation, plan.auxiliary),
         functions="\n\n\n".join(functions),
         spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",
-                   plan.constant_hessian, True),
+                   plan.constant_hessian),
     )

@@ -18,6 +18,7 @@ from dualize.model import expr as ir
 from dualize.solvergen.ir_rewrite import normalize
 from dualize.solvergen.solver_plan import (
     Bound,
+    General,
     Plan,
     _as_bound,
     _differentiate,
@@ -32,9 +33,12 @@ REASON = "the dual has a semidefinite constraint: a conic interior-point method 
 
 def conic_plan(dual: DualProblem) -> Plan:
     """The conic plan, or a DualizeError saying what is beyond it."""
-    if any(v.set in ("psd", "symmetric") or v.symbol.shape.cols != 1 for v in dual.variables):
-        raise DualizeError("cannot generate a solver: the dual has a matrix multiplier; the "
-                           "conic route handles vector multipliers", 2)
+    if any(v.symbol.shape.cols != 1 and v.symbol.shape.rows != v.symbol.shape.cols
+           for v in dual.variables):
+        raise DualizeError("cannot generate a solver: the dual has a non-square matrix "
+                           "multiplier, beyond the conic route", 2)
+    if any(v.symbol.shape.cols != 1 for v in dual.variables):
+        return _matrix_plan(dual)
     sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
     objective = normalize(ir.Scale(sign, dual.objective))
     variables = tuple(v.symbol for v in dual.variables)
@@ -61,6 +65,31 @@ def conic_plan(dual: DualProblem) -> Plan:
                            "and a nonlinear constraint is beyond the conic route", 2)
     return Plan("conic", REASON, objective, gradients, tuple(bounds), tuple(general),
                 hessian=hessian, constant_hessian=True, cones=tuple(cones))
+
+
+def _matrix_plan(dual: DualProblem) -> Plan:
+    """A dual over a matrix multiplier (the max-eigenvalue kind): the objective and the
+    constraints must be affine, which the module checks numerically while it reads
+    their coefficients off at unit vectors (no symbolic derivative of a matrix)."""
+    sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
+    objective = normalize(ir.Scale(sign, dual.objective))
+    bounds = [b for v in dual.variables if v.symbol.shape.cols == 1 for b in _sign_bounds(v)]
+    cones = [v.symbol for v in dual.variables if v.set == "psd"]
+    general = []
+    minus = ir.Number(sympy.Integer(-1))
+    for constraint in dual.constraints:
+        lhs, rel, rhs = constraint.lhs, constraint.relation, constraint.rhs
+        if rel in ("succeq", "preceq"):
+            cones.append(_psd_side(lhs, rel, rhs))
+        elif rel in ("<=", ">=", "=", "=="):
+            first, second = (rhs, lhs) if rel == ">=" else (lhs, rhs)
+            function = normalize(ir.Add((first, ir.Scale(minus, second))))
+            general.append(General(function, "=" if rel in ("=", "==") else "<=", (), True))
+        else:
+            raise DualizeError("cannot generate a solver: a set-membership constraint of "
+                               "the dual", 2)
+    return Plan("conic", REASON + "; the matrix multiplier's entries stacked in z", objective,
+                (), tuple(bounds), tuple(general), cones=tuple(cones))
 
 
 def _sign_bounds(v: DualVariable) -> list[Bound]:

@@ -144,3 +144,36 @@ def test_keywords_become_safe_identifiers():
     assert python_names(["lambda", "np", "x", "alpha", "int"]) == {
         "alpha": "u_alpha", "int": "u_int", "lambda": "u_lambda", "np": "u_np", "x": "u_x",
     }
+
+
+LARGEST_EIGENVALUE = """
+title "Stiffest brace mix: the largest eigenvalue as an LMI"
+data A0 in S^n
+data A1 in S^n
+data A2 in S^n
+minimize   t
+over       t in R, x1 in R, x2 in R
+subject to
+  Z: A0 + x1 * A1 + x2 * A2 preceq t * identity(n)
+"""
+
+
+def test_largest_eigenvalue_dual_over_a_matrix_multiplier(text_solver):
+    # Minimizing the largest eigenvalue of an affine matrix function is a semidefinite
+    # program whose dual is over a matrix Z >= 0 with tr(Z) = 1 (Boyd and Vandenberghe,
+    # 2004, example 5.x and section 4.6.3, from memory); checked against cvxpy on the primal.
+    import cvxpy as cp
+
+    module = text_solver(LARGEST_EIGENVALUE, "largest_eigenvalue")
+    rng = np.random.default_rng(5)
+    mats = [rng.normal(size=(4, 4)) for _ in range(3)]
+    data = {f"A{i}": (0.5 * (m + m.T)).tolist() for i, m in enumerate(mats)}
+    report = module.solve(data)
+    assert report["status"] == "certified", report["message"]
+    A0, A1, A2 = (np.array(data[k]) for k in ("A0", "A1", "A2"))
+    x = cp.Variable(2)
+    problem = cp.Problem(cp.Minimize(cp.lambda_max(A0 + x[0] * A1 + x[1] * A2)))
+    problem.solve()
+    assert report["primal_value"] == pytest.approx(problem.value, rel=1e-6)
+    Z = np.array(report["multipliers"]["Z"])
+    assert np.trace(Z) == pytest.approx(1.0, abs=1e-7) and np.allclose(Z, Z.T, atol=1e-9)

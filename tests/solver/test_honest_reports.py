@@ -16,6 +16,7 @@ import numpy as np
 import pytest
 
 from dualize.solvergen import runtime_report
+from tests.solver.conftest import EXAMPLES
 from tests.solver.test_runtime import instance, least_norm_spec
 
 INFEASIBLE_LP = {"A": [[1, 2], [-1, 0], [0, -1]], "b": [-1, 0, 0], "c": [-3, -4]}
@@ -112,3 +113,25 @@ def test_report_json_is_strict(solver_module, tmp_path):
     result = run_module(path, tmp_path, INFEASIBLE_LP)
     json.loads(result.stdout, parse_constant=lambda text: pytest.fail(text))
     assert np.isinf(float(json.loads(result.stdout)["dual_value"]))
+
+
+def test_script_pins_blas_to_one_thread_unless_told(solver_module, tmp_path):
+    # The module's products are matrix-vector or thin; it sets OPENBLAS_NUM_THREADS (and the
+    # OpenMP and MKL ones) to 1 before numpy loads, but never overrides a value the user set.
+    import os
+
+    path, _ = solver_module("joinery_lp")
+    probe = ("import os, runpy, sys\n"
+             f"sys.argv = ['m', {str(EXAMPLES / 'joinery_lp.json')!r}]\n"
+             "try:\n"
+             f"    runpy.run_path({str(path)!r}, run_name='__main__')\n"
+             "except SystemExit:\n"
+             "    pass\n"
+             "print(os.environ['OPENBLAS_NUM_THREADS'], os.environ['OMP_NUM_THREADS'], "
+             "file=sys.stderr)\n")
+    base = {k: v for k, v in os.environ.items()
+            if k not in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS")}
+    for env, expected in ((base, "1 1"), ({**base, "OPENBLAS_NUM_THREADS": "2"}, "2 1")):
+        result = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True,
+                                env=env, check=False, timeout=120)
+        assert result.stderr.strip().splitlines()[-1] == expected

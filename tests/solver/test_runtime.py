@@ -146,3 +146,9 @@ def test_normal_equation_interior_point_matches_highs(seed):
     assert ok and reference.status == 0
     assert spec.objective(z, None) == pytest.approx(reference.fun, rel=1e-7, abs=1e-9)
     assert np.max(A @ z - b) <= 1e-7 and z.min() >= -1e-9
+
+
+@pytest.mark.parametrize("chunk", [1, 3, 7, 1 << 20])
+def test_bracket_depth_is_the_same_across_chunk_boundaries(chunk):
+    raw = b'{"a": [[1, [2]], [[3]]], "b": {"c": [4]}}'
+    assert runtime._bracket_depth(raw, chunk) == 4
