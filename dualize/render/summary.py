@@ -11,7 +11,7 @@ LaTeX, Markdown) therefore show:
 - a list of more than :data:`MAX_LINES` relations grouped by form (the relation
   with its numbers and subscripts masked): the first of each form, followed by
   one line that says how many more of that form there are, from which label to
-  which;
+  which ("892 more of this form: c1 to c999");
 - a list of more than :data:`MAX_NAMES` names as its first names, an ellipsis
   and the last name.
 
@@ -27,10 +27,10 @@ from typing import Any
 from dualize.model import expr as ir
 
 MAX_TERMS = 12
-SHOWN_TERMS = 4
+SHOWN_TERMS = 3
 MAX_LINES = 40
 MAX_FORMS = 30
-MAX_NAMES = 12
+MAX_NAMES = 6
 _NUMBERS = re.compile(r"[0-9\u2080-\u2089\u2070\u00b9\u00b2\u00b3\u2074-\u2079.]+")
 
 
@@ -111,8 +111,8 @@ def grouped(lines: Sequence[Any], fmt: Any, make: Any) -> list[Any]:
 
 def _more(members: list[Any]) -> str:
     tags = [m.tag for m in members[1:] if m.tag]
-    where = f", {_plain(tags[0])} to {_plain(tags[-1])}" if tags else ""
-    return f"and {len(members) - 1} more of this form{where}"
+    where = f": {_plain(tags[0])} to {_plain(tags[-1])}" if tags else ""
+    return f"{len(members) - 1} more of this form{where}"
 
 
 def _plain(tag: str) -> str:
