@@ -12,8 +12,8 @@ LaTeX, Markdown) therefore show:
   with its numbers and subscripts masked): the first of each form, followed by
   one line that says how many more of that form there are, from which label to
   which ("892 more of this form: c1 to c999");
-- a list of more than :data:`MAX_NAMES` names as its first names, an ellipsis
-  and the last name.
+- a list of more than :data:`MAX_NAMES` names as its first
+  :data:`SHOWN_NAMES` names, an ellipsis and the last name.
 
 The JSON output is not summarized: it carries every term and every line.
 """
@@ -30,7 +30,8 @@ MAX_TERMS = 12
 SHOWN_TERMS = 3
 MAX_LINES = 40
 MAX_FORMS = 30
-MAX_NAMES = 6
+MAX_NAMES = 12
+SHOWN_NAMES = 4
 _NUMBERS = re.compile(r"[0-9\u2080-\u2089\u2070\u00b9\u00b2\u00b3\u2074-\u2079.]+")
 
 
@@ -79,7 +80,7 @@ def short_names(names: Sequence[str], fmt: Any) -> list[str]:
     """The first names, an ellipsis and the last name when there are many."""
     if len(names) <= MAX_NAMES:
         return list(names)
-    return [*names[:MAX_NAMES - 2], ellipsis(fmt), names[-1]]
+    return [*names[:SHOWN_NAMES], ellipsis(fmt), names[-1]]
 
 
 def form_key(*parts: str) -> tuple[str, ...]:
