@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import sympy
 
 from dualize.duality import build as b
-from dualize.duality.normal import Term, rebuild
+from dualize.duality.normal import Term, expand, rebuild, tidy
 from dualize.duality.scalar import Scope, to_sympy
 from dualize.model.expr import (
     Apply,
@@ -67,6 +67,8 @@ class Infimum:
     statement: str
     formulas: tuple[tuple[str, object], ...] = ()
     """The formulas the statement marks as ``$key$`` (see ``result.Step``)."""
+    entries: Expr | None = None
+    """For a separable term: phi*(s) entry by entry (``value`` is minus its sum)."""
 
 
 def recognise(term: Term, variables: frozenset[str]) -> BuildingBlock | None:
@@ -281,6 +283,28 @@ def _norm(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
                    "and minus infinity elsewhere")
 
 
+def orthant_norm(atom: BuildingBlock, s: Expr, u: Expr) -> Infimum | None:
+    """inf over u >= 0 of c||u||_p - s'u = 0 when ||max(s, 0)||_q <= c, else minus infinity.
+
+    On the orthant s'u <= max(s, 0)'u <= ||max(s, 0)||_q ||u||_p, so the infimum is 0
+    (at u = 0) when the dual norm of the positive part is at most c; otherwise the
+    maximizer of max(s, 0)'u over the unit ball, nonnegative since p-norms are absolute,
+    makes the expression fall without bound.  For p = 1 the condition is s <= c entry
+    by entry.
+    """
+    if atom.kind != "norm" or s.shape.is_scalar:
+        return None
+    q = DUAL_NORM[atom.p]
+    if atom.p == "1":
+        cons = (s, "<=", b.broadcast(atom.coef, s.shape))
+    else:
+        cons = (Norm(b.maximum(s, b.zeros(s.shape)), q), "<=", atom.coef)  # type: ignore[arg-type]
+    return _stated(atom, s, u, b.num(0), (cons,), None,
+                   "over the nonnegative orthant the infimum of $#term$ is 0 where "
+                   "{conditions} (the dual norm of the positive part) and minus infinity "
+                   "elsewhere")
+
+
 def _square(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
     c = block.coef
     value = b.scale(b.scale(b.num(-1), b.power(b.scale(b.num(4), c), sympy.Integer(-1))),
@@ -358,6 +382,9 @@ def _norm_of(s: Expr, p: str) -> Expr:
         factor = -s.factor.value
         inner = Norm(s.arg, p)  # type: ignore[arg-type]
         return inner if factor == 1 else b.scale(Number(factor), inner)
+    terms = expand(s)
+    if terms and all(t.coef < 0 for t in terms):  # ||-A'l - c|| = ||A'l + c||
+        return Norm(tidy(b.neg(s)), p)  # type: ignore[arg-type]
     return Norm(s, p)  # type: ignore[arg-type]
 
 

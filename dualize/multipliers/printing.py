@@ -12,6 +12,7 @@ import math
 from typing import Any
 
 from dualize.multipliers.sensitivity import AGREE_REL, STEP_REL, Rate, Sensitivity
+from dualize.numeric.solution import status_word
 from dualize.render.caution import CAUTION
 
 CHECK_WORDS = {
@@ -90,7 +91,7 @@ def bound_sentence(report: Sensitivity) -> str:
         return (f"For every shift u: p*(u) {rel} {formula} = {bound_terms(report)}. "
                 "It holds because strong duality is established ("
                 f"{report.verdict_reason}) and lambda* is an optimal multiplier (the "
-                "reference solve's status: optimal); Boyd and Vandenberghe, 2004, "
+                "reference solve's status: solved); Boyd and Vandenberghe, 2004, "
                 "section 5.6.2.")
     why = report.refusal or _not_established(report)
     return f"No global bound is stated: {why}."
@@ -101,7 +102,8 @@ def _not_established(report: Sensitivity) -> str:
         return f"strong duality is not established ({report.verdict}: {report.verdict_reason})"
     if report.status == "optimal":
         return "the solver returned no multiplier for some constraint"
-    return (f"the reference solve's status is {report.status}, so the multiplier is not known "
+    word = status_word(report.status)
+    return (f"the reference solve's status is {word}, so the multiplier is not known "
             "to be optimal")
 
 
@@ -118,7 +120,8 @@ def header(report: Sensitivity) -> list[str]:
     p = report.problem
     title = p.title or p.path
     return [f"Prices of the constraints of \"{title}\" on {report.instance}",
-            f"p*(0) = {num(report.value)} ({p.sense}; reference solve: {report.status})",
+            f"p*(0) = {num(report.value)} ({p.sense}; reference solve: "
+            f"{status_word(report.status)})",
             f"Strong duality: {report.verdict} ({report.verdict_reason})"]
 
 
@@ -180,7 +183,7 @@ def sensitivity_json(report: Sensitivity) -> str:
     p = report.problem
     data: dict[str, Any] = {
         "title": p.title, "file": p.path, "instance": report.instance, "sense": p.sense,
-        "status": report.status, "value": json_number(report.value),
+        "status": status_word(report.status), "value": json_number(report.value),
         "strong_duality": {"status": report.verdict, "reason": report.verdict_reason},
         "perturbation": CONVENTION, "method": {"step_relative": STEP_REL,
                                                "agreement_relative": AGREE_REL},
