@@ -297,17 +297,18 @@ def _read_claim(path: str) -> str:
         raise DualizeError(f"{path}: the claim is not UTF-8 text", 2) from None
 
 
-def check_draft(draft: str | Path, name_map: str = "", random: int = DEFAULT_RANDOM
-                ) -> DraftVerdicts:
+def check_draft(draft: str | Path, name_map: str = "", random: int = DEFAULT_RANDOM,
+                time_limit: float | Deadline | None = None) -> DraftVerdicts:
     """Every dual marked ``% dualize: claim for FILE.prob`` in a LaTeX draft, checked
-    against the dual derived from its problem file on ``random`` instances each."""
+    against the dual derived from its problem file on ``random`` instances each;
+    ``time_limit`` bounds the derivations of the whole draft (see ``derive``)."""
     from dualize.paper.draft import check_draft as _check_draft
     from dualize.paper.draft import read_draft
     from dualize.paper.locate import parse_map
 
     draft = str(draft)
     checks = _check_draft(read_draft(draft), draft, name_map=parse_map(name_map),
-                          seeds=tuple(range(random)))
+                          seeds=tuple(range(random)), deadline=_budget(time_limit))
     return DraftVerdicts(draft, tuple(checks))
 
 

@@ -11,7 +11,7 @@ import sys
 
 import click
 
-from dualize.commands.common import emit, emit_json, reports_user_errors
+from dualize.commands.common import emit, emit_json, reports_user_errors, time_limit_option
 
 
 @click.command("check-draft")
@@ -22,12 +22,14 @@ from dualize.commands.common import emit, emit_json, reports_user_errors
               help="How many random instances each claim is checked on.")
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
               show_default=True, help="How to print the report.")
+@time_limit_option
 @reports_user_errors
-def check_draft_command(draft: str, name_map: str, count: int, fmt: str) -> None:
+def check_draft_command(draft: str, name_map: str, count: int, fmt: str,
+                        time_limit: float) -> None:
     """Check each dual marked '% dualize: claim for FILE.prob' in DRAFT (.tex) against
     the dual derived from its problem file; one verdict per claim, with its line."""
     from dualize import api
 
-    result = api.check_draft(draft, name_map=name_map, random=count)
+    result = api.check_draft(draft, name_map=name_map, random=count, time_limit=time_limit)
     emit_json(result.json()) if fmt == "json" else emit(result.text())
     sys.exit(0 if result.ok else 1)

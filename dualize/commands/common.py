@@ -22,7 +22,7 @@ F = TypeVar("F", bound=Callable[..., Any])
 
 
 def time_limit_option(command: F) -> F:
-    """``--time-limit SECONDS``: one budget for every step of the run (docs/index.md)."""
+    """``--time-limit SECONDS``: one budget for every step of the run (docs/reliability.md)."""
     return click.option(
         "--time-limit", "time_limit", type=click.FloatRange(min=0, min_open=True),
         default=DEFAULT_TIME_LIMIT, show_default=True, metavar="SECONDS",

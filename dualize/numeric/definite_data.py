@@ -3,12 +3,15 @@
 An eigenvalue test with a tolerance relative to the largest entry rejects
 ``diag(1, 1e-10)``, which is positive definite.  Instead:
 
-- up to :data:`EXACT_SIZE` rows, the answer is exact: symmetric Gaussian
+- up to :data:`EXACT_SIZE` rows, a "yes" is exact: symmetric Gaussian
   elimination (LDL') over the rationals with diagonal pivoting, on the
-  matrix's exact entries.  A negative pivot, or a zero pivot with a nonzero
-  rest of its row, proves the matrix is not semidefinite; a positive pivot at
-  every step proves it definite (G. H. Golub and C. F. Van Loan, Matrix
-  Computations, 4th ed., 2013, section 4.2, from memory).
+  matrix's exact entries; a positive pivot at every step proves it definite, a
+  nonnegative one with zero rests semidefinite (G. H. Golub and C. F. Van Loan,
+  Matrix Computations, 4th ed., 2013, section 4.2, from memory); an exactly
+  singular semidefinite matrix is not definite.  A negative pivot may be
+  rounding of a singular semidefinite matrix computed in floating point, so
+  that "no" is said only when the scaled test below also finds the smallest
+  eigenvalue below minus its margin; else "undecided".
 - above, a scaled test: with D = diag(a_ii)^(-1/2) the matrix S = D A D has a
   unit diagonal and the same inertia (Sylvester's law of inertia), so its
   smallest eigenvalue is compared with a stated margin, ``MARGIN * n``, well
@@ -36,8 +39,13 @@ def decide(matrix: np.ndarray, strict: bool, exact: np.ndarray | None = None) ->
     if n == 0:
         return "yes"
     if n <= EXACT_SIZE:
-        return _exact(_symmetric(matrix, exact), strict)
-    return _scaled(np.asarray(matrix, dtype=float), strict)
+        found = _exact(_symmetric(matrix, exact), strict)
+        if found in ("yes", "singular"):  # exactly singular: semidefinite, never definite
+            return "no" if found == "singular" else "yes"
+    scaled = _scaled(np.asarray(matrix, dtype=float), strict)
+    if n <= EXACT_SIZE and scaled == "yes":
+        return "undecided"  # definite to the margin, not exactly: rounding decides
+    return scaled
 
 
 def _symmetric(matrix: np.ndarray, exact: np.ndarray | None) -> list[list[Fraction]]:
@@ -47,17 +55,18 @@ def _symmetric(matrix: np.ndarray, exact: np.ndarray | None) -> list[list[Fracti
     return [[(entries[i][j] + entries[j][i]) / 2 for j in range(n)] for i in range(n)]
 
 
-def _exact(a: list[list[Fraction]], strict: bool) -> Answer:
-    """LDL' with diagonal pivoting over the rationals (see the module doc)."""
+def _exact(a: list[list[Fraction]], strict: bool) -> str:
+    """LDL' with diagonal pivoting over the rationals (see the module doc): "yes",
+    "singular" (exactly semidefinite and singular, asked for definite) or "no"."""
     rest = list(range(len(a)))
     while rest:
         pivot = max(rest, key=lambda i: a[i][i])
         if a[pivot][pivot] < 0:
             return "no"
         if a[pivot][pivot] == 0:
-            if strict or any(a[i][j] != 0 for i in rest for j in rest):
+            if any(a[i][j] != 0 for i in rest for j in rest):
                 return "no"
-            return "yes"
+            return "singular" if strict else "yes"
         rest.remove(pivot)
         lead = a[pivot][pivot]
         for i in rest:

@@ -12,6 +12,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
+from dualize.deadline import Deadline
 from dualize.errors import DualizeError
 from dualize.model.problem import Problem
 from dualize.paper.locate import PaperClaim, PaperError, find_claims
@@ -79,15 +80,19 @@ def translation_for(claim_arg: str, problem: Problem,
 def check_draft(tex_text: str, path: str, problem: Problem | None = None,
                 problem_path: str | None = None, label: str | None = None,
                 name_map: tuple[tuple[str, str], ...] = (),
-                seeds: Sequence[int] = (0, 1, 2)) -> list[DraftCheck]:
-    """Check every marked claim (or the labelled one) of a draft; one entry per claim."""
+                seeds: Sequence[int] = (0, 1, 2),
+                deadline: Deadline | None = None) -> list[DraftCheck]:
+    """Check every marked claim (or the labelled one) of a draft; one entry per claim.
+
+    One ``deadline`` bounds the derivations of the whole draft (a derivation past it
+    keeps what it has not evaluated, and its notes say so)."""
     out = []
     for claim in find_claims(tex_text, path, label):
         claim = _with_map(claim, name_map)
         target = _problem_for(claim, path, problem, problem_path)
         if target is None:
             continue
-        out.append(_check_one(claim, *target, seeds))
+        out.append(_check_one(claim, *target, seeds, deadline))
     return out
 
 
@@ -131,16 +136,18 @@ def _load(path: Path) -> Problem | None:
 
 
 def _check_one(claim: PaperClaim, problem: Problem | None, problem_path: str | None,
-               seeds: Sequence[int]) -> DraftCheck:
+               seeds: Sequence[int], deadline: Deadline | None = None) -> DraftCheck:
     from dualize.checking import ClaimError, check_claim
+    from dualize.duality.engine import derive
 
     if problem is None:
         return DraftCheck(claim, problem_path, None, error="the problem file does not load")
-    translation = translate(claim, problem)
+    derivation = derive(problem, deadline)
+    translation = translate(claim, problem, derivation)
     if not translation.ok:
         return DraftCheck(claim, problem_path, translation, error="not translated")
     try:
-        report = check_claim(problem, translation.text or "", seeds=seeds,
+        report = check_claim(derivation, translation.text or "", seeds=seeds,
                              claim_path=f"{claim.path}:{claim.line}")
     except ClaimError as err:
         return DraftCheck(claim, problem_path, translation, error=err.message)

@@ -11,9 +11,9 @@ LaTeX, Markdown) therefore show:
 - a list of more than :data:`MAX_LINES` relations grouped by form (the relation
   with its numbers and subscripts masked): the first of each form, followed by
   one line that says how many more of that form there are, from which label to
-  which;
-- a list of more than :data:`MAX_NAMES` names as its first names, an ellipsis
-  and the last name.
+  which ("892 more of this form: c1 to c999");
+- a list of more than :data:`MAX_NAMES` names as its first
+  :data:`SHOWN_NAMES` names, an ellipsis and the last name.
 
 The JSON output is not summarized: it carries every term and every line.
 """
@@ -27,10 +27,11 @@ from typing import Any
 from dualize.model import expr as ir
 
 MAX_TERMS = 12
-SHOWN_TERMS = 4
+SHOWN_TERMS = 3
 MAX_LINES = 40
 MAX_FORMS = 30
 MAX_NAMES = 12
+SHOWN_NAMES = 4
 _NUMBERS = re.compile(r"[0-9\u2080-\u2089\u2070\u00b9\u00b2\u00b3\u2074-\u2079.]+")
 
 
@@ -79,7 +80,7 @@ def short_names(names: Sequence[str], fmt: Any) -> list[str]:
     """The first names, an ellipsis and the last name when there are many."""
     if len(names) <= MAX_NAMES:
         return list(names)
-    return [*names[:MAX_NAMES - 2], ellipsis(fmt), names[-1]]
+    return [*names[:SHOWN_NAMES], ellipsis(fmt), names[-1]]
 
 
 def form_key(*parts: str) -> tuple[str, ...]:
@@ -111,8 +112,8 @@ def grouped(lines: Sequence[Any], fmt: Any, make: Any) -> list[Any]:
 
 def _more(members: list[Any]) -> str:
     tags = [m.tag for m in members[1:] if m.tag]
-    where = f", {_plain(tags[0])} to {_plain(tags[-1])}" if tags else ""
-    return f"and {len(members) - 1} more of this form{where}"
+    where = f": {_plain(tags[0])} to {_plain(tags[-1])}" if tags else ""
+    return f"{len(members) - 1} more of this form{where}"
 
 
 def _plain(tag: str) -> str:

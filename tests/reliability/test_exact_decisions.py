@@ -98,3 +98,12 @@ def test_finding3_semidefinite_versus_definite_exactly():
     ones = np.ones((3, 3))  # rank one: semidefinite, not definite (common practice)
     assert decide(ones, strict=False) == "yes" and decide(ones, strict=True) == "no"
     assert decide(np.array([[0.0, 1.0], [1.0, 0.0]]), strict=False) == "no"
+    assert decide(np.diag([1.0, -1e-3]), strict=False) == "no"
+
+
+def test_finding3_rounding_of_a_singular_gram_matrix_is_not_refused():
+    # M M' in floating point is semidefinite up to rounding: its exact binary value may
+    # have an eigenvalue of -1e-17, which says nothing about the data (common practice).
+    rng = np.random.default_rng(7)
+    m = rng.standard_normal((5, 2))
+    assert decide(m @ m.T, strict=False) != "no"
