@@ -40,7 +40,8 @@ if TYPE_CHECKING:
 
 __all__ = ["CheckVerdict", "DerivedDual", "DraftVerdicts", "GeneratedSolver", "LintResult",
            "ProblemError", "Verification", "analyze", "check", "check_draft", "derive",
-           "generate_solver", "instance_of", "lint", "load_problem", "other_form", "prices",
+           "generate_solver", "instance_of", "lint", "load_problem", "other_form", "price_count",
+           "prices",
            "render", "sibling_instance", "trade_off", "verify", "write_atomically",
            "write_bytes_atomically"]
 
@@ -346,19 +347,27 @@ def instance_of(problem: Problem, data: object) -> object:
     return read_instance(str(data), problem)
 
 
+def price_count(problem: Problem, instance: object) -> int:
+    """How many constraint entries ``prices`` would price on ``instance``."""
+    from dualize.multipliers.entries import entries
+
+    return len(entries(problem, instance))  # type: ignore[arg-type]
+
+
 def prices(source: str | Path | Problem, data: object, limit: int = 200,
-           seconds: float = 300.0):  # type: ignore[no-untyped-def]
+           deadline: Deadline | None = None,
+           tick: object = None):  # type: ignore[no-untyped-def]
     """Every constraint entry priced on an instance, each rate checked by re-solving.
 
     Returns a ``Sensitivity`` (a table in a notebook); ``data`` is an instance file's
-    path or an ``Instance``.
+    path or an ``Instance``; past ``deadline`` the entries left are not checked.
     """
     from dualize.multipliers.sensitivity import sensitivity
     from dualize.multipliers.views import shown as view
 
     problem = load_problem(source)
-    return view(sensitivity(problem, instance_of(problem, data), limit,  # type: ignore[arg-type]
-                            seconds))
+    return view(sensitivity(problem, instance_of(problem, data), limit, deadline,  # type: ignore[arg-type]
+                            tick))  # type: ignore[arg-type]
 
 
 def other_form(source: str | Path | Problem, weight: str | None = None,
@@ -373,7 +382,8 @@ def other_form(source: str | Path | Problem, weight: str | None = None,
 
 def trade_off(source: object, data: object, weights: list[float] | None = None,
               bounds: list[float] | None = None, weight: str | None = None,
-              bound: str | None = None, tick: object = None):  # type: ignore[no-untyped-def]
+              bound: str | None = None, tick: object = None,
+              deadline: Deadline | None = None):  # type: ignore[no-untyped-def]
     """The weight and the bound matched at each value given (a ``Curve``: a table and
     the plot in a notebook).  ``source`` is a problem (or path) or a ``Pair``."""
     from dualize.multipliers.forms import Pair
@@ -391,4 +401,4 @@ def trade_off(source: object, data: object, weights: list[float] | None = None,
     instance = instance_of(original, data)
     given = "weight" if weights is not None else "bound"
     return view(sweep(Forms(pair, instance), given, list(weights or bounds or []),  # type: ignore[arg-type]
-                      tick))
+                      tick, deadline))  # type: ignore[arg-type]

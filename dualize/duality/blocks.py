@@ -286,7 +286,28 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
     if psd_known and pseudo.data_only(H):
         value, c, var, step, rec = pseudo.range_witness(x, H, g, r)
         return Outcome(value, [c], rec, [step], [var], gradient=b.add(b.mul(H, x), g))
+    scaled = pseudo.scaled_data(H)
+    if scaled is not None:
+        return _scaled_data(x, scaled[0], scaled[1], g, r)
     return _schur(x, H, g, r)
+
+
+def _scaled_data(x: Symbol, h: Expr, M: Expr, g: Expr, r: Expr) -> Outcome:
+    """H = h M with h >= 0 a multiplier expression and M semidefinite data
+    (``pseudo.scaled_witness``): no matrix inequality."""
+    sign = [] if _known_nonneg(h) else [zero_constraint(b.neg(h), "<=",
+                                                         "the quadratic must be convex")]
+    if "pd" in getattr(M, "facts", ()):
+        value, step, rec = pseudo.scaled_definite(x, h, M, g, r)
+        return Outcome(value, sign, rec, [step])
+    value, cons, var, step, rec = pseudo.scaled_witness(x, h, M, g, r)
+    return Outcome(value, [cons, *sign], rec, [step], [var])
+
+
+def _known_nonneg(h: Expr) -> bool:
+    from dualize.duality.scalar import Scope, to_sympy
+
+    return bool(to_sympy(h, Scope()).is_nonnegative)
 
 
 def _factored(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Outcome | None:

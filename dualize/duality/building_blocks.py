@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import sympy
 
 from dualize.duality import build as b
-from dualize.duality.normal import Term, rebuild
+from dualize.duality.normal import Term, expand, rebuild, tidy
 from dualize.duality.scalar import Scope, to_sympy
 from dualize.model.expr import (
     Apply,
@@ -67,6 +67,8 @@ class Infimum:
     statement: str
     formulas: tuple[tuple[str, object], ...] = ()
     """The formulas the statement marks as ``$key$`` (see ``result.Step``)."""
+    entries: Expr | None = None
+    """For a separable term: phi*(s) entry by entry (``value`` is minus its sum)."""
 
 
 def recognise(term: Term, variables: frozenset[str]) -> BuildingBlock | None:
@@ -104,7 +106,7 @@ def _shaped(coef: Expr, e: Expr) -> BuildingBlock | None:
     if isinstance(e, Power) and e.exponent == 2 and isinstance(e.base, Norm) and e.base.p == "2":
         return BuildingBlock(coef, "square", e.base.arg)
     if isinstance(e, Apply) and e.func == LOG.name:
-        inner = _summed(e.arg)
+        inner = summed_argument(e.arg)
         if inner is not None and isinstance(inner, Apply) and inner.func == EXP.name:
             return BuildingBlock(coef, "logsumexp", inner.arg)
     if isinstance(e, Apply) and e.func == ABS.name and e.shape.is_scalar:
@@ -112,7 +114,7 @@ def _shaped(coef: Expr, e: Expr) -> BuildingBlock | None:
     if isinstance(e, Extremum) and e.kind == "max" and is_zero(e.right):
         return BuildingBlock(coef, "hinge", e.left)
     weighted = _weighted(e)
-    weight, inner = weighted if weighted is not None else (None, _summed(e))
+    weight, inner = weighted if weighted is not None else (None, summed_argument(e))
     if inner is None:
         return None
     if isinstance(inner, Apply) and inner.func == ABS.name:
@@ -127,7 +129,7 @@ def _weighted(e: Expr) -> tuple[Expr, Expr] | None:
     from dualize.model.expr import Hadamard
 
     pair = None
-    summed = _summed(e)
+    summed = summed_argument(e)
     if isinstance(summed, Hadamard):
         pair = (summed.left, summed.right)
         if not _nonneg_data(pair[0]):
@@ -145,7 +147,7 @@ def _nonneg_data(w: Expr) -> bool:
     return isinstance(w, Symbol) and w.role == "data" and bool(w.facts & {"nonneg", "pos"})
 
 
-def _summed(e: Expr) -> Expr | None:
+def summed_argument(e: Expr) -> Expr | None:
     """E when e is sum(E) (written sum(E) or 1'E)."""
     if isinstance(e, SumAll):
         return e.arg
@@ -176,7 +178,7 @@ def _scalar_product(term: Term, dependent: list[Expr],
 
 def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> BuildingBlock | None:
     """coef * sum(E(v)) with E elementwise in one decision variable v."""
-    inner = _summed(e)
+    inner = summed_argument(e)
     if inner is None and isinstance(e, MatMul) and len(e.factors) == 2:
         first, second = e.factors
         if isinstance(first, Transpose) and first.arg.shape.cols == 1:
@@ -281,6 +283,28 @@ def _norm(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
                    "and minus infinity elsewhere")
 
 
+def orthant_norm(atom: BuildingBlock, s: Expr, u: Expr) -> Infimum | None:
+    """inf over u >= 0 of c||u||_p - s'u = 0 when ||max(s, 0)||_q <= c, else minus infinity.
+
+    On the orthant s'u <= max(s, 0)'u <= ||max(s, 0)||_q ||u||_p, so the infimum is 0
+    (at u = 0) when the dual norm of the positive part is at most c; otherwise the
+    maximizer of max(s, 0)'u over the unit ball, nonnegative since p-norms are absolute,
+    makes the expression fall without bound.  For p = 1 the condition is s <= c entry
+    by entry.
+    """
+    if atom.kind != "norm" or s.shape.is_scalar:
+        return None
+    q = DUAL_NORM[atom.p]
+    if atom.p == "1":
+        cons = (s, "<=", b.broadcast(atom.coef, s.shape))
+    else:
+        cons = (Norm(b.maximum(s, b.zeros(s.shape)), q), "<=", atom.coef)  # type: ignore[arg-type]
+    return _stated(atom, s, u, b.num(0), (cons,), None,
+                   "over the nonnegative orthant the infimum of $#term$ is 0 where "
+                   "{conditions} (the dual norm of the positive part) and minus infinity "
+                   "elsewhere")
+
+
 def _square(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
     c = block.coef
     value = b.scale(b.scale(b.num(-1), b.power(b.scale(b.num(4), c), sympy.Integer(-1))),
@@ -358,6 +382,9 @@ def _norm_of(s: Expr, p: str) -> Expr:
         factor = -s.factor.value
         inner = Norm(s.arg, p)  # type: ignore[arg-type]
         return inner if factor == 1 else b.scale(Number(factor), inner)
+    terms = expand(s)
+    if terms and all(t.coef < 0 for t in terms):  # ||-A'l - c|| = ||A'l + c||
+        return Norm(tidy(b.neg(s)), p)  # type: ignore[arg-type]
     return Norm(s, p)  # type: ignore[arg-type]
 
 

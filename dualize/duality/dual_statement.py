@@ -85,3 +85,17 @@ def finiteness_sentence(dual: DualProblem, sense: str) -> str:
             "unbounded below only if the primal is infeasible; if no multiplier satisfies "
             "the conditions, the dual gives no bound and the primal is unbounded above or "
             "infeasible.")
+
+
+def derivation_notes(cut: list[str], split: bool, sense: str) -> tuple[str, ...]:
+    """The derivation's notes: steps cut by the time limit, auxiliary variables
+    introduced (``split``), and what a maximization's dual bounds."""
+    notes = [f"Time limit: {step}." for step in cut]
+    if split:
+        notes.append("Auxiliary variables were introduced, each equal to the affine argument of a "
+                     "building block; the dual is that of this equivalent reformulation, with the "
+                     "same optimal value and the same strong-duality conditions.")
+    if sense == "maximize":
+        notes.append("For a maximization the dual is a minimization whose value bounds the "
+                     "primal optimum from above.")
+    return tuple(notes)

@@ -22,13 +22,16 @@ from dualize.duality.building_blocks import (
     BuildingBlock,
     block_expression,
     infimum,
+    orthant_norm,
     recognise,
     with_argument,
 )
 from dualize.duality.definite import definiteness
 from dualize.duality.dual_statement import as_minimization as _as_minimization
+from dualize.duality.dual_statement import derivation_notes
 from dualize.duality.dual_statement import dual_sentence as _dual_sentence
 from dualize.duality.dual_statement import substituted as _substituted
+from dualize.duality.kernel_form import kernel_notes
 from dualize.duality.kkt import conditions
 from dualize.duality.lagrangian import lagrangian, multipliers
 from dualize.duality.linear import Quadratic, hessian, quadratic, trace_linear
@@ -94,7 +97,8 @@ def derive(problem: Problem, deadline: Deadline | None = None) -> Derivation:
         dual = _as_minimization(dual)
     work.steps.append(Step("dual-problem", _dual_sentence(dual, problem.sense)))
     kkt = conditions(problem, outcomes)
-    notes = _notes(work, dual)
+    notes = derivation_notes(work.cut, bool(work.aux_blocks), problem.sense) + tuple(
+        kernel_notes(dual, recovery))
     return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
                       kkt, tuple(recovery), notes)
 
@@ -181,10 +185,10 @@ def _split(work: Work, atom: BuildingBlock) -> None:
 
 
 def _minimize_blocks(work: Work) -> dict[str, Outcome]:
-    outcomes: dict[str, Outcome] = {}
+    outcomes: dict[str, Outcome] = _perspective(work)
     coupled = {n for t in work.coupled for n in _vars_of(t, _primal_names(work))}
     for v in work.problem.variables:
-        if v.name in coupled:
+        if v.name in coupled or v.name in outcomes:
             continue
         outcomes[v.name] = _guarded_block(work, v)
     for u, atom, z in work.aux_blocks:
@@ -196,6 +200,43 @@ def _minimize_blocks(work: Work) -> dict[str, Outcome]:
     if work.coupled:
         outcomes["(coupled)"] = Outcome(rebuild(work.coupled, SCALAR), inner=True)
     return outcomes
+
+
+def _perspective(work: Work) -> dict[str, Outcome]:
+    """The relative entropy of two variables, minimized jointly (``perspective``), when it
+    is the only coupling and both variables otherwise enter linearly."""
+    from dualize.duality.perspective import entropy_atom, pair_outcome, relative_entropy_pair
+    from dualize.duality.scalar import Scope, to_sympy
+
+    if len(work.coupled) != 1:
+        return {}
+    variables = {v.name: v for v in work.problem.variables}
+    found = relative_entropy_pair(work.coupled[0], variables)
+    if found is None or to_sympy(found[0], Scope()).is_positive is not True:
+        return {}
+    coef, u, v = found
+    lu, lv = _linear_part(work, u), _linear_part(work, v)
+    if lu is None or lv is None:
+        return {}
+    inf = separable_infimum(entropy_atom(coef, u.symbol), tidy(b.neg(lu[0])), u.symbol,
+                            u.domain)
+    if inf is None or inf.entries is None:
+        return {}
+    cons, steps, recs = pair_outcome(u.symbol, v.symbol, lu[0], lv[0], inf.entries,
+                                     inf.constraints, inf.statement, inf.formulas)
+    work.coupled = []
+    return {u.name: Outcome(tidy(b.add(lu[1], lv[1])), cons, recs[0], steps),
+            v.name: Outcome(b.num(0), recovery=recs[1])}
+
+
+def _linear_part(work: Work, v: Variable) -> tuple[Expr, Expr] | None:
+    """(g, r) with the variable's own terms g'x + r, or None when they are not affine."""
+    terms = work.by_var.get(v.name, [])
+    q = quadratic(rebuild(terms, SCALAR), v.symbol) if terms else Quadratic(None, None, None)
+    if q is None or q.Q is not None:
+        return None
+    g = q.g if q.g is not None else b.zeros(v.symbol.shape)
+    return tidy(g), q.r if q.r is not None else b.num(0)
 
 
 def _guarded_block(work: Work, v: Variable) -> Outcome:
@@ -405,7 +446,8 @@ def _conjugate_outcome(x: Symbol, atom: BuildingBlock, s: Expr, r: Expr, domain:
         inf = separable_infimum(atom, s, x, domain,
                                 work.deadline if work is not None else Deadline.unlimited())
     else:
-        inf = infimum(atom, s, x) if domain.kind == "free" else None
+        inf = infimum(atom, s, x) if domain.kind == "free" else (
+            orthant_norm(atom, s, x) if domain.kind in ("nonneg", "pos") else None)
     if inf is None:
         kept = b.add(block_expression(atom), b.neg(b.inner(s, x)), r)
         return Outcome(tidy(kept), inner=True, steps=[Step(
@@ -454,16 +496,3 @@ def _assemble(work: Work, outcomes: dict[str, Outcome], mults):  # type: ignore[
     dual = DualProblem("maximize", variables, tidy(objective), tuple(constraints),
                        tuple(inner), unbounded)
     return dual, recovery
-
-
-def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:
-    notes = [f"Time limit: {cut}." for cut in work.cut]
-    if work.aux_blocks:
-        notes.append("Auxiliary variables were introduced, each equal to the affine argument of a "
-                     "building block; the dual is that of this equivalent reformulation, with the "
-                     "same optimal value and the same strong-duality conditions.")
-    if work.problem.sense == "maximize":
-        notes.append("For a maximization the dual is a minimization whose value bounds the "
-                     "primal optimum from above.")
-    return tuple(notes)
-

@@ -56,10 +56,15 @@ def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
     each piece is, which sympy's domain finder cannot tell."""
     from sympy.calculus.util import continuous_domain
 
-    if isinstance(phi, sympy.Piecewise):
-        parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
-        return sympy.Intersection(*parts) if parts else sympy.S.Reals
-    return continuous_domain(phi, t, sympy.S.Reals)
+    if phi.has(sympy.Piecewise):
+        phi = sympy.piecewise_fold(phi)
+    try:
+        if isinstance(phi, sympy.Piecewise):
+            parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
+            return sympy.Intersection(*parts) if parts else sympy.S.Reals
+        return continuous_domain(phi, t, sympy.S.Reals)
+    except (NotImplementedError, ValueError, TypeError):
+        return sympy.S.EmptySet  # no domain sympy can state: no closed form is claimed
 
 
 def separable_infimum(atom: BuildingBlock, s: Expr, x: Symbol, domain: Domain,
@@ -95,7 +100,7 @@ def separable_infimum(atom: BuildingBlock, s: Expr, x: Symbol, domain: Domain,
     statement = ("the term $#term$ is separable, with $#phi$ entry by entry; its conjugate, "
                  "derived by the Legendre transform and checked numerically, is $#conj$")
     return Infimum(b.neg(total), constraints, minimizer, statement,
-                   _formulas(atom, phi, t, shown, conj.s))
+                   _formulas(atom, phi, t, shown, conj.s), entries)
 
 
 def _formulas(atom: BuildingBlock, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,

@@ -143,7 +143,10 @@ def parsed(problem: Problem) -> Document:
 
 def problem_text(comment: str, title: str, data: list[str], sense: str, objective: str,
                  over: str, constraints: list[str]) -> str:
-    lines = [f"# {' '.join(comment.split())}", f'title "{_quote(title)}"', ""] + data
+    import textwrap
+
+    notes = textwrap.wrap(" ".join(comment.split()), 86, break_on_hyphens=False)
+    lines = [f"# {line}" for line in notes] + [f'title "{_quote(title)}"', ""] + data
     lines += ["", f"{sense} {objective}", f"over {over}"]
     if constraints:
         lines += ["subject to", *constraints]

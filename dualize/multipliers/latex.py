@@ -13,15 +13,25 @@ PREAMBLE = ("\\documentclass{article}\n\\usepackage[utf8]{inputenc}\n"
 
 
 def escape(text: str) -> str:
-    return "".join(text_character(c) for c in text)
+    """Running text for pdflatex; straight double quotes become opening and closing ones."""
+    out, opening = [], True
+    for c in text:
+        if c == '"':
+            out.append("``" if opening else "''")
+            opening = not opening
+        else:
+            out.append(text_character(c))
+    return "".join(out)
 
 
 def tabular(rows: list[list[str]]) -> str:
-    """A left-aligned tabular; every cell escaped, the first row as the header."""
+    """A left-aligned tabular in small type (a report's table has many columns); every
+    cell escaped, the first row as the header."""
     spec = "l" * len(rows[0])
     body = [" & ".join(escape(c) for c in r) + r" \\" for r in rows]
-    return "\n".join([f"\\begin{{tabular}}{{{spec}}}", r"\hline", body[0], r"\hline",
-                      *body[1:], r"\hline", r"\end{tabular}"])
+    return "\n".join([r"\begin{center}\scriptsize\setlength{\tabcolsep}{2.5pt}",
+                      f"\\begin{{tabular}}{{{spec}}}", r"\hline", body[0], r"\hline",
+                      *body[1:], r"\hline", r"\end{tabular}", r"\end{center}"])
 
 
 def wrap(parts: list[str], title: str, standalone: bool) -> str:

@@ -22,6 +22,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from dualize.deadline import Deadline
 from dualize.multipliers.forms import Pair
 from dualize.multipliers.solve import Point, Posed
 from dualize.numeric.evaluate import evaluate
@@ -207,17 +208,28 @@ def _judge(m: Match, floor: float) -> Match:
 
 
 def sweep(forms: Forms, given: str, values: Iterable[float],
-          tick: Callable[[], None] | None = None) -> Curve:
-    """Match every value (weights or bounds) and check the curve's monotonicity."""
+          tick: Callable[[], None] | None = None, deadline: Deadline | None = None) -> Curve:
+    """Match every value (weights or bounds) and check the curve's monotonicity; past
+    ``deadline`` the values left are listed as not computed."""
     floor = smallest_r(forms)
     points = []
     for value in values:
         step = from_weight if given == "weight" else from_bound
-        points.append(step(forms, float(value), floor))
+        if deadline is not None and deadline.expired():
+            points.append(_late(given, float(value)))
+        else:
+            points.append(step(forms, float(value), floor))
         if tick is not None:
             tick()
     curve = Curve(forms.pair, forms.instance.source, given, tuple(points), floor)
     return replace(curve, problems=monotonicity(curve))
+
+
+def _late(given: str, value: float) -> Match:
+    nan = float("nan")
+    weight, bound = (value, nan) if given == "weight" else (nan, value)
+    return Match(weight, bound, nan, status="failed",
+                 note="not computed: the time limit was reached")
 
 
 def monotonicity(curve: Curve) -> tuple[str, ...]:

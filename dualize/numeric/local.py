@@ -198,5 +198,6 @@ def _dual_constraint(index: int, lhs: ir.Expr, relation: str, rhs: ir.Expr) -> C
     function = ir.Add((first, ir.Scale(minus_one, second)))
     label = f"c{index + 1}"
     multiplier = ir.Symbol(label, "auxiliary", function.shape)
-    return Constraint(label, _DUAL_KINDS[relation], relation, lhs, rhs,  # type: ignore[arg-type]
+    written = "==" if relation == "=" else relation  # a constraint is stated as written
+    return Constraint(label, _DUAL_KINDS[relation], written, lhs, rhs,  # type: ignore[arg-type]
                       function, multiplier, False)
