@@ -27,6 +27,10 @@ from dualize.duality.building_blocks import (
     with_argument,
 )
 from dualize.duality.definite import definiteness
+from dualize.duality.dual_statement import as_minimization as _as_minimization
+from dualize.duality.dual_statement import derivation_notes
+from dualize.duality.dual_statement import dual_sentence as _dual_sentence
+from dualize.duality.dual_statement import substituted as _substituted
 from dualize.duality.kernel_form import kernel_notes
 from dualize.duality.kkt import conditions
 from dualize.duality.lagrangian import lagrangian, multipliers
@@ -44,7 +48,7 @@ from dualize.duality.result import (
     Step,
 )
 from dualize.duality.separable import separable_infimum
-from dualize.duality.simplify import simplify, simplify_scalar, substitutions
+from dualize.duality.simplify import simplify, substitutions
 from dualize.model.expr import SCALAR, Expr, Symbol, symbols_of
 from dualize.model.problem import Domain, Problem, Variable
 
@@ -93,7 +97,8 @@ def derive(problem: Problem, deadline: Deadline | None = None) -> Derivation:
         dual = _as_minimization(dual)
     work.steps.append(Step("dual-problem", _dual_sentence(dual, problem.sense)))
     kkt = conditions(problem, outcomes)
-    notes = _notes(work, dual) + tuple(kernel_notes(dual, recovery))
+    notes = derivation_notes(work.cut, bool(work.aux_blocks), problem.sense) + tuple(
+        kernel_notes(dual, recovery))
     return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
                       kkt, tuple(recovery), notes)
 
@@ -491,88 +496,3 @@ def _assemble(work: Work, outcomes: dict[str, Outcome], mults):  # type: ignore[
     dual = DualProblem("maximize", variables, tidy(objective), tuple(constraints),
                        tuple(inner), unbounded)
     return dual, recovery
-
-
-def _substituted(recovery: list[Recovery], fixed: dict[Expr, Expr]) -> list[Recovery]:
-    from dataclasses import replace
-
-    from dualize.model.expr import substitute
-
-    out = []
-    for r in recovery:
-        if r.formula is None:
-            out.append(r)
-            continue
-        formula = r.formula
-        for _ in range(len(fixed)):
-            formula = substitute(formula, fixed)
-        out.append(replace(r, formula=simplify_scalar(tidy(formula))))
-    return [_relations_substituted(r, fixed) for r in out]
-
-
-def _relations_substituted(r: Recovery, fixed: dict[Expr, Expr]) -> Recovery:
-    from dataclasses import replace
-
-    from dualize.model.expr import substitute
-
-    if not r.relations:
-        return r
-    rels = []
-    for eq in r.relations:
-        rhs = eq.rhs
-        for _ in range(len(fixed)):
-            rhs = substitute(rhs, fixed)
-        rels.append(Equation(eq.lhs, eq.relation, simplify_scalar(tidy(rhs))))
-    return replace(r, relations=tuple(rels))
-
-
-def _as_minimization(dual: DualProblem) -> DualProblem:
-    return DualProblem("minimize", dual.variables, tidy(b.neg(dual.objective)),
-                       dual.constraints, dual.inner, dual.unbounded)
-
-
-def _dual_sentence(dual: DualProblem, sense: str = "minimize") -> str:
-    if dual.unbounded:
-        return ("The dual function is minus infinity for every choice of multipliers: the dual "
-                "gives no bound (the primal problem is unbounded below or its Lagrangian is).")
-    if dual.inner:
-        names = ", ".join(v.name for v in dual.inner)
-        return (f"The dual problem, with the infimum over {names} kept because no rule "
-                "eliminates it in closed form.")
-    text = "The dual problem collects the dual function and every condition for it to be finite."
-    return text + " " + finiteness_sentence(dual, sense) if dual.constraints else text
-
-
-def finiteness_sentence(dual: DualProblem, sense: str) -> str:
-    """Where the dual function is finite, and what its infinite cases say of the primal.
-
-    Outside the implicit constraints the infimum of the Lagrangian is minus infinity
-    (plus infinity for the supremum of a maximization); by weak duality an unbounded
-    dual proves the primal infeasible, and a dual with no feasible multiplier gives
-    no bound: it says nothing of the primal unless strong duality holds, when d* =
-    p* = -inf makes the primal unbounded (S. Boyd and L. Vandenberghe, Convex
-    Optimization, 2004, sections 5.1.2 and 5.2.2, from memory; a problem with a
-    duality gap may have an infeasible dual and a finite primal optimum).
-    """
-    if sense == "minimize":
-        return ("Outside these conditions the dual function is minus infinity. The dual is "
-                "unbounded above only if the primal is infeasible; if no multiplier "
-                "satisfies the conditions, the dual gives no bound, and where strong "
-                "duality holds the primal is then unbounded below.")
-    return ("Outside these conditions the dual function is plus infinity. The dual is "
-            "unbounded below only if the primal is infeasible; if no multiplier satisfies "
-            "the conditions, the dual gives no bound, and where strong duality holds the "
-            "primal is then unbounded above.")
-
-
-def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:
-    notes = [f"Time limit: {cut}." for cut in work.cut]
-    if work.aux_blocks:
-        notes.append("Auxiliary variables were introduced, each equal to the affine argument of a "
-                     "building block; the dual is that of this equivalent reformulation, with the "
-                     "same optimal value and the same strong-duality conditions.")
-    if work.problem.sense == "maximize":
-        notes.append("For a maximization the dual is a minimization whose value bounds the "
-                     "primal optimum from above.")
-    return tuple(notes)
-
