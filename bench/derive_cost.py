@@ -8,7 +8,8 @@ Run from the repository root:
 "warm" runs reuse a folder filled by one earlier run. Each figure is the median
 of ``--repeat`` whole processes with one BLAS thread, measured interleaved with
 the baseline ``python -c "import sympy"`` so that a busy machine affects both
-alike: compare the ratios, not the seconds.
+alike: compare the ratios, not the seconds.  Bytecode is written and used, as
+in an installed copy (a first untimed run compiles the modules).
 """
 
 from __future__ import annotations
@@ -31,6 +32,7 @@ def _env(cache: str | None) -> dict[str, str]:
     env = dict(os.environ, NO_COLOR="1", OPENBLAS_NUM_THREADS="1", OMP_NUM_THREADS="1",
                PYTHONPATH=str(ROOT))
     env.pop("DUALIZE_CACHE", None)
+    env.pop("PYTHONDONTWRITEBYTECODE", None)  # as installed: modules load from bytecode
     if cache is not None:
         env["DUALIZE_CACHE_DIR"] = cache
     return env

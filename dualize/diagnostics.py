@@ -1,16 +1,19 @@
 """Diagnostics as data: every finding of every stage is one of these.
 
 Passes return diagnostics and never print; ``dualize.render.diagnostics``
-formats them.  Each diagnostic names a registered kind (``RuleKind``) by its
-stable id; the table of kinds is complete and tested.
+formats them.  Each diagnostic names a kind (``RuleKind``) by its stable id.
+Each stage lists its own kinds in its ``rules.py`` (a tuple ``KINDS``); this
+base module imports no stage, so the table of every kind is assembled above
+the stages (``dualize.lint.rule_table``) with ``table_of``.
 """
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 from typing import Literal
 
-from dualize.syntax.span import Span
+from dualize.span import Span
 
 Severity = Literal["error", "warning", "info"]
 SEVERITY_ORDER: dict[str, int] = {"info": 0, "warning": 1, "error": 2}
@@ -25,6 +28,7 @@ class RuleKind:
     template: str
     why: str
     stage: Literal["syntax", "model", "analysis", "instance", "paper"]
+    aliases: tuple[str, ...] = ()  # former ids, still accepted by --select and --ignore
 
 
 @dataclass(frozen=True)
@@ -38,25 +42,18 @@ class Diagnostic:
     notes: tuple[str, ...] = field(default=())
 
 
-_REGISTRY: dict[str, RuleKind] = {}
-
-
-def register(kind: RuleKind) -> RuleKind:
-    """Add a kind to the table; ids are unique."""
-    if kind.id in _REGISTRY:
-        raise ValueError(f"rule id registered twice: {kind.id}")
-    _REGISTRY[kind.id] = kind
-    return kind
-
-
-def rule_table() -> dict[str, RuleKind]:
-    """Every registered kind, after importing the modules that register them."""
-    import dualize.analysis.rules  # noqa: F401
-    import dualize.model.rules  # noqa: F401
-    import dualize.paper.rules  # noqa: F401
-    import dualize.syntax.rules  # noqa: F401
-
-    return dict(sorted(_REGISTRY.items()))
+def table_of(*groups: Iterable[RuleKind]) -> dict[str, RuleKind]:
+    """The kinds of ``groups`` by id, sorted; an id given twice is an error, because a
+    finding must name exactly one kind."""
+    table: dict[str, RuleKind] = {}
+    taken: set[str] = set()
+    for kind in (k for group in groups for k in group):
+        for name in (kind.id, *kind.aliases):
+            if name in taken:
+                raise ValueError(f"rule id registered twice: {name}")
+            taken.add(name)
+        table[kind.id] = kind
+    return dict(sorted(table.items()))
 
 
 def make(kind: RuleKind, path: str, span: Span | None, hint: str | None = None,

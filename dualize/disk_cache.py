@@ -5,9 +5,10 @@ conjugates, the parser's tables) are kept here between runs.  The folder is
 ``$DUALIZE_CACHE_DIR`` if set, else ``$XDG_CACHE_HOME/dualize``, else
 ``~/.cache/dualize``; ``DUALIZE_CACHE=off`` turns caching off.
 
-Every entry records its exact key and a stamp (the version of what produced
-it); an entry with another key or stamp, or one that does not parse, reads as
-a miss.  Entries are written to a temporary file in the same folder and moved
+Every entry records its exact key, a stamp (the version of what produced it)
+and a digest of its payload; an entry with another key or stamp, a payload that
+does not match its digest, or one that does not parse, reads as a miss.
+Entries are written to a temporary file in the same folder and moved
 into place with ``os.replace``, so a reader never sees half an entry.  Entries
 are plain JSON: nothing read back is ever executed.  A folder that cannot be
 written costs only the speed-up.
@@ -57,7 +58,14 @@ def lookup(section: str, key: str, stamp: str) -> Any | None:
         return None
     if not isinstance(entry, dict) or entry.get("stamp") != stamp or entry.get("key") != key:
         return None
-    return entry.get("payload")
+    payload = entry.get("payload")
+    if entry.get("digest") != _digest(payload):
+        return None  # damaged in place (a flipped digit still parses)
+    return payload
+
+
+def _digest(payload: Any) -> str:
+    return hashlib.sha256(json.dumps(payload, sort_keys=True).encode()).hexdigest()
 
 
 def store(section: str, key: str, stamp: str, payload: Any) -> None:
@@ -65,7 +73,8 @@ def store(section: str, key: str, stamp: str, payload: Any) -> None:
     path = entry_path(section, key)
     if path is None:
         return
-    text = json.dumps({"stamp": stamp, "key": key, "payload": payload}, sort_keys=True)
+    text = json.dumps({"stamp": stamp, "key": key, "payload": payload,
+                       "digest": _digest(payload)}, sort_keys=True)
     try:
         path.parent.mkdir(parents=True, exist_ok=True)
         fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=".tmp-", suffix=".json")

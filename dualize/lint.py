@@ -1,20 +1,21 @@
 """The lint runner: files and folders in, every diagnostic of every file out.
 
 Each file is loaded (syntax and resolution); a file that resolves is then handed
-to the analysis stage (``dualize.analysis.analyze``) when that stage is present.
-The report is in a stable order: files sorted by path, diagnostics by position.
+to the analysis stage (``dualize.analysis.analyze``), with the numeric evaluator
+when an instance is given.  The report is in a stable order: files sorted by
+path, diagnostics by position.  ``rule_table`` assembles every stage's kinds of
+finding: the runner sits above the stages, so it may import them all.
 """
 
 from __future__ import annotations
 
-import importlib
 import os
 from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
-from dualize.diagnostics import SEVERITY_ORDER, Diagnostic
+from dualize.diagnostics import SEVERITY_ORDER, Diagnostic, RuleKind, table_of
 from dualize.errors import DualizeError
 
 if TYPE_CHECKING:
@@ -123,29 +124,40 @@ def _report(loaded: Loaded, path: str, source: Callable[[], str],
     problem = loaded.problem
     analyze = analysis_hook()
     if problem is not None and analyze is not None:
-        found.extend(analyze(problem, *_instance(problem, data)).diagnostics)
+        found.extend(analyze(problem, **_instance(problem, data)).diagnostics)
     text = problem.source if problem is not None else source()
     return FileReport(path, text, tuple(sorted(found, key=_position)))
 
 
-def _instance(problem: object, data: str | None) -> tuple[object, ...]:
-    """The instance read from ``data`` (as the analysis's extra argument), if given."""
+def _instance(problem: object, data: str | None) -> dict[str, object]:
+    """The analysis's keyword arguments for the instance in ``data``, if given: its
+    values and the numeric evaluator (passed down, so analysis imports no numeric)."""
     if data is None:
-        return ()
+        return {}
+    from dualize.numeric.evaluate import evaluate_2d
     from dualize.numeric.instance import read_instance
 
-    return (read_instance(data, problem),)  # type: ignore[arg-type]
+    return {"instance": read_instance(data, problem),  # type: ignore[arg-type]
+            "evaluate": evaluate_2d}
 
 
-def analysis_hook() -> Callable | None:
-    """``dualize.analysis.analyze`` if the analysis stage provides it."""
-    try:
-        module = importlib.import_module("dualize.analysis")
-    except ModuleNotFoundError as err:
-        if err.name != "dualize.analysis":
-            raise
-        return None
-    return getattr(module, "analyze", None)
+def analysis_hook() -> Callable[..., Any] | None:
+    """The analysis stage's entry point (``dualize.analysis.analyze``); one function, so
+    that a test of the front end alone can put a stand-in (or None: no analysis) in its
+    place."""
+    from dualize.analysis import analyze
+
+    return analyze
+
+
+def rule_table() -> dict[str, RuleKind]:
+    """Every kind of finding of every stage, by id (sorted); ids are unique."""
+    from dualize.analysis.rules import KINDS as ANALYSIS
+    from dualize.model.rules import KINDS as MODEL
+    from dualize.paper.rules import KINDS as PAPER
+    from dualize.syntax.rules import KINDS as SYNTAX
+
+    return table_of(SYNTAX, MODEL, ANALYSIS, PAPER)
 
 
 def _source(path: str | Path) -> str:

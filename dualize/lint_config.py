@@ -6,7 +6,8 @@ wins, and ``ignore`` wins a tie, so ``--select nonconvex --ignore
 nonconvex-equality`` keeps every nonconvex rule but one, and ``--ignore slater
 --select slater-fails`` keeps that one rule.  Settings come from
 ``[tool.dualize]`` in the nearest pyproject.toml (searched upwards from the
-current directory); command-line options replace them key by key.
+current directory); command-line options replace them key by key.  A rule's
+former id (``curvature-unknown``, now ``convexity-undecided``) still selects it.
 """
 
 from __future__ import annotations
@@ -16,7 +17,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
-from dualize.diagnostics import SEVERITY_ORDER, Diagnostic
+from dualize.diagnostics import SEVERITY_ORDER, Diagnostic, RuleKind
 from dualize.errors import DualizeError
 
 KEYS = ("select", "ignore", "fail-on")
@@ -125,14 +126,37 @@ def check_selectors(config: LintConfig, known: Iterable[str]) -> None:
                            f"known ids: {', '.join(ids)}", exit_code=2)
 
 
+def former_ids(config: LintConfig, table: Mapping[str, RuleKind]) -> LintConfig:
+    """Selectors that name a rule by a former id (or a prefix of one that no current id
+    has) replaced by the current ids, so old settings keep working."""
+    def current(selector: str) -> tuple[str, ...]:
+        if any(i.startswith(selector) for i in table):
+            return (selector,)
+        renamed = tuple(k.id for k in table.values()
+                        if any(a.startswith(selector) for a in k.aliases))
+        return renamed or (selector,)
+
+    def each(selectors: tuple[str, ...]) -> tuple[str, ...]:
+        return tuple(dict.fromkeys(n for s in selectors for n in current(s)))
+
+    return replace(config, select=each(config.select), ignore=each(config.ignore))
+
+
 def configured(select: Iterable[str] = (), ignore: Iterable[str] = (),
                fail_on: str | None = None, start: Path | None = None) -> LintConfig:
-    """The nearest pyproject.toml's settings with command-line options on top, checked
-    against the rule table."""
-    from dualize.diagnostics import rule_table
+    """The nearest pyproject.toml's settings with command-line options on top, former
+    rule ids translated, checked against the rule table."""
+    return checked(with_options(load_config(start), select, ignore, fail_on))
 
-    config = with_options(load_config(start), select, ignore, fail_on)
-    check_selectors(config, rule_table())
+
+def checked(config: LintConfig) -> LintConfig:
+    """``config`` with former rule ids translated and every selector checked against the
+    rule table (an unknown one raises, exit code 2)."""
+    from dualize.lint import rule_table
+
+    table = rule_table()
+    config = former_ids(config, table)
+    check_selectors(config, table)
     return config
 
 

@@ -7,7 +7,8 @@ practice).
 
 import pytest
 
-from dualize.diagnostics import RuleKind, register, rule_table
+from dualize.diagnostics import RuleKind, table_of
+from dualize.lint import rule_table
 from dualize.model import load, load_file
 from dualize.syntax.parser import MAX_CHARS
 
@@ -96,4 +97,4 @@ def test_ids_are_unique_and_registering_twice_fails() -> None:
     assert len(table) == len(set(table))
     some = next(iter(table.values()))
     with pytest.raises(ValueError):
-        register(RuleKind(some.id, "error", "x", "y", "syntax"))
+        table_of(table.values(), [RuleKind(some.id, "error", "x", "y", "syntax")])

@@ -2,11 +2,9 @@
 
 from __future__ import annotations
 
-from collections.abc import Mapping
-from typing import Any
-
 from dualize.analysis import rules as R
 from dualize.analysis.convexity import Convexity, Part
+from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
 from dualize.analysis.structure import structural_findings
 from dualize.diagnostics import Diagnostic, make
@@ -16,7 +14,7 @@ _SET_TEXT = {"integer": "the integers", "binary": "{0,1}"}
 
 
 def diagnostics_for(problem: Problem, conv: Convexity, verdict: Verdict,
-                    instance: Mapping[str, Any] | None = None) -> tuple[Diagnostic, ...]:
+                    instance: Measured | None = None) -> tuple[Diagnostic, ...]:
     """Every analysis finding for ``problem``, in source order (then by rule id)."""
     found = list(_objective(problem, conv.objective))
     spans = {c.label: c.span for c in problem.constraints}
@@ -42,9 +40,9 @@ def _objective(problem: Problem, obj: Part) -> list[Diagnostic]:
         return [make(R.NONCONVEX_OBJECTIVE, problem.path, span, wanted=wanted, found=found,
                      detail=detail, hint=_objective_hint(problem))]
     if obj.kind == "unknown":
-        return [make(R.CURVATURE_UNKNOWN, problem.path, span, where="the objective",
-                     detail="no composition rule applies and the Hessian test is out of "
-                     "reach (symbolic sizes or sign)")]
+        return [make(R.CONVEXITY_UNDECIDED, problem.path, span, where="the objective",
+                     detail="no rule of the convexity calculus applies and the Hessian "
+                     "test is out of reach (symbolic sizes or sign)")]
     return []
 
 
@@ -71,9 +69,9 @@ def _constraint(problem: Problem, part: Part, span: object) -> list[Diagnostic]:
         return [make(R.NONAFFINE_MATRIX_INEQUALITY, path, span, label=label,
                      found=_found(part.curvature))]
     if part.kind in ("unknown-inequality", "unknown-equality"):
-        return [make(R.CURVATURE_UNKNOWN, path, span, where=f"constraint '{label}'",
-                     detail="no composition rule applies and the Hessian test is out of "
-                     "reach")]
+        return [make(R.CONVEXITY_UNDECIDED, path, span, where=f"constraint '{label}'",
+                     detail="no rule of the convexity calculus applies and the Hessian "
+                     "test is out of reach")]
     if part.kind == "data-only":
         return [make(R.CONSTANT_CONSTRAINT, path, span, label=label,
                      hint="move a condition on the data into the data's declared set")]

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from dualize.analysis.dcp import Curvature, flip, is_convex
+from dualize.analysis.convexity_calculus import Curvature, flip, is_convex
 from dualize.analysis.hessian import curvature_with_fallback
 from dualize.analysis.sign_rules import Sign
 from dualize.model.expr import symbols_of

@@ -63,16 +63,20 @@ class _Env:
         return exact_2d(expr, self.values, self.dims)
 
     def size(self, size: Any) -> int:
-        from dualize.numeric.evaluate import size_of
+        """A symbolic size (``n``, ``m + 1``) as an integer, from the instance's sizes."""
+        from dualize.model.sizes import size_of
 
-        return size_of(size, self.dims)
+        try:
+            return size_of(size, self.dims)
+        except KeyError as exc:
+            raise NotExact(f"no size for {size}") from exc
 
     def shape(self, shape: ir.Shape) -> tuple[int, int]:
         return self.size(shape.rows), self.size(shape.cols)
 
 
 def _rational(value: Any, dims: Mapping[str, int]) -> Fraction:
-    value = sympy.sympify(value)
+    value = value if isinstance(value, sympy.Basic) else sympy.Rational(value)
     free = sorted(value.free_symbols, key=lambda s: s.name)
     value = value.subs({s: int(dims[s.name]) for s in free}) if free else value
     if not value.is_Rational:

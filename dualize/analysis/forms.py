@@ -1,7 +1,7 @@
 """Recognisers for building blocks written as mathematics: e'Me, log-sum-exp.
 
-The language has no named atoms for these (LANGUAGE.md, "Recognised building
-blocks"), so the analysis finds them by shape.
+The language has no named functions for these (docs/language.md, section 4,
+"Functions"), so the analysis finds them by shape.
 """
 
 from __future__ import annotations

@@ -1,4 +1,4 @@
-"""The second-order test where the composition rules cannot decide.
+"""The second-order test where the convexity calculus cannot decide.
 
 A twice-differentiable function on a convex open domain is convex exactly
 when its Hessian is positive semidefinite there (Boyd and Vandenberghe, 2004,
@@ -14,7 +14,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from itertools import combinations
 
-from dualize.analysis.dcp import Curvature, curvature
+from dualize.analysis.convexity_calculus import Curvature, curvature
 from dualize.analysis.sign_rules import Sign
 from dualize.model import expr as E
 from dualize.model.problem import Problem
@@ -24,8 +24,9 @@ MAX_UNKNOWNS = 6
 
 def curvature_with_fallback(node: E.Expr, problem: Problem | None,
                             signs: Mapping[str, Sign]) -> Curvature:
-    """DCP curvature, else the Hessian test on a small fixed-size expression; may say
-    "neither" (proved neither convex nor concave) beside the five curvatures."""
+    """Curvature by the convexity calculus, else the Hessian test on a small fixed-size
+    expression; may say "neither" (proved neither convex nor concave) beside the five
+    curvatures."""
     c = curvature(node, signs)
     if c != "unknown":
         return c

@@ -2,7 +2,8 @@
 
 The phase-one search and the rank test work on a flat numpy vector; this
 module fixes the sizes from the instance and maps the vector back to named
-values the evaluator reads.
+values the evaluator reads (the numeric stage's, handed in with the instance:
+``dualize.analysis.measured``).
 """
 
 from __future__ import annotations
@@ -14,6 +15,7 @@ from typing import Any
 import numpy as np
 import sympy
 
+from dualize.analysis.measured import Evaluate, Measured
 from dualize.model.problem import Problem
 
 
@@ -27,6 +29,11 @@ class Layout:
     shapes: tuple[tuple[int, int], ...]
     values: Mapping[str, Any]
     dims: Mapping[str, int]
+    evaluate: Evaluate
+
+    def value(self, expr: Any, point: Mapping[str, Any]) -> np.ndarray:
+        """``expr`` at ``point`` (names -> values), as a 2-D array."""
+        return self.evaluate(expr, point, self.dims)
 
     @property
     def size(self) -> int:
@@ -72,12 +79,13 @@ def _bind(shape: Any, arr: np.ndarray, dims: dict[str, int]) -> None:
             dims.setdefault(size.name, int(value))
 
 
-def layout_for(problem: Problem, instance: Any) -> Layout:
-    values, dims = split_instance(problem, instance)
+def layout_for(problem: Problem, instance: Measured) -> Layout:
+    values, dims = split_instance(problem, instance.data)
     shapes = []
     for v in problem.variables:
         shapes.append(tuple(_size(s, dims) for s in (v.symbol.shape.rows, v.symbol.shape.cols)))
-    return Layout(tuple(v.name for v in problem.variables), tuple(shapes), values, dims)
+    return Layout(tuple(v.name for v in problem.variables), tuple(shapes), values, dims,
+                  instance.evaluate)
 
 
 def _size(size: sympy.Expr, dims: Mapping[str, int]) -> int:

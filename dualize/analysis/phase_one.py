@@ -18,10 +18,9 @@ from typing import Any
 import numpy as np
 import sympy
 
-from dualize.analysis.convexity import Convexity
 from dualize.analysis.layout import Layout, SizeUnknown, layout_for
+from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
-from dualize.analysis.slater import STRICT_CLASSES
 from dualize.model import expr as E
 from dualize.model.functions import lookup
 from dualize.model.problem import Problem
@@ -34,13 +33,15 @@ REFINED = ("the refined Slater condition holds (Boyd and Vandenberghe, 2004, "
 Row = Callable[[np.ndarray], np.ndarray]
 
 
-def numeric_verdict(problem: Problem, conv: Convexity, instance: Mapping[str, Any]) -> Verdict:
+def numeric_verdict(problem: Problem, strict_labels: frozenset[str],
+                    instance: Measured) -> Verdict:
+    """The verdict on an instance: a point found that holds the constraints labelled
+    ``strict_labels`` strictly (and the others) shows Slater's condition."""
     try:
         lay = layout_for(problem, instance)
     except SizeUnknown as exc:
         return Verdict("unknown", f"the instance does not fix the size {exc}")
-    strict_labels = {p.label for p in conv.constraints if p.kind in STRICT_CLASSES}
-    rows = _Rows(problem, lay, strict_labels, _exact_data(problem, lay, instance))
+    rows = _Rows(problem, lay, set(strict_labels), _exact_data(problem, lay, instance.data))
     state, point = rows.affine_point()
     if state == "infeasible":
         return Verdict("not-guaranteed", "the instance is infeasible: its affine constraints "
@@ -167,10 +168,8 @@ class _Rows:
         return None if point is None else np.array([float(v) for v in point], dtype=float)
 
     def _entries(self, fn: E.Expr) -> Row:
-        from dualize.numeric.evaluate import evaluate_2d
-
         lay = self.lay
-        return lambda z: evaluate_2d(fn, lay.unpack(z), lay.dims).reshape(-1)
+        return lambda z: lay.value(fn, lay.unpack(z)).reshape(-1)
 
     def _eig(self, fn: E.Expr, largest: bool) -> Row:
         entries = self._entries(fn)
@@ -210,8 +209,6 @@ class _Rows:
 def _bounds(problem: Problem, lay: Layout, rows: _Rows) -> list[tuple[float | None, float | None]]:
     """Bounds of each entry of z from polyhedral domains; open and PSD domains become
     strict rows (a Slater point lies in the relative interior of the domain)."""
-    from dualize.numeric.evaluate import evaluate
-
     out: list[tuple[float | None, float | None]] = []
     at = 0
     for v, (r, c) in zip(problem.variables, lay.shapes, strict=True):
@@ -221,8 +218,8 @@ def _bounds(problem: Problem, lay: Layout, rows: _Rows) -> list[tuple[float | No
             lo = 0.0
             rows.exact_ineq.append(_negated_slice(at, k))
         if kind == "box":
-            lo = float(evaluate(v.domain.lo, lay.values, lay.dims))
-            hi = float(evaluate(v.domain.hi, lay.values, lay.dims))
+            lo = float(lay.value(v.domain.lo, lay.values).item())
+            hi = float(lay.value(v.domain.hi, lay.values).item())
             rows.exact_ineq.extend(_box_rows(rows, v.domain, at, k))
         if kind == "pos":
             rows.strict.append(_negated_slice(at, k))
@@ -284,11 +281,12 @@ def _matrix_domain(rows: _Rows, at: int, n: int, kind: str) -> None:
         rows.strict.append(neg_min_eig)
 
 
-def feasible_exactly(problem: Problem, instance: Any, point: Mapping[str, Any]) -> bool | None:
+def feasible_exactly(problem: Problem, instance: Measured,
+                     point: Mapping[str, Any]) -> bool | None:
     """Whether a solver's primal point (by name) can be made to meet every affine
     constraint and domain bound exactly on the instance's values: True when an exact
     point was found near it, False when none was, None when sizes are unknown or it
-    is too large to check."""
+    is too large to check.  ``instance`` carries the numeric evaluator (``Measured``)."""
     from dualize.analysis.convexity import analyse_convexity
     from dualize.analysis.exact import MAX_ENTRIES
 
@@ -299,7 +297,7 @@ def feasible_exactly(problem: Problem, instance: Any, point: Mapping[str, Any]) 
     conv = analyse_convexity(problem)
     affine = {"affine-inequality", "affine-equality"}
     nonaffine = {p.label for p in conv.constraints if p.kind not in affine}
-    rows = _Rows(problem, lay, nonaffine, _exact_data(problem, lay, instance))
+    rows = _Rows(problem, lay, nonaffine, _exact_data(problem, lay, instance.data))
     try:
         z = np.concatenate([np.asarray(point[n], dtype=float).reshape(-1) for n in lay.names])
     except (KeyError, ValueError):

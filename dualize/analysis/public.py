@@ -9,7 +9,7 @@ from dualize.model import expr as E
 
 
 def curvature(expr: E.Expr, signs: Mapping[str, Sign] | None = None) -> str:
-    """"constant", "affine", "convex", "concave" or "unknown", by the composition rules
+    """"constant", "affine", "convex", "concave" or "unknown", by the convexity calculus
     and, where they cannot decide, the Hessian test on small fixed-size expressions.
 
     ``signs`` maps variable names to the sign their domain implies ("pos", "nonneg");

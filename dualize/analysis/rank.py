@@ -7,18 +7,18 @@ numpy's SVD tolerance (common practice).
 
 from __future__ import annotations
 
-from collections.abc import Mapping
 from typing import Any
 
 import numpy as np
 
 from dualize.analysis import rules as R
 from dualize.analysis.layout import SizeUnknown, layout_for
+from dualize.analysis.measured import Measured
 from dualize.diagnostics import Diagnostic, make
 from dualize.model.problem import Constraint, Problem
 
 
-def dependent_rows(problem: Problem, instance: Mapping[str, Any]) -> list[Diagnostic]:
+def dependent_rows(problem: Problem, instance: Measured) -> list[Diagnostic]:
     from dualize.analysis.convexity import constraint_class, variable_signs
 
     try:
@@ -39,10 +39,8 @@ def dependent_rows(problem: Problem, instance: Mapping[str, Any]) -> list[Diagno
 
 
 def _rank(con: Constraint, lay: Any) -> tuple[int, int]:
-    from dualize.numeric.evaluate import evaluate_2d
-
     def h(z: np.ndarray) -> np.ndarray:
-        return evaluate_2d(con.function, lay.unpack(z), lay.dims).reshape(-1)
+        return lay.value(con.function, lay.unpack(z)).reshape(-1)
 
     h0 = h(np.zeros(lay.size))
     jac = np.column_stack([h(np.eye(lay.size)[i]) - h0 for i in range(lay.size)])

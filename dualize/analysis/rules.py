@@ -1,6 +1,6 @@
 """The analysis stage's kinds of finding: convexity, strong duality, modelling slips.
 
-Each kind is registered once, with a stable id that names the defect, a default
+Each kind is listed once (in ``KINDS``), with a stable id that names the defect, a default
 severity, a message template and the reason a user should care.  Ids share
 prefixes by family (``nonconvex-``, ``slater-``, ``unused-``) so that
 ``--select nonconvex`` picks a whole family.
@@ -8,11 +8,16 @@ prefixes by family (``nonconvex-``, ``slater-``, ``unused-``) so that
 
 from __future__ import annotations
 
-from dualize.diagnostics import RuleKind, register
+from dualize.diagnostics import RuleKind
+
+_KINDS: list[RuleKind] = []  # filled by this module alone, in order
 
 
-def _kind(id: str, severity: str, template: str, why: str) -> RuleKind:
-    return register(RuleKind(id, severity, template, why, "analysis"))  # type: ignore[arg-type]
+def _kind(id: str, severity: str, template: str, why: str,
+          aliases: tuple[str, ...] = ()) -> RuleKind:
+    kind = RuleKind(id, severity, template, why, "analysis", aliases)  # type: ignore[arg-type]
+    _KINDS.append(kind)
+    return kind
 
 
 NONCONVEX_OBJECTIVE = _kind(
@@ -41,11 +46,13 @@ NONAFFINE_MATRIX_INEQUALITY = _kind(
     "Semidefinite constraints are convex when the matrix is affine in the variables (a "
     "linear matrix inequality); otherwise the analysis cannot vouch for convexity.",
 )
-CURVATURE_UNKNOWN = _kind(
-    "curvature-unknown", "info",
-    "the curvature of {where} could not be decided: {detail}",
-    "The composition rules and the Hessian test both failed to decide; the tool says so "
-    "rather than guess, and the strong-duality verdict stays unknown.",
+CONVEXITY_UNDECIDED = _kind(
+    "convexity-undecided", "info",
+    "the convexity of {where} could not be decided: {detail}",
+    "Neither the convexity calculus (sums, scalings, maxima and compositions that keep "
+    "convexity) nor the Hessian test could decide; the tool says so rather than guess, "
+    "and the strong-duality verdict stays unknown.",
+    aliases=("curvature-unknown",),
 )
 INTEGER_VARIABLES = _kind(
     "integer-variables", "warning",
@@ -116,3 +123,5 @@ DEPENDENT_EQUALITIES = _kind(
     "Dependent equality rows leave the equality multipliers non-unique and make the dual "
     "degenerate; drop the redundant rows or expect a family of dual optima.",
 )
+
+KINDS: tuple[RuleKind, ...] = tuple(_KINDS)

@@ -6,21 +6,29 @@ from collections.abc import Mapping
 from typing import Any
 
 from dualize.analysis.convexity import analyse_convexity
+from dualize.analysis.measured import Evaluate, Measured
 from dualize.analysis.report import Analysis
 from dualize.analysis.slater import strong_duality
 from dualize.model.problem import Problem
 
 
-def analyze(problem: Problem, instance: Mapping[str, Any] | None = None) -> Analysis:
-    """Analyse ``problem``; with ``instance`` (name -> numpy array) decide Slater numerically.
+def analyze(problem: Problem, instance: Mapping[str, Any] | Any | None = None,
+            evaluate: Evaluate | None = None) -> Analysis:
+    """Analyse ``problem``; with ``instance`` (name -> numpy array, or an ``Instance``)
+    decide Slater numerically, computing expressions with ``evaluate`` (the numeric
+    stage's evaluator, passed in because the analysis sits below that stage;
+    ``dualize.api.analyze`` passes it).
 
     Without an instance only scalar symbolic work is done, so linting stays cheap.
     """
     from dualize.analysis.checks import diagnostics_for
 
+    if instance is not None and evaluate is None:
+        raise TypeError("analyze: an instance needs the evaluator that computes on it")
+    measured = None if instance is None else Measured(instance, evaluate)  # type: ignore[arg-type]
     conv = analyse_convexity(problem)
-    verdict = strong_duality(problem, conv, instance)
+    verdict = strong_duality(problem, conv, measured)
     classes = tuple((p.label, p.kind) for p in conv.constraints) + tuple(
         (name, "integrality") for name in conv.integral)
     return Analysis(conv.convex, conv.reasons, classes, verdict.status, verdict.reason,
-                    verdict.witness, diagnostics_for(problem, conv, verdict, instance))
+                    verdict.witness, diagnostics_for(problem, conv, verdict, measured))

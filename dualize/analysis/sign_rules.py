@@ -1,6 +1,6 @@
 """Entrywise sign of an expression, from declared facts, domains and the node rules.
 
-The sign is what lets a composition rule fire: a convex function scaled by
+The sign is what lets a rule of the convexity calculus fire: a convex function scaled by
 nonnegative data stays convex, a power above one is increasing on a
 nonnegative argument.  Signs are "pos", "nonneg", "zero", "nonpos", "neg" or
 "unknown"; each rule below is a fact of real arithmetic.

@@ -14,7 +14,7 @@ import sympy
 
 from dualize.analysis.at_zero import Undefined, at_zero
 from dualize.analysis.convexity import Convexity
-from dualize.analysis.dcp import curvature
+from dualize.analysis.convexity_calculus import curvature
 from dualize.analysis.report import Verdict
 from dualize.analysis.sign_rules import sign
 from dualize.model import expr as E
@@ -72,21 +72,21 @@ def slacks_of(problem: Problem) -> tuple[Variable, ...]:
 
 def slack_candidate(problem: Problem, conv: Convexity) -> Verdict | None:
     """Slacks large, every other variable zero, proved from the declared facts, or None."""
-    from dualize.analysis.slater_symbolic import _strict, _zero_allowed, _zero_satisfies
+    from dualize.analysis.slater_symbolic import strict_labels_of, zero_allowed, zero_satisfies
 
     slacks = slacks_of(problem)
     if not slacks:
         return None
     names = {s.name for s in slacks}
     rest = [v for v in problem.variables if v.name not in names]
-    if not all(_zero_allowed(v.domain) for v in rest):
+    if not all(zero_allowed(v.domain) for v in rest):
         return None
     zero = frozenset(v.name for v in rest)
-    strict = _strict(conv)
+    strict = strict_labels_of(conv)
     try:
         at_zero(problem.objective, zero)
         plain = [c for c in problem.constraints if not E.depends_on(c.function, names)]
-        ok = all(_zero_satisfies(c, frozenset(v.name for v in problem.variables), strict)
+        ok = all(zero_satisfies(c, frozenset(v.name for v in problem.variables), strict)
                  for c in plain)
     except Undefined:
         return None

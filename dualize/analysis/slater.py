@@ -12,10 +12,8 @@ without one the verdict is "unknown".
 
 from __future__ import annotations
 
-from collections.abc import Mapping
-from typing import Any
-
 from dualize.analysis.convexity import Convexity, variable_signs
+from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
 from dualize.model import expr as E
 from dualize.model.functions import ArgumentDomain, lookup
@@ -27,8 +25,9 @@ WEAK_ONLY = ("the problem is not convex: weak duality only (the dual optimum is 
 
 
 def strong_duality(problem: Problem, conv: Convexity,
-                   instance: Mapping[str, Any] | None = None) -> Verdict:
-    """The verdict for ``problem`` given its convexity analysis."""
+                   instance: Measured | None = None) -> Verdict:
+    """The verdict for ``problem`` given its convexity analysis (and, to decide it on
+    numbers, an instance with its evaluator)."""
     if not problem.constraints and conv.convex is not None:
         return Verdict("guaranteed", "no constraint is dualized: the dual function's only "
                        "value is the primal optimal value itself")
@@ -46,7 +45,7 @@ def strong_duality(problem: Problem, conv: Convexity,
     if instance is not None:
         from dualize.analysis.phase_one import numeric_verdict
 
-        return numeric_verdict(problem, conv, instance)
+        return numeric_verdict(problem, frozenset(strict_labels(problem, conv)), instance)
     return symbolic_verdict(problem, conv)
 
 

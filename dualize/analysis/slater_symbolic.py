@@ -24,7 +24,7 @@ MAX_SEARCH_UNKNOWNS = 3
 MATRIX_DOMAINS = frozenset({"psd", "pd", "symmetric"})
 
 
-def _strict(conv: Convexity) -> set[str]:
+def strict_labels_of(conv: Convexity) -> set[str]:
     return {p.label for p in conv.constraints
             if p.kind in ("convex-inequality", "linear-matrix-inequality")}
 
@@ -49,7 +49,7 @@ def scalar_search(problem: Problem, conv: Convexity) -> Verdict | None:
     except (NotScalarizable, ValueError, TypeError, ZeroDivisionError):
         return None
     xs = u.flat()
-    strict = _strict(conv)
+    strict = strict_labels_of(conv)
     empty = _proved_empty(rows, strict)
     if empty is not None:
         return empty
@@ -138,13 +138,13 @@ def zero_candidate(problem: Problem, conv: Convexity,
                    signs: Mapping[str, Sign] | None = None) -> Verdict | None:
     """The origin as a Slater point, proved from the declared facts, or None."""
     signs = dict(signs or variable_signs(problem))
-    if not all(_zero_allowed(v.domain) for v in problem.variables):
+    if not all(zero_allowed(v.domain) for v in problem.variables):
         return None
     names = frozenset(v.name for v in problem.variables)
-    strict = _strict(conv)
+    strict = strict_labels_of(conv)
     try:
         at_zero(problem.objective, names)
-        ok = all(_zero_satisfies(c, names, strict) for c in problem.constraints)
+        ok = all(zero_satisfies(c, names, strict) for c in problem.constraints)
     except Undefined:
         return None
     if not ok:
@@ -156,7 +156,7 @@ def zero_candidate(problem: Problem, conv: Convexity,
                    witness)
 
 
-def _zero_allowed(domain: object) -> bool:
+def zero_allowed(domain: object) -> bool:
     kind = domain.kind  # type: ignore[attr-defined]
     if kind in ("free", "nonneg", "symmetric", "integer", "binary"):
         return True
@@ -165,7 +165,7 @@ def _zero_allowed(domain: object) -> bool:
     return False
 
 
-def _zero_satisfies(con: Constraint, names: frozenset[str], strict: set[str]) -> bool:
+def zero_satisfies(con: Constraint, names: frozenset[str], strict: set[str]) -> bool:
     folded = at_zero(con.function, names)
     if con.kind == "eq":
         return isinstance(folded, E.Zero)

@@ -7,13 +7,11 @@ constraints makes every dual bound minus infinity).
 
 from __future__ import annotations
 
-from collections.abc import Mapping
-from typing import Any
-
 from dualize.analysis import rules as R
 from dualize.analysis.convexity import Convexity
-from dualize.analysis.dcp import curvature
+from dualize.analysis.convexity_calculus import curvature
 from dualize.analysis.forms import gram_middle, pull_scalars
+from dualize.analysis.measured import Measured
 from dualize.diagnostics import Diagnostic, make
 from dualize.model import expr as E
 from dualize.model.problem import Constraint, Problem
@@ -22,7 +20,7 @@ _DOMAIN_TEXT = {"nonneg": "R_+", "pos": "R_++", "box": "a box", "psd": "S_+", "p
 
 
 def structural_findings(problem: Problem, conv: Convexity,
-                        instance: Mapping[str, Any] | None) -> list[Diagnostic]:
+                        instance: Measured | None) -> list[Diagnostic]:
     out = _unused(problem) + _split_equalities(problem) + _domains(problem)
     out += _unbounded_directions(problem) + _dual_unbounded(problem, conv)
     if instance is not None:

@@ -11,6 +11,7 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING, Any
 
+from dualize.numeric.solution import status_word
 from dualize.render.caution import REVIEW
 
 if TYPE_CHECKING:
@@ -50,6 +51,13 @@ def table(header: list[str], rows: list[list[str]]) -> list[str]:
     return [line(header), line(["-" * w for w in widths])] + [line(r) for r in rows]
 
 
+def markdown_table(header: list[str], rows: list[list[str]]) -> list[str]:
+    """A Markdown (GitHub) table; pipes inside cells are escaped."""
+    def line(r: list[str]) -> str:
+        return "| " + " | ".join(c.replace("|", "\\|") for c in r) + " |"
+    return [line(header), "|" + "---|" * len(header)] + [line(r) for r in rows]
+
+
 # -- verify ----------------------------------------------------------------------
 
 
@@ -69,30 +77,53 @@ def _verify_instance(c: InstanceCheck) -> dict[str, Any]:
     return {
         "source": c.source, "seed": c.seed,
         "primal_value": number(c.primal_value), "dual_value": number(c.dual_value),
-        "gap": number(c.gap), "primal_status": c.primal_status, "dual_status": c.dual_status,
+        "gap": number(c.gap), "primal_status": status_word(c.primal_status),
+        "dual_status": status_word(c.dual_status),
         "multiplier_error": number(c.multiplier_error), "weak_duality_ok": c.weak_duality_ok,
         "note": c.note,
     }
 
 
+VERIFY_HEADER = ["instance", "primal", "dual", "gap", "statuses", "multiplier error"]
+
+
+def _verify_rows(report: VerifyReport) -> list[list[str]]:
+    return [[_label(c.source, c.seed), cell(c.primal_value), cell(c.dual_value), cell(c.gap),
+             _statuses(c.primal_status, c.dual_status), cell(c.multiplier_error)]
+            for c in report.checks]
+
+
+def _verify_verdict(report: VerifyReport, convex: bool | None, sense: str) -> str:
+    return (f"verdict: {report.verdict} (largest |gap| {cell(report.max_abs_gap)})"
+            + _weak_clause(convex, sense))
+
+
 def verify_text(report: VerifyReport, convex: bool | None, sense: str = "minimize") -> str:
     """A table of the instances, the messages, the caution and a closing verdict line."""
-    header = ["instance", "primal", "dual", "gap", "statuses", "multiplier error"]
-    rows = [[_label(c.source, c.seed), cell(c.primal_value), cell(c.dual_value), cell(c.gap),
-             f"{c.primal_status}/{c.dual_status}", cell(c.multiplier_error)]
-            for c in report.checks]
-    lines = table(header, rows) + [""]
+    lines = table(VERIFY_HEADER, _verify_rows(report)) + [""]
     lines += [f"note: {m}" for m in report.messages]
     lines.append(CAUTION)
-    lines.append(f"verdict: {report.verdict} (largest |gap| {cell(report.max_abs_gap)})"
-                 + _weak_clause(convex, sense))
+    lines.append(_verify_verdict(report, convex, sense))
     return "\n".join(lines)
+
+
+def verify_markdown(report: VerifyReport, convex: bool | None, sense: str = "minimize") -> str:
+    """The verify report for a notebook: the verdict first, then the table and the caution."""
+    blocks = [[f"**{_verify_verdict(report, convex, sense)}**"],
+              markdown_table(VERIFY_HEADER, _verify_rows(report)),
+              [f"- {m}" for m in report.messages], [f"*{CAUTION}*"]]
+    return "\n\n".join("\n".join(b) for b in blocks if b)
 
 
 def _weak_clause(convex: bool | None, sense: str) -> str:
     if convex is True:
         return ""
     return "; " + (WEAK_ONLY if sense == "minimize" else WEAK_ONLY_MAX)
+
+
+def _statuses(*statuses: str) -> str:
+    """``solved/solved``: each solve's status in the program's own words."""
+    return "/".join(map(status_word, statuses))
 
 
 def _label(source: str, seed: int | None) -> str:
@@ -127,34 +158,58 @@ def _check_instance(i: Any) -> dict[str, Any]:
     v = i.values
     return {
         "source": v.source, "seed": v.seed,
-        "primal_value": number(v.primal_value), "primal_status": v.primal_status,
-        "dual_value": number(v.dual_value), "dual_status": v.dual_status,
-        "claim_value": number(v.claim_value), "claim_status": v.claim_status,
+        "primal_value": number(v.primal_value), "primal_status": status_word(v.primal_status),
+        "dual_value": number(v.dual_value), "dual_status": status_word(v.dual_status),
+        "claim_value": number(v.claim_value), "claim_status": status_word(v.claim_status),
         "gap": number(i.gap), "exceeds_primal": i.exceeds, "agrees_with_dual": i.agrees,
         "note": v.note,
     }
 
 
-def check_text(report: ClaimReport) -> str:
-    """Matched variables, a table of the instances, the reasons, the caution, the verdict."""
-    lines = [_matching_line(report)]
-    if report.borrowed:
-        lines.append("data taken from the primal: " + ", ".join(report.borrowed))
-    header = ["instance", "primal p", "derived dual d", "claim c", "p - c", "statuses p/d/c"]
-    rows = [[_label(i.values.source, i.values.seed), cell(i.values.primal_value),
+CHECK_HEADER = ["instance", "primal p", "derived dual d", "claim c", "p - c", "statuses p/d/c"]
+
+
+def _check_rows(report: ClaimReport) -> list[list[str]]:
+    return [[_label(i.values.source, i.values.seed), cell(i.values.primal_value),
              cell(i.values.dual_value), cell(i.values.claim_value), cell(_signed(i, report)),
-             f"{i.values.primal_status}/{i.values.dual_status}/{i.values.claim_status}"]
+             _statuses(i.values.primal_status, i.values.dual_status, i.values.claim_status)]
             for i in report.instances]
-    lines += [""] + table(header, rows) + [""]
-    if not report.symbolic.proved:
-        lines += [f"no symbolic proof: {r}" for r in report.symbolic.reasons]
+
+
+def _check_notes(report: ClaimReport) -> list[str]:
+    lines = [] if report.symbolic.proved else [
+        f"no symbolic proof: {r}" for r in report.symbolic.reasons]
     lines += [f"note: {m}" for m in report.messages]
     if report.counterexample_path:
         lines.append(f"counterexample written to {report.counterexample_path}")
-    lines.append(CAUTION)
-    lines.append(f"verdict: {report.verdict} (by {report.method} means)"
-                 if report.method != "none" else f"verdict: {report.verdict}")
+    return lines
+
+
+def _check_verdict(report: ClaimReport) -> str:
+    return (f"verdict: {report.verdict} (by {report.method} means)"
+            if report.method != "none" else f"verdict: {report.verdict}")
+
+
+def _check_head(report: ClaimReport) -> list[str]:
+    lines = [_matching_line(report)]
+    if report.borrowed:
+        lines.append("data taken from the primal: " + ", ".join(report.borrowed))
+    return lines
+
+
+def check_text(report: ClaimReport) -> str:
+    """Matched variables, a table of the instances, the reasons, the caution, the verdict."""
+    lines = _check_head(report) + [""] + table(CHECK_HEADER, _check_rows(report)) + [""]
+    lines += _check_notes(report) + [CAUTION, _check_verdict(report)]
     return "\n".join(lines)
+
+
+def check_markdown(report: ClaimReport) -> str:
+    """The check report for a notebook: the verdict first, then what led to it."""
+    blocks = [[f"**{_check_verdict(report)}**"], [f"- {x}" for x in _check_head(report)],
+              markdown_table(CHECK_HEADER, _check_rows(report)),
+              [f"- {x}" for x in _check_notes(report)], [f"*{CAUTION}*"]]
+    return "\n\n".join("\n".join(b) for b in blocks if b)
 
 
 def _signed(i: Any, report: ClaimReport) -> float:

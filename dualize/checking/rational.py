@@ -36,16 +36,13 @@ def _grouped(a: Expr, c: Expr) -> dict[tuple[str, ...], object] | None:
     import sympy
 
     from dualize.duality import build as b
-    from dualize.duality.normal import _KEEP_FORMS, expand, node_key
+    from dualize.duality.keys import node_key
+    from dualize.duality.normal import expand
     from dualize.duality.scalar import Scope, to_sympy
 
     scope = Scope()
     totals: dict[tuple[str, ...], sympy.Expr] = defaultdict(lambda: sympy.Integer(0))
-    _KEEP_FORMS.append(False)
-    try:
-        terms = expand(b.sub(a, c))
-    finally:
-        _KEEP_FORMS.pop()
+    terms = expand(b.sub(a, c), keep_forms=False)
     for term in terms:
         key = tuple(node_key(f) for f in term.chain)
         value = term.coef

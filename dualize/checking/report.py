@@ -26,6 +26,7 @@ from dualize.checking.verdict import (
 from dualize.duality.result import Derivation, DualProblem
 from dualize.model.problem import Problem
 from dualize.numeric.instance import Instance
+from dualize.numeric.solution import status_word
 
 Progress = Callable[[list[Any]], Iterable[Any]]
 
@@ -108,7 +109,7 @@ def instance_list(derivation: Derivation, given: Sequence[Instance], seeds: Sequ
     """The given instances, then one random instance per seed, made as ``verify`` makes
     them, so that a claim is tested where the primal and the true dual are finite."""
     from dualize.numeric.dual_data import make_dual_feasible
-    from dualize.numeric.instance import random_instance
+    from dualize.numeric.random_data import random_instance
 
     out: list[tuple[Instance, int | None]] = [(inst, None) for inst in given]
     for seed in seeds:
@@ -179,7 +180,7 @@ def _invalid_sentence(pairs: Pairs) -> str:
 
 def _broken_sentence(pairs: Pairs) -> str:
     v = next(v for r, v in pairs if r.broken)
-    return f"on {_where(v)} the claim is {v.claim_status}, while " + _finite_side(v)
+    return f"on {_where(v)} the claim is {status_word(v.claim_status)}, while " + _finite_side(v)
 
 
 def _loose_sentence(pairs: Pairs) -> str:
@@ -201,15 +202,17 @@ def _unattained_sentence(ray: Ray) -> str:
 def _undecided_sentence(values: list[Values]) -> str:
     if not values:
         return "no instance was checked"
-    statuses = sorted({f"{v.primal_status}/{v.dual_status}/{v.claim_status}" for v in values})
+    statuses = sorted({"/".join(map(status_word, (v.primal_status, v.dual_status,
+                                                   v.claim_status))) for v in values})
     return ("no instance decided the question (primal/dual/claim statuses: "
             + ", ".join(statuses) + ")")
 
 
 def _finite_side(v: Values) -> str:
     if usable(v.dual_value, v.dual_status):
-        return f"the derived dual has the value {v.dual_value:.10g} ({v.dual_status})"
-    return f"the primal has the value {v.primal_value:.10g} ({v.primal_status})"
+        return (f"the derived dual has the value {v.dual_value:.10g} "
+                f"({status_word(v.dual_status)})")
+    return f"the primal has the value {v.primal_value:.10g} ({status_word(v.primal_status)})"
 
 
 def _where(v: Values) -> str:

@@ -8,19 +8,16 @@ input (an unreadable problem, claim, instance or option).
 from __future__ import annotations
 
 import sys
-from typing import Any
 
 import click
 
 from dualize.commands.common import (
-    dims_option,
     emit,
-    load_problem,
+    emit_json,
     progress,
+    reports_user_errors,
     time_limit_option,
-    user_errors,
 )
-from dualize.errors import DualizeError
 
 DEFAULT_RANDOM = 3
 
@@ -45,6 +42,7 @@ DEFAULT_RANDOM = 3
 @click.option("--format", "fmt", type=click.Choice(["text", "json"]), default="text",
               show_default=True, help="How to print the report.")
 @time_limit_option
+@reports_user_errors
 def check_command(file: str, claim_path: str, name_map: str, data: str | None, count: int,
                   seed: int, dims: str, save_path: str | None, fmt: str,
                   time_limit: float) -> None:
@@ -54,61 +52,12 @@ def check_command(file: str, claim_path: str, name_map: str, data: str | None, c
     symbolically and by solving it on instances.  Exit status: 0 for
     "equivalent", 1 for any other verdict, 2 for bad input.
     """
-    with user_errors():
-        report = _run(file, claim_path, data, count, seed, dims, save_path, name_map,
-                      time_limit)
-        emit(_render(report, fmt))
-    sys.exit(0 if report.ok else 1)
+    from dualize import api
 
-
-def _run(file: str, claim_path: str, data: str | None, count: int, seed: int, dims: str,
-         save_path: str | None, name_map: str = "", time_limit: float | None = None) -> Any:
-    from dualize.checking import check_claim
-    from dualize.checking.counterexample import default_path
-    from dualize.deadline import Deadline
-    from dualize.duality.engine import derive
-    from dualize.numeric.instance import read_instance
-
-    problem = load_problem(file)
-    sizes = dims_option(dims)
-    text = _claim_text(claim_path, problem, file, name_map)
-    instances = [read_instance(data, problem)] if data is not None else []
-    if not instances and count == 0:
-        raise DualizeError("nothing to check on: give --data or --random N with N >= 1", 2)
-    derivation = derive(problem, Deadline(time_limit))
-    return check_claim(derivation, text, instances, [seed + k for k in range(count)], sizes,
-                       claim_path, save_path or default_path(claim_path.partition("#")[0]),
-                       progress=lambda items: progress(items, "checking"))
-
-
-def _claim_text(claim_path: str, problem: Any, file: str, name_map: str) -> str:
-    """A claim file's text, or the claim of a LaTeX draft translated into the language."""
-    from dualize.paper.draft import describe, is_paper_path, translation_for
-    from dualize.paper.locate import parse_map
-
-    if not is_paper_path(claim_path):
-        return _read_claim(claim_path)
-    translation = translation_for(claim_path, problem, parse_map(name_map), file)
-    click.echo(describe(translation), err=True)
-    return translation.text or ""
-
-
-def _read_claim(path: str) -> str:
-    from pathlib import Path
-
-    try:
-        return Path(path).read_bytes().decode("utf-8").removeprefix("\ufeff")
-    except OSError as err:
-        raise DualizeError(f"cannot read {path}: {err.strerror or err}", 2) from None
-    except UnicodeDecodeError:
-        raise DualizeError(f"{path}: the claim is not UTF-8 text", 2) from None
-
-
-def _render(report: Any, fmt: str) -> str:
-    import json
-
-    from dualize.checking.check_report import check_dict, check_text
-
-    if fmt == "json":
-        return json.dumps(check_dict(report), indent=2)
-    return check_text(report)
+    result = api.check(file, claim_path, name_map=name_map, data=data, random=count,
+                       seed=seed, dims=dims, save_counterexample=save_path, progress=progress,
+                       time_limit=time_limit)
+    if result.note:
+        click.echo(result.note, err=True)
+    emit_json(result.json()) if fmt == "json" else emit(result.text())
+    sys.exit(0 if result.ok else 1)

@@ -1,4 +1,5 @@
-"""What ``verify`` and ``check`` share: loading, instances, user errors.
+"""What the commands share: the one place where a user error becomes an exit code,
+progress bars, and printing.
 
 Kept free of heavy imports: the command modules import it at start-up.
 """
@@ -8,21 +9,19 @@ from __future__ import annotations
 import sys
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
-from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from functools import wraps
+from typing import Any, NoReturn, TypeVar
 
 import click
 
 from dualize.errors import DualizeError
 
-if TYPE_CHECKING:
-    from dualize.model.problem import Problem
-
 EXIT_BAD_INPUT = 2
 DEFAULT_TIME_LIMIT = 60.0
+F = TypeVar("F", bound=Callable[..., Any])
 
 
-def time_limit_option(command: Callable[..., Any]) -> Callable[..., Any]:
+def time_limit_option(command: F) -> F:
     """``--time-limit SECONDS``: one budget for every step of the run (docs/index.md)."""
     return click.option(
         "--time-limit", "time_limit", type=click.FloatRange(min=0, min_open=True),
@@ -32,63 +31,53 @@ def time_limit_option(command: Callable[..., Any]) -> Callable[..., Any]:
 
 
 def deadline_of(seconds: float) -> Any:
+    """The run's time budget, started when the command runs (``--time-limit``)."""
     from dualize.deadline import Deadline
 
     return Deadline(seconds)
 
 
+def version() -> str:
+    """The installed version of dualize (package metadata, read only when asked)."""
+    from importlib.metadata import PackageNotFoundError
+    from importlib.metadata import version as installed
+
+    try:
+        return installed("dualize")
+    except PackageNotFoundError:
+        return "0.1.0"
+
+
+def report_error(err: DualizeError) -> NoReturn:
+    """A user error as the program shows it: the located diagnostics it carries (if any),
+    then one line ``dualize: message`` on stderr, and its exit code."""
+    diagnostics = getattr(err, "diagnostics", ())
+    if diagnostics:
+        from dualize.render.diagnostics import format_text
+
+        source = getattr(err, "source", "")
+        click.echo(format_text(diagnostics, {d.path: source for d in diagnostics}), err=True)
+    click.echo(f"dualize: {err.message}", err=True)
+    sys.exit(err.exit_code)
+
+
 @contextmanager
 def user_errors() -> Iterator[None]:
-    """A ``DualizeError`` becomes one line on stderr and its exit code, group or not."""
+    """A ``DualizeError`` inside becomes ``report_error``'s output and exit code."""
     try:
         yield
     except DualizeError as err:
-        diagnostics = getattr(err, "diagnostics", ())
-        if diagnostics:
-            _print_diagnostics(diagnostics, {d.path: getattr(err, "source", "")
-                                             for d in diagnostics})
-        click.echo(f"dualize: {err.message}", err=True)
-        sys.exit(err.exit_code)
+        report_error(err)
 
 
-def _print_diagnostics(diagnostics: Any, sources: dict[str, str]) -> None:
-    from dualize.render.diagnostics import format_text
-
-    click.echo(format_text(diagnostics, sources), err=True)
-
-
-def load_problem(path: str, outcome: str = "nothing was checked") -> Problem:
-    """The problem in ``path``; its errors are printed and end the command (exit 2)."""
-    from dualize.model import load_file
-
-    loaded = load_file(path)
-    if loaded.problem is None:
-        errors = [d for d in loaded.diagnostics if d.severity == "error"]
-        _print_diagnostics(errors, {path: _text(path)})
-        raise DualizeError(f"{path}: the problem has errors; {outcome}", EXIT_BAD_INPUT)
-    return loaded.problem
-
-
-def _text(path: str) -> str:
-    try:
-        return Path(path).read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError):
-        return ""
-
-
-def sibling_instance(path: str) -> str | None:
-    """The instance beside a problem file: same name with .json, else .toml."""
-    for suffix in (".json", ".toml"):
-        candidate = Path(path).with_suffix(suffix)
-        if candidate.is_file():
-            return str(candidate)
-    return None
-
-
-def dims_option(text: str) -> dict[str, int] | None:
-    from dualize.numeric.instance import parse_dims
-
-    return parse_dims(text) or None
+def reports_user_errors(command: F) -> F:
+    """A command whose user errors end in ``report_error``, inside the program's group
+    or run on its own (each command keeps its exit codes either way)."""
+    @wraps(command)
+    def run(*args: Any, **kwargs: Any) -> Any:
+        with user_errors():
+            return command(*args, **kwargs)
+    return run  # type: ignore[return-value]
 
 
 def progress(items: list[Any], label: str) -> Iterator[Any]:
@@ -100,9 +89,12 @@ def progress(items: list[Any], label: str) -> Iterator[Any]:
         yield from bar
 
 
-def each(items: list[Any], label: str, work: Callable[[Any], Any]) -> list[Any]:
-    return [work(item) for item in progress(items, label)]
-
-
 def emit(text: str) -> None:
     click.echo(text)
+
+
+def emit_json(data: object, ascii_only: bool = True) -> None:
+    """JSON, indented by two; ``ascii_only`` escapes characters beyond ASCII."""
+    import json
+
+    click.echo(json.dumps(data, indent=2, ensure_ascii=ascii_only))

@@ -7,7 +7,6 @@ bad input (an unreadable problem, instance or option).
 
 from __future__ import annotations
 
-import os
 import sys
 from typing import Any
 
@@ -20,32 +19,47 @@ STANDALONE = click.option("--standalone", is_flag=True,
                           help="LaTeX: a complete document for pdflatex.")
 
 
-def _problem(file: str, outcome: str) -> Any:
-    from dualize.commands.common import load_problem
+def problem_for(file: str, outcome: str) -> Any:
+    from dualize.api import load_problem
 
-    if not os.path.isfile(file):
-        raise DualizeError(f"{file}: no such problem file", exit_code=2)
     return load_problem(file, outcome)
 
 
-def _instance(file: str, data: str | None, problem: Any) -> Any:
-    from dualize.commands.common import sibling_instance
-    from dualize.numeric.instance import read_instance
+def instance_for(file: str, data: str | None, problem: Any) -> Any:
+    from dualize.api import instance_of, sibling_instance
 
     path = data if data is not None else sibling_instance(file)
     if path is None:
         raise DualizeError(f"{file}: no instance: give one with --data (JSON or TOML)",
                            exit_code=2)
-    return read_instance(path, problem)
+    return instance_of(problem, path)
 
 
-def _emit(text: str, output: str | None) -> None:
+def emit_to(text: str, output: str | None) -> None:
     from dualize.api import write_atomically
 
     if output is None:
         click.echo(text, nl=not text.endswith("\n"))
     else:
         write_atomically(output, text)
+
+
+class progress_bar:  # noqa: N801 - used as a context manager, read like a function
+    """A progress bar on stderr for long runs, only when stderr is a terminal."""
+
+    def __init__(self, count: int, label: str = "re-solving") -> None:
+        self.count, self.label, self.bar = count, label, None
+
+    def __enter__(self) -> Any:
+        if self.count < 2 or not sys.stderr.isatty():
+            return None
+        self.bar = click.progressbar(length=self.count, label=self.label,
+                                     file=sys.stderr).__enter__()
+        return lambda: self.bar.update(1)  # type: ignore[union-attr]
+
+    def __exit__(self, *exc: object) -> None:
+        if self.bar is not None:
+            self.bar.__exit__(*exc)
 
 
 @click.command("prices")
@@ -58,8 +72,10 @@ def _emit(text: str, output: str | None) -> None:
               help="Write to this file (atomically) instead of standard output.")
 @click.option("--limit", type=click.IntRange(min=0), default=200, show_default=True,
               help="Check the rates of at most this many constraint entries.")
-@click.option("--time-limit", type=click.FloatRange(min=1), default=300, show_default=True,
-              help="Seconds for the re-solves; entries left are reported unchecked.")
+@click.option("--time-limit", type=click.FloatRange(min=0, min_open=True), default=300,
+              show_default=True, metavar="SECONDS",
+              help="Stop re-solving after this many seconds; entries left are reported "
+              "unchecked.")
 @STANDALONE
 @click.option("--svg", "svg_path", type=click.Path(), default=None,
               help="Also draw the rates as bars, SVG (deterministic).")
@@ -79,17 +95,25 @@ def prices_command(file: str, data: str | None, fmt: str, output: str | None, li
     2 for bad input.
     """
     from dualize.api import prices
-    from dualize.commands.common import user_errors
+    from dualize.commands.common import deadline_of, user_errors
     from dualize.multipliers.printing import render_sensitivity
 
     with user_errors():
-        problem = _problem(file, "nothing was priced")
-        report = prices(problem, _instance(file, data, problem), limit=limit,
-                        seconds=time_limit)
-        _emit(render_sensitivity(report, fmt, standalone), output)
+        problem = problem_for(file, "nothing was priced")
+        instance = instance_for(file, data, problem)
+        with progress_bar(_entry_count(problem, instance)) as tick:
+            report = prices(problem, instance, limit=limit, deadline=deadline_of(time_limit),
+                            tick=tick)
+        emit_to(render_sensitivity(report, fmt, standalone), output)
         if report.rows:
             _bars(report, svg_path, png_path)
     sys.exit(1 if report.failed_checks() or not report.rows else 0)
+
+
+def _entry_count(problem: Any, instance: Any) -> int:
+    from dualize.api import price_count
+
+    return price_count(problem, instance)
 
 
 def _bars(report: Any, svg_path: str | None, png_path: str | None) -> None:
@@ -131,8 +155,8 @@ def reform_command(file: str, weight: str | None, bound: str | None, name: str |
     with user_errors():
         if weight is not None and bound is not None:
             raise DualizeError("give --weight or --bound, not both", exit_code=2)
-        pair = other_form(_problem(file, "nothing was written"), weight=weight, bound=bound,
+        pair = other_form(problem_for(file, "nothing was written"), weight=weight, bound=bound,
                           name=name)
         if output is not None:
             write_atomically(output, pair.other_text)
-        _emit(render_pair(pair, fmt, standalone), None)
+        emit_to(render_pair(pair, fmt, standalone), None)

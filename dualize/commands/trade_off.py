@@ -12,7 +12,14 @@ from typing import Any
 
 import click
 
-from dualize.commands.multipliers import FORMATS, STANDALONE, _emit, _instance, _problem
+from dualize.commands.multipliers import (
+    FORMATS,
+    STANDALONE,
+    emit_to,
+    instance_for,
+    problem_for,
+    progress_bar,
+)
 from dualize.errors import DualizeError
 
 
@@ -35,6 +42,10 @@ from dualize.errors import DualizeError
 @click.option("--format", "fmt", type=FORMATS, default="text", show_default=True,
               help="The output format of the table.")
 @STANDALONE
+@click.option("--time-limit", type=click.FloatRange(min=0, min_open=True), default=600,
+              show_default=True, metavar="SECONDS",
+              help="Stop matching after this many seconds; values left are listed as not "
+              "computed.")
 @click.option("-o", "--output", type=click.Path(), default=None,
               help="Write the table to this file (atomically) instead of standard output.")
 @click.option("--csv", "csv_path", type=click.Path(), default=None,
@@ -46,7 +57,8 @@ from dualize.errors import DualizeError
 def trade_off_command(file: str, data: str | None, weight: str | None, bound: str | None,
                       at_weight: float | None, at_bound: float | None,
                       sweep_weights: str | None, sweep_bounds: str | None, fmt: str,
-                      standalone: bool, output: str | None, csv_path: str | None,
+                      standalone: bool, time_limit: float, output: str | None,
+                      csv_path: str | None,
                       svg_path: str | None, png_path: str | None) -> None:
     """Match the weight w of FILE's penalized form with the bound t of its constrained form.
 
@@ -56,18 +68,19 @@ def trade_off_command(file: str, data: str | None, weight: str | None, bound: st
     monotone.  A progress bar shows on standard error when it is a terminal.
     """
     from dualize.api import other_form, trade_off
-    from dualize.commands.common import user_errors
+    from dualize.commands.common import deadline_of, user_errors
     from dualize.multipliers.path_print import render_curve
 
     with user_errors():
-        problem = _problem(file, "nothing was matched")
-        instance = _instance(file, data, problem)
+        problem = problem_for(file, "nothing was matched")
+        instance = instance_for(file, data, problem)
         pair = other_form(problem, weight=weight, bound=bound)
         given, values = _values(pair, instance, at_weight, at_bound, sweep_weights,
                                 sweep_bounds)
-        with _bar(len(values)) as tick:
-            curve = trade_off(pair, instance, **{given: values}, tick=tick)
-        _emit(render_curve(curve, fmt, standalone), output)
+        with progress_bar(len(values), "matching") as tick:
+            curve = trade_off(pair, instance, **{given: values}, tick=tick,
+                              deadline=deadline_of(time_limit))
+        emit_to(render_curve(curve, fmt, standalone), output)
         _pictures(curve, csv_path, svg_path, png_path)
     sys.exit(1 if curve.failed() or curve.problems else 0)
 
@@ -106,24 +119,6 @@ def _from_instance(pair: Any, instance: Any) -> tuple[str, list[float]]:
         pass
     raise DualizeError("the instance has no value for the weight or the bound: give "
                        "--at-weight, --at-bound or a sweep", exit_code=2)
-
-
-class _bar:
-    """A progress bar on stderr for sweeps, only when stderr is a terminal."""
-
-    def __init__(self, count: int) -> None:
-        self.count, self.bar = count, None
-
-    def __enter__(self) -> Any:
-        if self.count < 2 or not sys.stderr.isatty():
-            return None
-        self.bar = click.progressbar(length=self.count, label="matching",
-                                     file=sys.stderr).__enter__()
-        return lambda: self.bar.update(1)  # type: ignore[union-attr]
-
-    def __exit__(self, *exc: object) -> None:
-        if self.bar is not None:
-            self.bar.__exit__(*exc)
 
 
 def _pictures(curve: Any, csv_path: str | None, svg_path: str | None,

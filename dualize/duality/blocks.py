@@ -74,27 +74,38 @@ def affine_block(x: Symbol, domain: Domain, g: Expr | None, r: Expr | None) -> O
         return _affine_condition(x, g, r, ">=", f"its coefficient is nonnegative (${x.name}$ "
                                  "ranges over the nonnegative orthant)")
     if kind == "box":
-        lo, hi = domain.lo, domain.hi
-        assert lo is not None and hi is not None
-        term = b.minimum(b.scale(lo, g), b.scale(hi, g))
-        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        text = ("Over the box from $#lo$ to $#hi$ the infimum of the linear term $#term$ is "
-                "attained at a corner, entry by entry: the block contributes $#value$.")
-        said = _said(lo=lo, hi=hi, term=b.inner(g, x), value=tidy(value))
-        return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
-                       "where its coefficient is positive and at its upper bound where it is "
-                       "negative"), steps=[Step("minimize-affine-box", text, block=x.name,
-                                                formulas=said)])
+        return _affine_box(x, g, r, domain)
     if kind == "binary":
-        term = b.minimum(g, b.zeros(g.shape))
-        value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
-        text = ("Over binary values the infimum of the linear term $#term$ is attained entry by "
-                "entry at 0 or 1: the block contributes $#value$.")
-        said = _said(term=b.inner(g, x), value=tidy(value))
-        return Outcome(value, steps=[Step("minimize-affine-binary", text, block=x.name,
-                                          formulas=said)],
-                       recovery=Recovery(x.name, None, "x_i = 1 where its coefficient is negative"))
+        return _affine_binary(x, g, r)
     return None
+
+
+def _affine_box(x: Symbol, g: Expr, r: Expr, domain: Domain) -> Outcome:
+    """Over lo <= x <= hi each entry sits at the bound its coefficient's sign picks."""
+    lo, hi = domain.lo, domain.hi
+    assert lo is not None and hi is not None
+    term = b.minimum(b.scale(lo, g), b.scale(hi, g))
+    value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+    text = ("Over the box from $#lo$ to $#hi$ the infimum of the linear term $#term$ is "
+            "attained at a corner, entry by entry: the block contributes $#value$.")
+    said = _said(lo=lo, hi=hi, term=b.inner(g, x), value=tidy(value))
+    return Outcome(value, recovery=Recovery(x.name, None, "each entry sits at its lower bound "
+                   "where its coefficient is positive and at its upper bound where it is "
+                   "negative"), steps=[Step("minimize-affine-box", text, block=x.name,
+                                            formulas=said)])
+
+
+def _affine_binary(x: Symbol, g: Expr, r: Expr) -> Outcome:
+    """Over {0,1}^n each entry is 1 exactly where its coefficient is negative."""
+    term = b.minimum(g, b.zeros(g.shape))
+    value = b.add(r, b.sum_all(term) if not g.shape.is_scalar else term)
+    text = ("Over binary values the infimum of the linear term $#term$ is attained entry by "
+            "entry at 0 or 1: the block contributes $#value$.")
+    said = _said(term=b.inner(g, x), value=tidy(value))
+    return Outcome(value, steps=[Step("minimize-affine-binary", text, block=x.name,
+                                      formulas=said)],
+                   recovery=Recovery(x.name, None, f"${x.name}$ has entry 1 where its "
+                                     "coefficient is negative and 0 elsewhere"))
 
 
 def _said(**formulas: object) -> tuple[tuple[str, object], ...]:
@@ -104,7 +115,7 @@ def _said(**formulas: object) -> tuple[tuple[str, object], ...]:
 
 def _affine_condition(x: Symbol, g: Expr, r: Expr, rel: str, why: str) -> Outcome:
     text = (f"The Lagrangian is affine in ${x.name}$; it is bounded below only where "
-            f"{why}, and then its infimum is the constant part, $#value$.")
+            f"{why}, and then the block contributes its constant part, $#value$.")
     c = zero_constraint(g, rel, f"the Lagrangian is affine in {x.name}: {why}")
     shown = (Equation(_grad_head(x), "=", tidy(g)),
              Equation(tidy(g), rel, b.zeros(g.shape)))  # type: ignore[arg-type]
@@ -275,7 +286,28 @@ def _semidefinite(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Out
     if psd_known and pseudo.data_only(H):
         value, c, var, step, rec = pseudo.range_witness(x, H, g, r)
         return Outcome(value, [c], rec, [step], [var], gradient=b.add(b.mul(H, x), g))
+    scaled = pseudo.scaled_data(H)
+    if scaled is not None:
+        return _scaled_data(x, scaled[0], scaled[1], g, r)
     return _schur(x, H, g, r)
+
+
+def _scaled_data(x: Symbol, h: Expr, M: Expr, g: Expr, r: Expr) -> Outcome:
+    """H = h M with h >= 0 a multiplier expression and M semidefinite data
+    (``pseudo.scaled_witness``): no matrix inequality."""
+    sign = [] if _known_nonneg(h) else [zero_constraint(b.neg(h), "<=",
+                                                         "the quadratic must be convex")]
+    if "pd" in getattr(M, "facts", ()):
+        value, step, rec = pseudo.scaled_definite(x, h, M, g, r)
+        return Outcome(value, sign, rec, [step])
+    value, cons, var, step, rec = pseudo.scaled_witness(x, h, M, g, r)
+    return Outcome(value, [cons, *sign], rec, [step], [var])
+
+
+def _known_nonneg(h: Expr) -> bool:
+    from dualize.duality.scalar import Scope, to_sympy
+
+    return bool(to_sympy(h, Scope()).is_nonnegative)
 
 
 def _factored(x: Symbol, H: Expr, g: Expr | None, r: Expr, kind: str) -> Outcome | None:

@@ -69,17 +69,13 @@ def normalized(lhs: Expr, relation: str, rhs: Expr) -> tuple[str, Expr]:
 def same_constraint(a: tuple[Expr, str, Expr], c: tuple[Expr, str, Expr]) -> bool:
     """True when the two constraints are the same up to a constant factor
     (positive for inequalities, nonzero for equalities) and the side terms sit on."""
-    from dualize.duality.normal import _KEEP_FORMS, expand, node_key
+    from dualize.duality.normal import expand, node_key
 
     kind_a, ea = normalized(*a)
     kind_c, ec = normalized(*c)
     if kind_a != kind_c or ea.shape != ec.shape:
         return False
-    _KEEP_FORMS.append(False)
-    try:
-        ta, tc = expand(ea), expand(ec)
-    finally:
-        _KEEP_FORMS.pop()
+    ta, tc = expand(ea, keep_forms=False), expand(ec, keep_forms=False)
     key = lambda t: "|".join(map(node_key, t.scalars + t.chain))  # noqa: E731
     if sorted(map(key, ta)) != sorted(map(key, tc)) or not ta:
         return False

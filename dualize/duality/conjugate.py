@@ -63,6 +63,8 @@ def conjugate(
         raise NoClosedForm(f"the domain of {t} must be an interval, not {domain}")
     params = _parameters(phi, t, domain)
     try:
+        if phi.has(sympy.Piecewise):
+            phi = sympy.piecewise_fold(phi)
         if isinstance(phi, sympy.Piecewise):
             from dualize.duality.conjugate_pieces import normalized
 

@@ -15,6 +15,7 @@ from typing import Literal
 import sympy
 
 from dualize.duality import build as b
+from dualize.duality import derivation_cache as cache
 from dualize.duality.normal import Term, expand
 from dualize.duality.scalar import Scope, known_sign, to_sympy
 from dualize.model.expr import Diag, Expr, Identity, Inverse, Symbol
@@ -36,7 +37,23 @@ def definiteness(H: Expr) -> Definiteness:
     return result
 
 
+_ANSWERS: tuple[Definiteness, ...] = ("pd", "psd", "nd", "nsd", "zero", "unknown")
+
+
 def _scalar(value: sympy.Expr) -> Definiteness:
+    """The sign of a scalar coefficient; sympy's simplify is costly, so the answer is
+    kept in the derivation cache (keyed by the exact expression)."""
+    return cache.memo(cache.key_of("scalar-sign", value),  # type: ignore[no-any-return]
+                      lambda: _scalar_sign(value), str, _answer)
+
+
+def _answer(payload: object) -> Definiteness:
+    if payload not in _ANSWERS:
+        raise ValueError(f"not a definiteness: {payload!r}")
+    return payload  # type: ignore[return-value]
+
+
+def _scalar_sign(value: sympy.Expr) -> Definiteness:
     value = sympy.simplify(value)
     if value == 0:
         return "zero"

@@ -36,7 +36,7 @@ from dualize import disk_cache
 
 FORMAT = 1
 _SOURCES = ("conjugate.py", "conjugate_check.py", "separable.py", "derivation_cache.py",
-            "elementwise.py", "simplify.py", "scalar.py")
+            "elementwise.py", "simplify.py", "scalar.py", "definite.py")
 
 
 class Unstorable(Exception):  # noqa: N818 - a plain outcome: this value is not cached

@@ -7,7 +7,7 @@
    multiplier z, which leaves an equivalent problem whose Lagrangian is affine
    in the original variables (S. Boyd and L. Vandenberghe, Convex
    Optimization, 2004, section 5.7).
-3. Minimize block by block (``blocks``, ``atoms``, ``separable``).
+3. Minimize block by block (``blocks``, ``building_blocks``, ``separable``).
 4. Simplify the dual (``simplify``) and state KKT and recovery (``kkt``).
 """
 
@@ -17,9 +17,17 @@ from dataclasses import dataclass, field
 
 from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
-from dualize.duality.atoms import Atom, atom_expression, infimum, recognise, with_argument
 from dualize.duality.blocks import Outcome, matrix_block, quadratic_block
+from dualize.duality.building_blocks import (
+    BuildingBlock,
+    block_expression,
+    infimum,
+    orthant_norm,
+    recognise,
+    with_argument,
+)
 from dualize.duality.definite import definiteness
+from dualize.duality.kernel_form import kernel_notes
 from dualize.duality.kkt import conditions
 from dualize.duality.lagrangian import lagrangian, multipliers
 from dualize.duality.linear import Quadratic, hessian, quadratic, trace_linear
@@ -52,7 +60,7 @@ class Work:
     coupled: list[Term] = field(default_factory=list)
     extra: list[DualVariable] = field(default_factory=list)
     steps: list[Step] = field(default_factory=list)
-    aux_blocks: list[tuple[Symbol, Atom, Symbol]] = field(default_factory=list)
+    aux_blocks: list[tuple[Symbol, BuildingBlock, Symbol]] = field(default_factory=list)
     aux_args: dict[str, Expr] = field(default_factory=dict)
     deadline: Deadline = field(default_factory=Deadline.unlimited)
     cut: list[str] = field(default_factory=list)
@@ -85,7 +93,7 @@ def derive(problem: Problem, deadline: Deadline | None = None) -> Derivation:
         dual = _as_minimization(dual)
     work.steps.append(Step("dual-problem", _dual_sentence(dual, problem.sense)))
     kkt = conditions(problem, outcomes)
-    notes = _notes(work, dual)
+    notes = _notes(work, dual) + tuple(kernel_notes(dual, recovery))
     return Derivation(problem, shown, tuple(mults) + tuple(work.extra), tuple(work.steps), dual,
                       kkt, tuple(recovery), notes)
 
@@ -108,9 +116,7 @@ def _names(problem: Problem) -> set[str]:
 def _lagrangian_step(problem: Problem, L: Expr, mults) -> Step:  # type: ignore[no-untyped-def]
     args = tuple(v.name for v in problem.variables) + tuple(m.name for m in mults)
     if not problem.constraints:
-        text = ("The problem has no constraints, so the Lagrangian is the objective itself and "
-                "the dual function is its " + ("infimum" if problem.sense == "minimize" else
-                                              "supremum") + ", a constant: the optimal value.")
+        text = "The problem has no constraints, so the Lagrangian is the objective itself."
     elif problem.sense == "minimize":
         text = ("The Lagrangian adds each constraint function, weighted by its multiplier "
                 "(nonnegative for inequalities, free for equalities, positive semidefinite for "
@@ -156,7 +162,7 @@ def _distribute(work: Work, terms: list[Term]) -> None:
                 work.coupled.append(t)
 
 
-def _split(work: Work, atom: Atom) -> None:
+def _split(work: Work, atom: BuildingBlock) -> None:
     """Introduce u = arg with a free multiplier z: the term becomes atom(u) + z'(arg - u)."""
     u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
     z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
@@ -174,10 +180,10 @@ def _split(work: Work, atom: Atom) -> None:
 
 
 def _minimize_blocks(work: Work) -> dict[str, Outcome]:
-    outcomes: dict[str, Outcome] = {}
+    outcomes: dict[str, Outcome] = _perspective(work)
     coupled = {n for t in work.coupled for n in _vars_of(t, _primal_names(work))}
     for v in work.problem.variables:
-        if v.name in coupled:
+        if v.name in coupled or v.name in outcomes:
             continue
         outcomes[v.name] = _guarded_block(work, v)
     for u, atom, z in work.aux_blocks:
@@ -189,6 +195,43 @@ def _minimize_blocks(work: Work) -> dict[str, Outcome]:
     if work.coupled:
         outcomes["(coupled)"] = Outcome(rebuild(work.coupled, SCALAR), inner=True)
     return outcomes
+
+
+def _perspective(work: Work) -> dict[str, Outcome]:
+    """The relative entropy of two variables, minimized jointly (``perspective``), when it
+    is the only coupling and both variables otherwise enter linearly."""
+    from dualize.duality.perspective import entropy_atom, pair_outcome, relative_entropy_pair
+    from dualize.duality.scalar import Scope, to_sympy
+
+    if len(work.coupled) != 1:
+        return {}
+    variables = {v.name: v for v in work.problem.variables}
+    found = relative_entropy_pair(work.coupled[0], variables)
+    if found is None or to_sympy(found[0], Scope()).is_positive is not True:
+        return {}
+    coef, u, v = found
+    lu, lv = _linear_part(work, u), _linear_part(work, v)
+    if lu is None or lv is None:
+        return {}
+    inf = separable_infimum(entropy_atom(coef, u.symbol), tidy(b.neg(lu[0])), u.symbol,
+                            u.domain)
+    if inf is None or inf.entries is None:
+        return {}
+    cons, steps, recs = pair_outcome(u.symbol, v.symbol, lu[0], lv[0], inf.entries,
+                                     inf.constraints, inf.statement, inf.formulas)
+    work.coupled = []
+    return {u.name: Outcome(tidy(b.add(lu[1], lv[1])), cons, recs[0], steps),
+            v.name: Outcome(b.num(0), recovery=recs[1])}
+
+
+def _linear_part(work: Work, v: Variable) -> tuple[Expr, Expr] | None:
+    """(g, r) with the variable's own terms g'x + r, or None when they are not affine."""
+    terms = work.by_var.get(v.name, [])
+    q = quadratic(rebuild(terms, SCALAR), v.symbol) if terms else Quadratic(None, None, None)
+    if q is None or q.Q is not None:
+        return None
+    g = q.g if q.g is not None else b.zeros(v.symbol.shape)
+    return tidy(g), q.r if q.r is not None else b.num(0)
 
 
 def _guarded_block(work: Work, v: Variable) -> Outcome:
@@ -337,16 +380,16 @@ def _affine_only(polys: list[Quadratic], x: Symbol) -> bool:
     return all(q.Q is None for q in polys)
 
 
-def _square_poly(a: Atom, x: Symbol) -> Quadratic:
+def _square_poly(a: BuildingBlock, x: Symbol) -> Quadratic:
     q = quadratic(b.scale(a.coef, b.inner(a.arg, a.arg)), x)
     assert q is not None
     return q
 
 
 def _sum(parts: list[Quadratic | None]) -> Quadratic | None:
-    from dualize.duality.linear import _quad_sum
+    from dualize.duality.linear import quad_sum
 
-    return _quad_sum(parts) if parts else Quadratic(None, None, None)
+    return quad_sum(parts) if parts else Quadratic(None, None, None)
 
 
 def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome | None:
@@ -355,7 +398,7 @@ def _quadratic(v: Variable, polys: list[Quadratic]) -> Outcome | None:
     return quadratic_block(v.symbol, v.domain, q)
 
 
-def _split_local(work: Work, atom: Atom, polys: list[Quadratic], x: Symbol) -> None:
+def _split_local(work: Work, atom: BuildingBlock, polys: list[Quadratic], x: Symbol) -> None:
     """Split an atom of one block; its z'arg part joins that block's polynomial terms."""
     u = Symbol(work.fresh("u"), "auxiliary", atom.arg.shape)
     z = Symbol(work.fresh("z"), "multiplier", atom.arg.shape)
@@ -372,12 +415,12 @@ def _split_local(work: Work, atom: Atom, polys: list[Quadratic], x: Symbol) -> N
     polys.append(q)
 
 
-def _kind_name(atom: Atom) -> str:
+def _kind_name(atom: BuildingBlock) -> str:
     return {"norm": "norm", "square": "squared norm", "hinge": "hinge", "abs": "absolute value",
             "logsumexp": "log-sum-exp", "separable": "separable"}[atom.kind]
 
 
-def _direct(work: Work, v: Variable, atom: Atom, polys: list[Quadratic]) -> Outcome:
+def _direct(work: Work, v: Variable, atom: BuildingBlock, polys: list[Quadratic]) -> Outcome:
     """inf over x of atom(x) + g'x + r = r - atom*(-g)."""
     q = _sum(polys)  # type: ignore[arg-type]
     assert q is not None
@@ -387,20 +430,21 @@ def _direct(work: Work, v: Variable, atom: Atom, polys: list[Quadratic]) -> Outc
     return _conjugate_outcome(v.symbol, atom, s, r, v.domain, work)
 
 
-def _aux_block(u: Symbol, atom: Atom, z: Symbol) -> Outcome:
+def _aux_block(u: Symbol, atom: BuildingBlock, z: Symbol) -> Outcome:
     """inf over u of atom(u) - z'u = -atom*(z)."""
     return _conjugate_outcome(u, atom, z, b.num(0), Domain("free"), None)
 
 
-def _conjugate_outcome(x: Symbol, atom: Atom, s: Expr, r: Expr, domain: Domain,
+def _conjugate_outcome(x: Symbol, atom: BuildingBlock, s: Expr, r: Expr, domain: Domain,
                        work: Work | None) -> Outcome:
     if atom.kind == "separable":
         inf = separable_infimum(atom, s, x, domain,
                                 work.deadline if work is not None else Deadline.unlimited())
     else:
-        inf = infimum(atom, s, x) if domain.kind == "free" else None
+        inf = infimum(atom, s, x) if domain.kind == "free" else (
+            orthant_norm(atom, s, x) if domain.kind in ("nonneg", "pos") else None)
     if inf is None:
-        kept = b.add(atom_expression(atom), b.neg(b.inner(s, x)), r)
+        kept = b.add(block_expression(atom), b.neg(b.inner(s, x)), r)
         return Outcome(tidy(kept), inner=True, steps=[Step(
             "no-closed-form", f"No closed form for the infimum over ${x.name}$ of this "
             f"{_kind_name(atom)} term: the infimum is kept.", block=x.name)])

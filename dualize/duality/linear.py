@@ -216,7 +216,7 @@ def _opt_t(e: Expr | None) -> Expr | None:
     return None if e is None else b.transpose(e)
 
 
-def _quad_sum(parts: list[Quadratic | None]) -> Quadratic | None:
+def quad_sum(parts: list[Quadratic | None]) -> Quadratic | None:
     if any(p is None for p in parts):
         return None
     return Quadratic(
@@ -227,7 +227,7 @@ def _quad_sum(parts: list[Quadratic | None]) -> Quadratic | None:
 
 
 def _quad_add(e: Add, x: Symbol) -> Quadratic | None:
-    return _quad_sum([quadratic(t, x) for t in e.terms])
+    return quad_sum([quadratic(t, x) for t in e.terms])
 
 
 def _quad_scale(e: Scale, x: Symbol) -> Quadratic | None:
@@ -308,7 +308,7 @@ def _quad_weighted(e: MatMul, i: int, x: Symbol) -> Quadratic | None:
 def weighted(w: Expr, f: Expr, x: Symbol) -> Quadratic | None:
     """The scalar w f (w a row free of x, f a column) as a quadratic in x."""
     if isinstance(f, Add):
-        return _quad_sum([weighted(w, t, x) for t in f.terms])
+        return quad_sum([weighted(w, t, x) for t in f.terms])
     if isinstance(f, Scale):
         if _free(f.factor, x):
             q = weighted(w, f.arg, x)

@@ -11,8 +11,8 @@ v'u), so the textbook form -(1/4) nu'AA'nu - b'nu comes out however the
 Lagrangian was written.  Anything nonlinear (norms, exp, log, ...) is an atom
 whose arguments are put in canonical form recursively.
 
-``tidy`` rebuilds an IR expression from the canonical form; ``node_key`` gives
-a deterministic sort key for any expression.
+``tidy`` rebuilds an IR expression from the canonical form; ``node_key``
+(``dualize.duality.keys``) gives a deterministic sort key for any expression.
 """
 
 from __future__ import annotations
@@ -22,6 +22,7 @@ from dataclasses import dataclass, fields
 import sympy
 
 from dualize.duality import build as b
+from dualize.duality.keys import node_key
 from dualize.model.expr import (
     Add,
     Apply,
@@ -56,53 +57,24 @@ class Term:
     chain: tuple[Expr, ...]
 
 
-def node_key(e: Expr) -> str:
-    """A deterministic structural key (no hash order, no object ids)."""
-    if isinstance(e, Symbol):
-        return f"S:{e.name}"
-    if isinstance(e, Number):
-        return f"N:{sympy.srepr(e.value)}"
-    parts = [type(e).__name__]
-    for f in fields(e):  # type: ignore[arg-type]
-        if f.name == "span":
-            continue
-        value = getattr(e, f.name)
-        parts.append(_value_key(value))
-    return "(" + " ".join(parts) + ")"
+def expand(e: Expr, keep_forms: bool = True) -> list[Term]:
+    """The collected terms of ``e``.
+
+    With ``keep_forms`` quadratic forms v' M v of a sum v stay whole, the way a
+    textbook writes -(1/2)(G'l + q)' P^-1 (G'l + q) in a derived expression;
+    without it they are multiplied out too (to prove two expressions equal).
+    """
+    return _collect(_expand(e, keep_forms))
 
 
-def _value_key(value: object) -> str:
-    if isinstance(value, Expr):
-        return node_key(value)
-    if isinstance(value, tuple):
-        return "[" + ",".join(_value_key(v) for v in value) + "]"
-    if isinstance(value, sympy.Basic):
-        return sympy.srepr(value)
-    return str(value)
-
-
-def expand(e: Expr) -> list[Term]:
-    """The collected terms of ``e``."""
-    return _collect(_expand(e))
-
-
-def tidy(e: Expr) -> Expr:
+def tidy(e: Expr, keep_forms: bool = True) -> Expr:
     """``e`` rebuilt from its canonical form: like terms collected, stable order."""
-    return rebuild(expand(e), e.shape)
+    return rebuild(expand(e, keep_forms), e.shape)
 
 
 def equal(a: Expr, c: Expr) -> bool:
     """Structural equality after full expansion (a proof of equality, not a test)."""
-    _KEEP_FORMS.append(False)
-    try:
-        return expand(b.sub(a, c)) == []
-    finally:
-        _KEEP_FORMS.pop()
-
-
-# Quadratic forms v' M v of a sum v are kept whole in derived expressions, the way
-# a textbook writes -(1/2)(G'l + q)' P^-1 (G'l + q); ``equal`` expands them.
-_KEEP_FORMS = [True]
+    return expand(b.sub(a, c), keep_forms=False) == []
 
 
 def _is_compact_form(e: MatMul) -> bool:
@@ -123,11 +95,11 @@ def _same_sum(a: Expr, c: Expr) -> bool:
     return a == c
 
 
-def _expand(e: Expr) -> list[Term]:
+def _expand(e: Expr, keep: bool) -> list[Term]:
     handler = _EXPAND.get(type(e))
     if handler is not None:
-        return handler(e)
-    return [_atom(_tidy_children(e))]
+        return handler(e, keep)
+    return [_atom(_tidy_children(e, keep))]
 
 
 def _atom(e: Expr) -> Term:
@@ -136,14 +108,14 @@ def _atom(e: Expr) -> Term:
     return Term(sympy.Integer(1), (), (e,))
 
 
-def _tidy_children(e: Expr) -> Expr:
+def _tidy_children(e: Expr, keep: bool) -> Expr:
     if isinstance(e, Block):
-        return Block(tuple(tuple(tidy(x) for x in row) for row in e.rows))
+        return Block(tuple(tuple(tidy(x, keep) for x in row) for row in e.rows))
     changes = {}
     for f in fields(e):  # type: ignore[arg-type]
         value = getattr(e, f.name)
         if isinstance(value, Expr):
-            changes[f.name] = tidy(value)
+            changes[f.name] = tidy(value, keep)
     if not changes:
         return e
     from dataclasses import replace
@@ -151,28 +123,28 @@ def _tidy_children(e: Expr) -> Expr:
     return replace(e, **changes)  # type: ignore[type-var]
 
 
-def _number(e: Number) -> list[Term]:
+def _number(e: Number, keep: bool = True) -> list[Term]:
     return [] if e.value == 0 else [Term(e.value, (), ())]
 
 
-def _symbol(e: Symbol) -> list[Term]:
+def _symbol(e: Symbol, keep: bool) -> list[Term]:
     return [_atom(e)]
 
 
-def _add(e: Add) -> list[Term]:
-    return [t for term in e.terms for t in _expand(term)]
+def _add(e: Add, keep: bool) -> list[Term]:
+    return [t for term in e.terms for t in _expand(term, keep)]
 
 
-def _scale(e: Scale) -> list[Term]:
-    return _product(_expand(e.factor), _expand(e.arg))
+def _scale(e: Scale, keep: bool) -> list[Term]:
+    return _product(_expand(e.factor, keep), _expand(e.arg, keep))
 
 
-def _matmul(e: MatMul) -> list[Term]:
-    if _KEEP_FORMS[-1] and _is_compact_form(e):
+def _matmul(e: MatMul, keep: bool) -> list[Term]:
+    if keep and _is_compact_form(e):
         scalars: list[Expr] = []
         chain: list[Expr] = []
         for f in e.factors:
-            f = tidy(f)
+            f = tidy(f, keep)
             while isinstance(f, Scale):
                 scalars.append(f.factor)
                 f = f.arg
@@ -180,58 +152,59 @@ def _matmul(e: MatMul) -> list[Term]:
                 chain.append(f)
         terms = [_atom(MatMul(tuple(chain)))]
         for s in scalars:
-            terms = _product(_expand(s), terms)
+            terms = _product(_expand(s, keep), terms)
         return terms
-    terms = _expand(e.factors[0])
+    terms = _expand(e.factors[0], keep)
     for f in e.factors[1:]:
-        terms = _product(terms, _expand(f))
+        terms = _product(terms, _expand(f, keep))
     return terms
 
 
-def _transpose(e: Transpose) -> list[Term]:
+def _transpose(e: Transpose, keep: bool) -> list[Term]:
     pushed = b.transpose(e.arg)
     if isinstance(pushed, Transpose):
-        inner = tidy(pushed.arg)
+        inner = tidy(pushed.arg, keep)
         pushed2 = b.transpose(inner)
         return [_atom(pushed2 if not isinstance(pushed2, Transpose) else Transpose(inner))]
-    return _expand(pushed)
+    return _expand(pushed, keep)
 
 
-def _broadcast(e: Broadcast) -> list[Term]:
+def _broadcast(e: Broadcast, keep: bool) -> list[Term]:
     if e.shape.cols == 1:
-        return _product(_expand(e.arg), [Term(sympy.Integer(1), (), (Ones(e.shape.rows),))])
-    return [_atom(Broadcast(tidy(e.arg), e.shape))]
+        ones = [Term(sympy.Integer(1), (), (Ones(e.shape.rows),))]
+        return _product(_expand(e.arg, keep), ones)
+    return [_atom(Broadcast(tidy(e.arg, keep), e.shape))]
 
 
-def _sumall(e: SumAll) -> list[Term]:
-    return _expand(b.sum_all(e.arg)) if not e.arg.shape.is_scalar else _expand(e.arg)
+def _sumall(e: SumAll, keep: bool) -> list[Term]:
+    return _expand(b.sum_all(e.arg) if not e.arg.shape.is_scalar else e.arg, keep)
 
 
-def _diag(e: Diag) -> list[Term]:
+def _diag(e: Diag, keep: bool) -> list[Term]:
     out = []
-    for t in _expand(e.arg):
+    for t in _expand(e.arg, keep):
         vec = rebuild([Term(sympy.Integer(1), (), t.chain)], e.arg.shape)
         out.append(Term(t.coef, t.scalars, (b.diag(vec),)))
     return out
 
 
-def _hadamard(e: Hadamard) -> list[Term]:
-    relative = _relative_entropy_with_data(e)
+def _hadamard(e: Hadamard, keep: bool) -> list[Term]:
+    relative = _relative_entropy_with_data(e, keep)
     if relative is not None:
-        return _expand(relative)
-    entropy = _entropy_form(e)
+        return _expand(relative, keep)
+    entropy = _entropy_form(e, keep)
     if entropy is not None:
         return [Term(sympy.Integer(1), (), (entropy,))]
     if e.shape.cols != 1:
-        return [_atom(_sorted_pair(Hadamard, tidy(e.left), tidy(e.right)))]
+        return [_atom(_sorted_pair(Hadamard, tidy(e.left, keep), tidy(e.right, keep)))]
     out: list[Term] = []
-    for tl in _expand(e.left):
-        for tr in _expand(e.right):
+    for tl in _expand(e.left, keep):
+        for tr in _expand(e.right, keep):
             out.extend(_hadamard_terms(tl, tr, e))
     return out
 
 
-def _relative_entropy_with_data(e: Hadamard) -> Expr | None:
+def _relative_entropy_with_data(e: Hadamard, keep: bool) -> Expr | None:
     """a .* log(a ./ q) = a .* log(a) - a .* log(q) for data q known positive.
 
     With q > 0, a ./ q > 0 exactly when a > 0, so both sides have one domain; the
@@ -246,16 +219,17 @@ def _relative_entropy_with_data(e: Hadamard) -> Expr | None:
             continue
         top, q = f.arg.left, f.arg.right
         data = all(s.role == "data" for s in symbols_of(q))
-        if tidy(top) == tidy(a) and data and known_sign(q) == "pos" and q.shape == a.shape:
+        if (tidy(top, keep) == tidy(a, keep) and data and known_sign(q) == "pos"
+                and q.shape == a.shape):
             return b.sub(Hadamard(a, Apply("log", a)), Hadamard(a, Apply("log", q)))
     return None
 
 
-def _entropy_form(e: Hadamard) -> Expr | None:
+def _entropy_form(e: Hadamard, keep: bool) -> Expr | None:
     """a .* f(a) stays whole (it is one building block, e.g. the entropy a .* log(a))."""
     for a, f in ((e.left, e.right), (e.right, e.left)):
-        if isinstance(f, Apply) and tidy(a) == tidy(f.arg):
-            return Hadamard(tidy(a), Apply(f.func, tidy(f.arg)))
+        if isinstance(f, Apply) and tidy(a, keep) == tidy(f.arg, keep):
+            return Hadamard(tidy(a, keep), Apply(f.func, tidy(f.arg, keep)))
     return None
 
 
@@ -282,9 +256,9 @@ def _sorted_pair(cls: type, left: Expr, right: Expr) -> Expr:
     return cls(left, right)
 
 
-def _trace(e: Trace) -> list[Term]:
+def _trace(e: Trace, keep: bool) -> list[Term]:
     out = []
-    for t in _expand(e.arg):
+    for t in _expand(e.arg, keep):
         inner = rebuild([Term(sympy.Integer(1), (), t.chain)], e.arg.shape)
         atom = Trace(inner) if not inner.shape.is_scalar else inner
         if isinstance(inner, Identity):
@@ -295,25 +269,25 @@ def _trace(e: Trace) -> list[Term]:
     return out
 
 
-def _power(e: Power) -> list[Term]:
-    base = tidy(e.base)
+def _power(e: Power, keep: bool) -> list[Term]:
+    base = tidy(e.base, keep)
     if isinstance(base, Number):
         return _number(Number(base.value**e.exponent))
     if e.exponent == 1:
-        return _expand(base)
+        return _expand(base, keep)
     if (e.exponent == 2 and e.shape.is_scalar and not isinstance(base, Symbol | Norm)
-            and not _KEEP_FORMS[-1]):
-        terms = _expand(base)
+            and not keep):
+        terms = _expand(base, keep)
         if len(terms) > 1:
             return _product(terms, terms)
     return [_atom(Power(base, e.exponent))]
 
 
-def _zero(e: Expr) -> list[Term]:
+def _zero(e: Expr, keep: bool) -> list[Term]:
     return []
 
 
-def _identity(e: Identity) -> list[Term]:
+def _identity(e: Identity, keep: bool) -> list[Term]:
     return [Term(sympy.Integer(1), (), (e,))]
 
 
@@ -332,7 +306,7 @@ _EXPAND = {
     Power: _power,
     Zero: _zero,
     Identity: _identity,
-    Ones: lambda e: [Term(sympy.Integer(1), (), (e,))],
+    Ones: lambda e, keep: [Term(sympy.Integer(1), (), (e,))],
 }
 
 

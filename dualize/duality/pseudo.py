@@ -25,7 +25,7 @@ from dualize.duality import build as b
 from dualize.duality.normal import Term, equal, expand, rebuild, tidy
 from dualize.duality.result import DualConstraint, DualVariable, Equation, Head, Recovery, Step
 from dualize.duality.scalar import Scope, to_sympy
-from dualize.model.expr import Expr, Symbol, symbols_of
+from dualize.model.expr import Divide, Expr, Symbol, symbols_of
 
 HALF = sympy.Rational(1, 2)
 
@@ -75,16 +75,88 @@ def factored_value(x: Symbol, H: Expr, w: Expr, g: Expr, r: Expr,
     xstar = tidy(b.neg(w))
     why = ("positive definite" if kind == "pd" else
            "positive semidefinite (possibly singular)")
-    text = (f"The Lagrangian is a convex quadratic in {x.name} with Hessian H {why}, and its "
-            f"linear coefficient is H w for the w shown: the gradient H ({x.name} + w) vanishes "
-            f"at {x.name} = -w, so the infimum is r - 1/2 w'H w, with no inverse (H H^+ H = H).")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ with Hessian $#H$ {why}, "
+            "and its linear coefficient is $#Hw$ for the $w$ shown: the gradient vanishes at "
+            f"$#at$, so the block contributes $#value$, with no inverse.")
+    said = (("#H", H), ("#Hw", b.mul(H, Symbol("w", "auxiliary", w.shape))),
+            ("#at", Equation(x, "=", xstar)), ("#value", value))
     note = _kernel_note(x, H, w)
     if kind != "pd":
-        note = (note + "; " if note else "") + (f"every {x.name} = -w + d with H d = 0 "
+        note = (note + "; " if note else "") + (f"every ${x.name}$ that differs from the point "
+                                                "above by a null-space direction of the Hessian "
                                                 "minimizes the Lagrangian as well")
     step = Step("minimize-quadratic-factored", text,
-                (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name)
+                (Equation(Head("w"), "=", tidy(w)), Equation(x, "=", xstar)), block=x.name,
+                formulas=said)
     return value, step, Recovery(x.name, xstar, note)
+
+
+def scaled_data(H: Expr) -> tuple[Expr, Expr] | None:
+    """(h, M) when H = h M with M one semidefinite data matrix and h a scalar that
+    depends on the multipliers (2 lambda S for a risk constraint x'Sx <= r)."""
+    terms = expand(H)
+    if not terms or any(len(t.chain) != 1 for t in terms):
+        return None
+    M = terms[0].chain[0]
+    if any(t.chain[0] != M for t in terms):
+        return None
+    if not (isinstance(M, Symbol) and M.role == "data" and {"psd", "pd"} & M.facts):
+        return None
+    h = rebuild([Term(t.coef, t.scalars, ()) for t in terms], b.SCALAR)
+    return (h, M) if not data_only(h) else None
+
+
+def scaled_witness(x: Symbol, h: Expr, M: Expr, g: Expr, r: Expr) -> tuple[
+        Expr, DualConstraint, DualVariable, Step, Recovery]:
+    """inf_x 1/2 h x'Mx + g'x + r, h >= 0 a multiplier expression, M semidefinite data.
+
+    For h > 0 it is finite iff g lies in range(M): g = -M v for some v, and then the
+    minimizer is x = v/h with value r - v'M v/(2h), the quadratic-over-linear term,
+    jointly concave in (v, h) (Boyd and Vandenberghe, 2004, section 3.1.5, from memory).
+    At h = 0 the infimum is r if g = 0 (v = 0) and minus infinity otherwise, the limit of
+    the formula, so the dual keeps the closure h >= 0.
+    """
+    v = Symbol(f"v_{x.name}", "multiplier", x.shape)
+    vMv = b.mul(b.transpose(v), M, v)
+    value = tidy(b.sub(r, Divide(vMv, tidy(b.scale(b.num(2), h)))))
+    lhs = tidy(b.add(b.mul(M, v), g))
+    c = DualConstraint(lhs, "=", b.zeros(lhs.shape),
+                       f"the infimum over {x.name} is finite only where its linear coefficient "
+                       f"lies in the range of {getattr(M, 'name', 'the data matrix')}: "
+                       "g = -M v for some v")
+    var = DualVariable(v, "free", f"range witness of the quadratic in {x.name}")
+    xstar = tidy(b.scale(b.power(h, sympy.Integer(-1)), v))
+    cond = Equation(tidy(g), "=", tidy(b.neg(b.mul(M, v))))
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian is the "
+            "nonnegative multiplier expression $#h$ times the semidefinite data $#M$: where "
+            "$#cond$ its infimum is $#value$, attained at $#at$ (a quadratic-over-linear "
+            "term, jointly concave), and minus infinity where the linear coefficient leaves "
+            "the range of the data.")
+    step = Step("minimize-quadratic-scaled-data", text, (cond, Equation(x, "=", xstar)),
+                block=x.name, formulas=(("#h", tidy(h)), ("#M", M), ("#cond", cond),
+                                        ("#value", value), ("#at", Equation(x, "=", xstar))))
+    rec = Recovery(x.name, xstar, "where h = 0 the quadratic term vanishes and "
+                   f"{x.name} follows from complementary slackness instead")
+    return value, c, var, step, rec
+
+
+def scaled_definite(x: Symbol, h: Expr, M: Expr, g: Expr, r: Expr) -> tuple[
+        Expr, Step, Recovery]:
+    """inf_x 1/2 h x'Mx + g'x + r with M positive definite data and h >= 0 a multiplier
+    expression: r - g'M^-1 g/(2h), attained at x = -M^-1 g/h for h > 0 (the closure at
+    h = 0 as for the scalar rule)."""
+    Minv = b.inverse(M)
+    value = tidy(b.sub(r, Divide(b.mul(b.transpose(g), Minv, g), tidy(b.scale(b.num(2), h)))))
+    xstar = tidy(b.neg(b.scale(b.power(h, sympy.Integer(-1)), b.mul(Minv, g))))
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian is the "
+            "nonnegative multiplier expression $#h$ times the positive definite data $#M$: "
+            "where that expression is positive the minimizer is $#at$ and the infimum "
+            "$#value$, a quadratic-over-linear term (the dual keeps the closure where the "
+            "expression is zero).")
+    step = Step("minimize-quadratic-scaled-data", text, (Equation(x, "=", xstar),),
+                block=x.name, formulas=(("#h", tidy(h)), ("#M", M), ("#value", value),
+                                        ("#at", Equation(x, "=", xstar))))
+    return value, step, Recovery(x.name, xstar)
 
 
 def _kernel_note(x: Symbol, H: Expr, w: Expr) -> str:
@@ -115,16 +187,18 @@ def range_witness(x: Symbol, H: Expr, g: Expr, r: Expr) -> tuple[Expr, DualConst
     c = DualConstraint(lhs, "=", b.zeros(lhs.shape),
                        f"the infimum over {x.name} is finite only where its linear coefficient "
                        f"lies in the range of the Hessian: g = -H v for some v")
-    text = (f"The Lagrangian is a convex quadratic in {x.name} whose Hessian H is positive "
-            "semidefinite, possibly singular: its infimum is r - 1/2 g'H^+ g when g lies in "
-            "the range of H and minus infinity otherwise. Writing the range condition as "
-            f"g = -H v with a witness v, the value is r - 1/2 v'H v and {x.name} = v "
-            "minimizes the Lagrangian.")
+    text = (f"The Lagrangian is a convex quadratic in ${x.name}$ whose Hessian $#H$ is "
+            "positive semidefinite, possibly singular: its infimum is finite only when the "
+            "linear coefficient $#g$ lies in the range of the Hessian. Writing that condition "
+            f"with a witness ${v.name}$ as shown, the gradient vanishes at $#at$ and the block "
+            "contributes $#value$.")
+    said = (("#H", H), ("#g", tidy(g)), ("#at", Equation(x, "=", v)), ("#value", value))
     var = DualVariable(v, "free", f"range witness of the quadratic in {x.name}")
     step = Step("minimize-quadratic-range", text,
                 (Equation(tidy(g), "=", tidy(b.neg(b.mul(H, v)))), Equation(x, "=", v)),
-                block=x.name)
-    rec = Recovery(x.name, v, f"every {x.name} = {v.name} + d with H d = 0 minimizes the "
+                block=x.name, formulas=said)
+    rec = Recovery(x.name, v, f"every ${x.name}$ that differs from ${v.name}$ by a null-space "
+                   "direction of the Hessian minimizes the "
                    "Lagrangian; where H is singular, choose d so that the primal constraints and "
                    "complementary slackness hold")
     return value, c, var, step, rec

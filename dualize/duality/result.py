@@ -148,13 +148,3 @@ class Derivation:
     kkt: tuple[Condition, ...]
     recovery: tuple[Recovery, ...]
     notes: tuple[str, ...] = field(default=())
-
-    def _repr_latex_(self) -> str:
-        from dualize.render.latex import repr_latex
-
-        return repr_latex(self)
-
-    def _repr_markdown_(self) -> str:
-        from dualize.render.markdown import repr_markdown
-
-        return repr_markdown(self)

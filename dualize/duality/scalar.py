@@ -16,7 +16,7 @@ import sympy
 
 from dualize.duality import build as b
 from dualize.duality.elementwise import data_symbol
-from dualize.duality.normal import node_key
+from dualize.duality.keys import node_key
 from dualize.model.expr import (
     Add,
     Apply,

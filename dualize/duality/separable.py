@@ -16,7 +16,7 @@ import sympy
 from dualize.deadline import Deadline, DeadlineExceeded
 from dualize.duality import build as b
 from dualize.duality import derivation_cache as cache
-from dualize.duality.atoms import Atom, Infimum
+from dualize.duality.building_blocks import BuildingBlock, Infimum
 from dualize.duality.conjugate import Conjugate, NoClosedForm, conjugate
 from dualize.duality.elementwise import LiftError, lift, lift_interval, scalar_form
 from dualize.duality.scalar import Scope, to_sympy
@@ -56,13 +56,18 @@ def _natural_domain(phi: sympy.Expr, t: sympy.Symbol) -> sympy.Set:
     each piece is, which sympy's domain finder cannot tell."""
     from sympy.calculus.util import continuous_domain
 
-    if isinstance(phi, sympy.Piecewise):
-        parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
-        return sympy.Intersection(*parts) if parts else sympy.S.Reals
-    return continuous_domain(phi, t, sympy.S.Reals)
+    if phi.has(sympy.Piecewise):
+        phi = sympy.piecewise_fold(phi)
+    try:
+        if isinstance(phi, sympy.Piecewise):
+            parts = [continuous_domain(e, t, sympy.S.Reals) for e, _ in phi.args]
+            return sympy.Intersection(*parts) if parts else sympy.S.Reals
+        return continuous_domain(phi, t, sympy.S.Reals)
+    except (NotImplementedError, ValueError, TypeError):
+        return sympy.S.EmptySet  # no domain sympy can state: no closed form is claimed
 
 
-def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
+def separable_infimum(atom: BuildingBlock, s: Expr, x: Symbol, domain: Domain,
                       deadline: Deadline | None = None) -> Infimum | None:
     """-sum(phi*(s)) with the domain of phi* as constraints on s; past ``deadline`` the
     conjugate is not attempted (``DeadlineExceeded`` names the step)."""
@@ -95,16 +100,16 @@ def separable_infimum(atom: Atom, s: Expr, x: Symbol, domain: Domain,
     statement = ("the term $#term$ is separable, with $#phi$ entry by entry; its conjugate, "
                  "derived by the Legendre transform and checked numerically, is $#conj$")
     return Infimum(b.neg(total), constraints, minimizer, statement,
-                   _formulas(atom, phi, t, shown, conj.s))
+                   _formulas(atom, phi, t, shown, conj.s), entries)
 
 
-def _formulas(atom: Atom, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,
+def _formulas(atom: BuildingBlock, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,
               s: sympy.Symbol) -> tuple[tuple[str, object], ...]:
     """The separable term, its entry function and its conjugate, for the step's sentence."""
-    from dualize.duality.atoms import atom_expression
+    from dualize.duality.building_blocks import block_expression
 
     entry, conjugate_of = sympy.Function("phi"), sympy.Function("phi^*")
-    return (("#term", atom_expression(atom)),
+    return (("#term", block_expression(atom)),
             ("#phi", sympy.Eq(entry(t), phi, evaluate=False)),
             ("#conj", sympy.Eq(conjugate_of(s), conj, evaluate=False)))
 
@@ -115,7 +120,7 @@ Found = tuple[Conjugate, sympy.Expr] | None
 
 def _conjugate_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> Found:
     """phi* over the part of ``interval`` where phi is continuous, read from the disk
-    cache when an earlier process derived and checked it (see conjugate_cache)."""
+    cache when an earlier process derived and checked it (see derivation_cache)."""
     return cache.memo(cache.key_of("conjugate", phi, t, interval),  # type: ignore[no-any-return]
                       lambda: _derive_on(phi, t, interval), _to_payload, _from_payload)
 

@@ -29,8 +29,11 @@ class Derived:
         return analyze(self.derivation.problem)
 
 
-def derive_snapshot(snap: Snapshot) -> Derived:
-    """Derive the dual of the snapshot's problem; a problem with errors is refused."""
+def derive_snapshot(snap: Snapshot, seconds: float) -> Derived:
+    """Derive the dual of the snapshot's problem within ``seconds`` (past them the engine
+    keeps what it has and its notes say which step was cut); a problem with errors is
+    refused."""
+    from dualize.deadline import Deadline
     from dualize.duality import derive
 
     problem = snap.loaded.problem
@@ -38,7 +41,7 @@ def derive_snapshot(snap: Snapshot) -> Derived:
     if problem is None or errors:
         raise DualizeError(f"{snap.path}: the problem has {len(errors) or 'syntax'} "
                            f"error(s); nothing was derived", exit_code=2)
-    return Derived(derive(problem))
+    return Derived(derive(problem, Deadline(seconds)))
 
 
 def markdown(derived: Derived) -> str:

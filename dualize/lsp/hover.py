@@ -61,7 +61,7 @@ def hover_text(snap: Snapshot, offset: int, derivation: Derivation | None,
 def objective_hover(problem: Problem, derivation: Derivation | None,
                     pending: str | None) -> str:
     """The objective and the dual problem in short: what the derivation arrives at."""
-    from dualize.render.text import text_expr, text_relation
+    from dualize.render.text_printer import text_expr, text_relation
 
     lines = [f"**objective** ({problem.sense} `{text_expr(problem.objective)}`)", ""]
     if derivation is None:
@@ -78,7 +78,13 @@ def objective_hover(problem: Problem, derivation: Derivation | None,
     lines += [f"- `{text_expr(c.lhs)} {text_relation(c.relation)} {text_expr(c.rhs)}`"
               for c in dual.constraints]
     lines += [f"- `{v.name} ∈ {_set_text(v)}`" for v in dual.variables if v.set != "free"]
-    return "\n".join(lines)
+    return "\n".join(lines + _cut(derivation))
+
+
+def _cut(derivation: Derivation) -> list[str]:
+    """The engine's notes on steps cut by the time limit: what is shown is unfinished."""
+    cut = [n for n in derivation.notes if "time limit" in n]
+    return ["", *(f"Unfinished: {n}" for n in cut)] if cut else []
 
 
 def _about_name(m: Mention, snap: Snapshot, problem: Problem | None,
@@ -126,7 +132,7 @@ def function_hover(name: str) -> str | None:
 
 def constraint_hover(c: Constraint, derivation: Derivation | None,
                      pending: str | None) -> str:
-    from dualize.render.text import text_expr, text_relation
+    from dualize.render.text_printer import text_expr, text_relation
 
     lines = [f"**constraint `{c.label}`** ({KIND_WORD[c.kind]})", "",
              f"`{text_expr(c.lhs)} {text_relation(Comparison(c.relation).relation)} "
@@ -140,6 +146,13 @@ def constraint_hover(c: Constraint, derivation: Derivation | None,
         lines.append(f"multiplier `{multiplier.name}` ∈ `{_set_text(multiplier)}`: "
                      f"{SET_WORD.get(multiplier.set, multiplier.set)}")
     lines += ["", *_dual_constraints(c.multiplier.name, derivation)]
+    dual = derivation.dual
+    lines += _cut(derivation)
+    if dual.unbounded:
+        lines += ["", "The dual function is unbounded for every multiplier: no bound."]
+    elif dual.inner:
+        lines += ["", "The dual keeps an infimum over " + ", ".join(v.name for v in dual.inner)
+                  + ": conditions it implies are not listed."]
     return "\n".join(lines)
 
 
@@ -160,7 +173,7 @@ def _set_text(multiplier: DualVariable) -> str:
 
 def _dual_constraints(name: str, derivation: Derivation) -> list[str]:
     """The dual's constraints that involve the multiplier ``name``, with their reasons."""
-    from dualize.render.text import text_expr, text_relation
+    from dualize.render.text_printer import text_expr, text_relation
 
     word = re.compile(rf"(?<![\w]){re.escape(name)}(?![\w])")
     found = [c for c in derivation.dual.constraints
@@ -196,7 +209,7 @@ def variable_hover(v: Variable, text: str, derivation: Derivation | None,
 
 
 def _recovery(name: str, derivation: Derivation) -> str:
-    from dualize.render.text import text_expr
+    from dualize.render.text_printer import text_expr
 
     found = next((r for r in derivation.recovery if r.variable == name), None)
     if found is None:

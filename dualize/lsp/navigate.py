@@ -16,7 +16,7 @@ from dualize.syntax.span import Span
 SETS = ("R", "R^n", "R^n_+", "R^n_++", "R^(m,n)", "R_+", "R_++", "S^n", "S^n_+", "S^n_++",
         "Z", "Z^n", "{0,1}", "{0,1}^n", "[lo, hi]", "[lo, hi]^n")
 KEYWORDS = ("data", "maximize", "minimize", "over", "subject to", "title")
-AFTER_IN = re.compile(r"\bin\s+\S*$")
+AFTER_IN = re.compile(r"\bin\s+(\S*)$")
 
 
 def symbols(snap: Snapshot, text: TextMap) -> list[lsp.DocumentSymbol]:
@@ -69,14 +69,19 @@ def definition(snap: Snapshot, offset: int, text: TextMap) -> lsp.Location | Non
     return lsp.Location(snap.uri, text.span_range(declared.span))
 
 
-def completions(snap: Snapshot, offset: int,
-                known: ast.Document | None) -> list[lsp.CompletionItem]:
+def completions(snap: Snapshot, offset: int, known: ast.Document | None,
+                text: TextMap) -> list[lsp.CompletionItem]:
     """Sets after `in`; otherwise the declared names, the functions and the keywords.
-    ``known`` is the last document that parsed, for names while the text is broken."""
+    ``known`` is the last document that parsed, for names while the text is broken.
+    A set replaces what is typed of it (``R^`` becomes ``R^n_+``), since its
+    characters are not a word an editor would replace by itself."""
     line_start = snap.text.rfind("\n", 0, offset) + 1
-    if AFTER_IN.search(snap.text[line_start:offset]):
+    after_in = AFTER_IN.search(snap.text[line_start:offset])
+    if after_in:
+        typed = text.offset_range(line_start + after_in.start(1), offset)
         return [lsp.CompletionItem(label=s, kind=lsp.CompletionItemKind.TypeParameter,
-                                   detail="set") for s in SETS]
+                                   detail="set", text_edit=lsp.TextEdit(typed, s))
+                for s in SETS]
     doc = snap.document or known
     items = [_name_item(name, m.kind) for name, m in sorted(declarations(doc).items())
              ] if doc is not None else []

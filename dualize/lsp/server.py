@@ -29,6 +29,7 @@ from dualize.lsp.state import Snapshot
 from dualize.lsp.tasks import Work
 
 T = TypeVar("T")
+GRACE = 10.0  # seconds a request waits past the engine's deadline for it to wrap up
 DERIVE = "dualize.deriveDual"
 WRITE_LATEX = "dualize.writeLatex"
 
@@ -130,7 +131,7 @@ class ProblemServer(LanguageServer):
     async def derived(self, snap: Snapshot, limit: float) -> actions.Derived:
         """The derivation of the snapshot, as a protocol error when it cannot be had."""
         try:
-            return await self.work.derived(snap, limit)
+            return await self.work.derived(snap, limit, self.limits.derive)
         except DualizeError as err:
             raise RequestFailed(err.message) from err
         except TimeoutError as err:
@@ -192,9 +193,9 @@ def _questions(server: ProblemServer) -> None:
                     lsp.CompletionOptions(trigger_characters=["^", "("]))
     async def complete(ls: ProblemServer, params: lsp.CompletionParams) -> lsp.CompletionList:
         snap = await ls.current(params.text_document.uri)
-        offset = ls.text_map(snap).offset(params.position)
-        items = await ls.ask(navigate.completions, snap, offset,
-                             ls.work.last_parsed.get(snap.uri))
+        text = ls.text_map(snap)
+        items = await ls.ask(navigate.completions, snap, text.offset(params.position),
+                             ls.work.last_parsed.get(snap.uri), text)
         return lsp.CompletionList(is_incomplete=False, items=items)
 
     @server.feature(lsp.TEXT_DOCUMENT_CODE_ACTION, lsp.CodeActionOptions(
@@ -271,7 +272,7 @@ def _commands(server: ProblemServer) -> None:
     @server.command(DERIVE)
     async def derive_dual(ls: ProblemServer, *args: Any) -> dict[str, str]:
         snap = await ls.current(_uri_argument(args))
-        derived = await ls.derived(snap, ls.limits.derive)
+        derived = await ls.derived(snap, ls.limits.derive + GRACE)
         try:
             text = await ls.work.run(ls.work.derive_pool, ls.limits.derive, actions.markdown,
                                      derived)
@@ -286,7 +287,7 @@ def _commands(server: ProblemServer) -> None:
                           and args[1].get("standalone"))
         try:
             actions.latex_target(snap)
-            derived = await ls.derived(snap, ls.limits.derive)
+            derived = await ls.derived(snap, ls.limits.derive + GRACE)
             path = await ls.work.run(ls.work.derive_pool, ls.limits.derive, actions.write_latex,
                                      snap, derived, standalone)
         except DualizeError as err:

@@ -55,13 +55,11 @@ def config_for(file: Path | None) -> tuple[LintConfig, str | None]:
     """The settings of the project that holds ``file`` (searched upwards from its
     folder, as ``dualize lint`` searches from the working folder); a bad
     pyproject.toml gives the defaults and the message that says why."""
-    from dualize.diagnostics import rule_table
-    from dualize.lint_config import check_selectors, load_config
+    from dualize.lint_config import checked, load_config
 
     start = file.parent if file is not None else Path.cwd()
     try:
-        config = load_config(start)
-        check_selectors(config, rule_table())
+        config = checked(load_config(start))
     except DualizeError as err:
         return LintConfig(), err.message
     return config, None

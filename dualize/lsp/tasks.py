@@ -87,10 +87,11 @@ class Work:
             return
         self.snapshots[snap.uri] = snap
 
-    async def derived(self, snap: Snapshot, limit: float) -> Derived:
-        """The derivation of this version, shared by every request that asks for it."""
+    async def derived(self, snap: Snapshot, limit: float, seconds: float) -> Derived:
+        """The derivation of this version, shared by every request that asks for it: the
+        engine stops by itself after ``seconds``; a request waits at most ``limit``."""
         return await self.shared("derive", (snap.uri, snap.version), self.derive_pool, limit,
-                                 derive_snapshot, snap)
+                                 derive_snapshot, snap, seconds)
 
     def forget(self, uri: str) -> None:
         self.snapshots.pop(uri, None)

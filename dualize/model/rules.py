@@ -2,11 +2,15 @@
 
 from __future__ import annotations
 
-from dualize.diagnostics import RuleKind, register
+from dualize.diagnostics import RuleKind
+
+_KINDS: list[RuleKind] = []  # filled by this module alone, in order
 
 
 def _model(id: str, template: str, why: str) -> RuleKind:
-    return register(RuleKind(id, "error", template, why, "model"))
+    kind = RuleKind(id, "error", template, why, "model")
+    _KINDS.append(kind)
+    return kind
 
 
 UNDECLARED_NAME = _model(
@@ -90,3 +94,5 @@ NOT_SYMMETRIC = _model(
     "known to be symmetric",
     "The semidefinite order compares symmetric matrices; declare the data in S^n or "
     "write a symmetric expression such as A' * X * A or B + B'.")
+
+KINDS: tuple[RuleKind, ...] = tuple(_KINDS)

@@ -52,16 +52,6 @@ class Pair:
     def other(self) -> Problem:
         return self.constrained if self.given == "penalized" else self.penalized
 
-    def _repr_markdown_(self) -> str:
-        from dualize.multipliers.path_print import pair_markdown
-
-        return pair_markdown(self)
-
-    def _repr_html_(self) -> str:
-        from dualize.multipliers.path_print import pair_html
-
-        return pair_html(self)
-
 
 class FormError(DualizeError):
     """The problem has no weighted term or bound of the kind asked (exit code 2)."""
@@ -153,7 +143,10 @@ def parsed(problem: Problem) -> Document:
 
 def problem_text(comment: str, title: str, data: list[str], sense: str, objective: str,
                  over: str, constraints: list[str]) -> str:
-    lines = [f"# {' '.join(comment.split())}", f'title "{_quote(title)}"', ""] + data
+    import textwrap
+
+    notes = textwrap.wrap(" ".join(comment.split()), 86, break_on_hyphens=False)
+    lines = [f"# {line}" for line in notes] + [f'title "{_quote(title)}"', ""] + data
     lines += ["", f"{sense} {objective}", f"over {over}"]
     if constraints:
         lines += ["subject to", *constraints]

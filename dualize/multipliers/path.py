@@ -22,6 +22,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from dualize.deadline import Deadline
 from dualize.multipliers.forms import Pair
 from dualize.multipliers.solve import Point, Posed
 from dualize.numeric.evaluate import evaluate
@@ -62,26 +63,6 @@ class Curve:
 
     def failed(self) -> tuple[Match, ...]:
         return tuple(p for p in self.points if p.status in ("disagrees", "failed"))
-
-    def _repr_markdown_(self) -> str:
-        from dualize.multipliers.path_print import curve_markdown
-
-        return curve_markdown(self)
-
-    def _repr_html_(self) -> str:
-        from dualize.multipliers.path_print import curve_html
-
-        return curve_html(self)
-
-    def _repr_svg_(self) -> str:
-        from dualize.multipliers.plot import curve_svg
-
-        return curve_svg(self)
-
-    def _repr_png_(self) -> bytes:
-        from dualize.multipliers.plot import curve_png
-
-        return curve_png(self)
 
 
 class Forms:
@@ -227,17 +208,28 @@ def _judge(m: Match, floor: float) -> Match:
 
 
 def sweep(forms: Forms, given: str, values: Iterable[float],
-          tick: Callable[[], None] | None = None) -> Curve:
-    """Match every value (weights or bounds) and check the curve's monotonicity."""
+          tick: Callable[[], None] | None = None, deadline: Deadline | None = None) -> Curve:
+    """Match every value (weights or bounds) and check the curve's monotonicity; past
+    ``deadline`` the values left are listed as not computed."""
     floor = smallest_r(forms)
     points = []
     for value in values:
         step = from_weight if given == "weight" else from_bound
-        points.append(step(forms, float(value), floor))
+        if deadline is not None and deadline.expired():
+            points.append(_late(given, float(value)))
+        else:
+            points.append(step(forms, float(value), floor))
         if tick is not None:
             tick()
     curve = Curve(forms.pair, forms.instance.source, given, tuple(points), floor)
     return replace(curve, problems=monotonicity(curve))
+
+
+def _late(given: str, value: float) -> Match:
+    nan = float("nan")
+    weight, bound = (value, nan) if given == "weight" else (nan, value)
+    return Match(weight, bound, nan, status="failed",
+                 note="not computed: the time limit was reached")
 
 
 def monotonicity(curve: Curve) -> tuple[str, ...]:

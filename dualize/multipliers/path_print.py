@@ -6,7 +6,7 @@ import json
 from typing import TYPE_CHECKING, Any
 
 from dualize.multipliers.forms import Pair
-from dualize.multipliers.printing import _aligned, _j, _md_row, num
+from dualize.multipliers.printing import aligned, json_number, md_row, num
 from dualize.render.caution import CAUTION
 
 if TYPE_CHECKING:
@@ -71,7 +71,7 @@ def curve_text(curve: Curve) -> str:
     pair = curve.pair
     lines = [f"Trade-off between {pair.weight} and {pair.bound} on {curve.instance}", "",
              relation(pair), "", "Conditions:", *[f"  {c}" for c in conditions(pair, curve)],
-             "", *_aligned(table(curve)), "", *_lines(curve), "", CAUTION]
+             "", *aligned(table(curve)), "", *_lines(curve), "", CAUTION]
     return "\n".join(lines) + "\n"
 
 
@@ -79,7 +79,7 @@ def curve_markdown(curve: Curve) -> str:
     pair, rows = curve.pair, table(curve)
     lines = [f"### Trade-off between {pair.weight} and {pair.bound} on {curve.instance}", "",
              relation(pair), "", *[f"- {c}" for c in conditions(pair, curve)], "",
-             _md_row(rows[0]), _md_row(["---"] * len(rows[0])), *[_md_row(r) for r in rows[1:]],
+             md_row(rows[0]), md_row(["---"] * len(rows[0])), *[md_row(r) for r in rows[1:]],
              "", *[f"- {line}" for line in _lines(curve)], "", f"*{CAUTION}*"]
     return "\n".join(lines) + "\n"
 
@@ -110,8 +110,8 @@ def curve_json(curve: Curve) -> str:
         "f": pair.rest, "r": pair.term, "instance": curve.instance, "swept": curve.given,
         "relation": relation(pair),
         "conditions": [{"condition": c, "status": s} for c, s in condition_pairs(pair, curve)],
-        "smallest_r": _j(curve.smallest_r),
-        "points": [{k: (_j(v) if isinstance(v, float) else v) for k, v in zip(
+        "smallest_r": json_number(curve.smallest_r),
+        "points": [{k: (json_number(v) if isinstance(v, float) else v) for k, v in zip(
             CSV_HEAD + ["note"], _fields(p), strict=True)} for p in curve.points],
         "numerical_problems": list(curve.problems), "caution": CAUTION,
     }

@@ -12,6 +12,7 @@ import math
 from typing import Any
 
 from dualize.multipliers.sensitivity import AGREE_REL, STEP_REL, Rate, Sensitivity
+from dualize.numeric.solution import status_word
 from dualize.render.caution import CAUTION
 
 CHECK_WORDS = {
@@ -24,9 +25,11 @@ CONVENTION = ("Each constraint is shifted in its normalized form: g(x) <= u for 
               "an equality, G(x) preceq u I for a matrix inequality. A vector constraint is "
               "shifted entry by entry: one row, one rate per entry.")
 METHOD = (f"Each rate is measured by re-solving at shifts +-h and +-h/2 (h = {STEP_REL:g} "
-          "times the right-hand side's scale, at most half a positive slack), one-sided "
-          "differences with Richardson extrapolation; it agrees when within "
-          f"{AGREE_REL:g} relative (with a floor for solver noise over h).")
+          "times the right-hand side's scale, at most half a positive slack; then up to two "
+          "steps 8 times smaller while the two sides disagree, or larger while solver noise "
+          "drowns the check), one-sided differences with Richardson "
+          f"extrapolation; it agrees when within {AGREE_REL:g} relative (with a floor for "
+          "solver noise over h).")
 
 
 def num(value: float) -> str:
@@ -88,7 +91,7 @@ def bound_sentence(report: Sensitivity) -> str:
         return (f"For every shift u: p*(u) {rel} {formula} = {bound_terms(report)}. "
                 "It holds because strong duality is established ("
                 f"{report.verdict_reason}) and lambda* is an optimal multiplier (the "
-                "reference solve's status: optimal); Boyd and Vandenberghe, 2004, "
+                "reference solve's status: solved); Boyd and Vandenberghe, 2004, "
                 "section 5.6.2.")
     why = report.refusal or _not_established(report)
     return f"No global bound is stated: {why}."
@@ -99,57 +102,59 @@ def _not_established(report: Sensitivity) -> str:
         return f"strong duality is not established ({report.verdict}: {report.verdict_reason})"
     if report.status == "optimal":
         return "the solver returned no multiplier for some constraint"
-    return (f"the reference solve's status is {report.status}, so the multiplier is not known "
+    word = status_word(report.status)
+    return (f"the reference solve's status is {word}, so the multiplier is not known "
             "to be optimal")
 
 
 def rates_sentence(report: Sensitivity) -> str:
     rate = "dp*/du_i = -lambda_i" if report.minimize else "dp*/du_i = +lambda_i"
     state = "" if report.established else (" These rates are not established: the "
-                                           "conditions of the bound above do not hold.")
+                                           "conditions of the global bound do not hold.")
     return (f"Local rates: {rate} where p* is differentiable at u = 0 (Boyd and "
             f"Vandenberghe, 2004, section 5.6.3); where the one-sided rates differ (a kink "
             f"of p*) both are shown instead of one number.{state}")
 
 
-def _header(report: Sensitivity) -> list[str]:
+def header(report: Sensitivity) -> list[str]:
     p = report.problem
     title = p.title or p.path
     return [f"Prices of the constraints of \"{title}\" on {report.instance}",
-            f"p*(0) = {num(report.value)} ({p.sense}; reference solve: {report.status})",
+            f"p*(0) = {num(report.value)} ({p.sense}; reference solve: "
+            f"{status_word(report.status)})",
             f"Strong duality: {report.verdict} ({report.verdict_reason})"]
 
 
 def sensitivity_text(report: Sensitivity) -> str:
-    lines = _header(report) + [""]
+    lines = header(report) + [""]
     if report.rows:
-        lines += [CONVENTION, "", *_aligned(table_rows(report)), ""]
+        lines += [CONVENTION, "", *aligned(table_rows(report)), ""]
         notes = [f"  {r.name}: {r.note}" for r in report.rows if r.note]
         lines += notes + ([""] if notes else []) + [METHOD, rates_sentence(report)]
     lines += ["", bound_sentence(report), "", CAUTION]
     return "\n".join(lines) + "\n"
 
 
-def _aligned(rows: list[list[str]]) -> list[str]:
+def aligned(rows: list[list[str]]) -> list[str]:
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     return ["  ".join(c.ljust(w) for c, w in zip(r, widths, strict=True)).rstrip()
             for r in rows]
 
 
 def sensitivity_markdown(report: Sensitivity) -> str:
-    head, *_ = _header(report)
-    lines = [f"### {head}", "", *[f"- {s}" for s in _header(report)[1:]], ""]
+    head, *_ = header(report)
+    lines = [f"### {head}", "", *[f"- {s}" for s in header(report)[1:]], ""]
     if report.rows:
         rows = table_rows(report)
-        lines += [CONVENTION, "", _md_row(rows[0]), _md_row(["---"] * len(rows[0]))]
-        lines += [_md_row(r) for r in rows[1:]] + [""]
+        lines += [CONVENTION, "", md_row(rows[0]), md_row(["---"] * len(rows[0]))]
+        lines += [md_row(r) for r in rows[1:]] + [""]
         lines += [f"- `{r.name}`: {r.note}" for r in report.rows if r.note]
         lines += ["", METHOD, "", rates_sentence(report)]
     lines += ["", bound_sentence(report), "", f"*{CAUTION}*"]
     return "\n".join(lines) + "\n"
 
 
-def _md_row(cells: list[str]) -> str:
+def md_row(cells: list[str]) -> str:
     return "| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |"
 
 
@@ -170,7 +175,7 @@ def html_page(lines: list[str], rows: list[list[str]], after: list[str]) -> str:
 
 def sensitivity_html(report: Sensitivity) -> str:
     notes = [f"{r.name}: {r.note}" for r in report.rows if r.note]
-    return html_page(_header(report), table_rows(report),
+    return html_page(header(report), table_rows(report),
                      notes + [bound_sentence(report), CAUTION])
 
 
@@ -178,7 +183,7 @@ def sensitivity_json(report: Sensitivity) -> str:
     p = report.problem
     data: dict[str, Any] = {
         "title": p.title, "file": p.path, "instance": report.instance, "sense": p.sense,
-        "status": report.status, "value": _j(report.value),
+        "status": status_word(report.status), "value": json_number(report.value),
         "strong_duality": {"status": report.verdict, "reason": report.verdict_reason},
         "perturbation": CONVENTION, "method": {"step_relative": STEP_REL,
                                                "agreement_relative": AGREE_REL},
@@ -190,15 +195,15 @@ def sensitivity_json(report: Sensitivity) -> str:
 
 
 def _row_json(r: Rate) -> dict[str, Any]:
+    n = json_number
     return {"entry": r.name, "constraint": r.constraint, "relation": r.relation,
-            "multiplier": _j(r.multiplier), "slack": _j(r.slack), "binds": r.binds,
-            "rate": _j(r.rate) if single_rate(r) else None,
-            "multiplier_rate": _j(r.rate), "step": _j(r.step), "left_rate": _j(r.left),
-            "right_rate": _j(r.right), "tolerance": _j(r.tolerance), "check": r.check,
-            "note": r.note}
+            "multiplier": n(r.multiplier), "slack": n(r.slack), "binds": r.binds,
+            "rate": n(r.rate) if single_rate(r) else None, "multiplier_rate": n(r.rate),
+            "step": n(r.step), "left_rate": n(r.left), "right_rate": n(r.right),
+            "tolerance": n(r.tolerance), "check": r.check, "note": r.note}
 
 
-def _j(value: float) -> float | None:
+def json_number(value: float) -> float | None:
     """JSON has no nan or infinity: null stands for a value that does not exist."""
     if not math.isfinite(value):
         return None
@@ -209,8 +214,23 @@ def render_sensitivity(report: Sensitivity, fmt: str, standalone: bool = False) 
     """The report in ``fmt`` (text, markdown, latex or json); ``standalone`` LaTeX
     is a complete document."""
     if fmt == "latex":
-        from dualize.multipliers.latex import sensitivity_latex
-
         return sensitivity_latex(report, standalone)
     return {"text": sensitivity_text, "markdown": sensitivity_markdown,
             "json": sensitivity_json}[fmt](report)
+
+
+def sensitivity_latex(report: Sensitivity, standalone: bool = False) -> str:
+    from dualize.multipliers.latex import escape, tabular, wrap
+
+    parts = [r"\paragraph{Prices of the constraints.} " + escape(" ".join(header(report)))]
+    if report.rows:
+        parts += [escape(CONVENTION), tabular(table_rows(report))]
+        parts += [escape(f"{r.name}: {r.note}") for r in report.rows if r.note]
+        parts += [escape(METHOD + " " + rates_sentence(report))]
+    if report.established:
+        rel = r"\geq" if report.minimize else r"\leq"
+        sign = "-" if report.minimize else "+"
+        parts.append(f"\\[ p^\\star(u) {rel} p^\\star(0) {sign} \\lambda^{{\\star\\top}} u "
+                     "\\quad \\text{for every } u \\]")
+    parts += [escape(bound_sentence(report)), r"\emph{" + escape(CAUTION) + "}"]
+    return wrap(parts, report.problem.title or "Prices of the constraints", standalone)

@@ -8,9 +8,11 @@ Convex Optimization, 2004, sections 5.6.2 and 5.6.3).  For a maximization the
 language's multipliers are those of ``minimize -f``, so the bound reads
 ``p*(u) <= p*(0) + lambda*'u`` and the rate is ``+lambda*_i``.
 
-Each rate is measured by central differences on both sides with Richardson
+Each rate is measured by one-sided differences on both sides with Richardson
 extrapolation (steps ``h`` and ``h/2``, ``h`` a thousandth of the entry's
-right-hand-side scale, at most half a slack): when the left and right
+right-hand-side scale, at most half a slack; then ``h/8`` and ``h/64`` while the
+rates do not agree, since another constraint that starts to bind within the step
+bends p* without a kink at 0): when the left and right
 derivatives differ beyond the tolerance, ``p*`` has a kink there and both are
 reported instead of one number (the multiplier set is then not a single
 point, and the solver's multiplier lies between them).
@@ -18,11 +20,12 @@ point, and the solver's multiplier lies between them).
 
 from __future__ import annotations
 
-import time
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
 
+from dualize.deadline import Deadline
 from dualize.model.problem import Problem
 from dualize.multipliers import entries as E
 from dualize.multipliers.solve import Point, Posed
@@ -30,7 +33,10 @@ from dualize.numeric.instance import Instance
 
 STEP_REL = 1e-3
 AGREE_REL = 1e-4
-VALUE_NOISE = 1e-9  # relative accuracy assumed of an optimal value at tight tolerances
+REFINEMENTS = 2  # smaller steps tried when the rates do not agree at the first
+LOOSEST = 1e-2  # a check looser than this, relative to the problem's rates, is no check
+NOISY = "not checked: the re-solves are not accurate enough"
+REFINE_FACTOR = 8.0
 DEFAULT_LIMIT = 200
 DEFAULT_SECONDS = 300.0
 
@@ -85,30 +91,19 @@ class Sensitivity:
     def failed_checks(self) -> tuple[Rate, ...]:
         return tuple(r for r in self.rows if r.check.endswith("disagrees"))
 
-    def _repr_markdown_(self) -> str:
-        from dualize.multipliers.printing import sensitivity_markdown
-
-        return sensitivity_markdown(self)
-
-    def _repr_html_(self) -> str:
-        from dualize.multipliers.printing import sensitivity_html
-
-        return sensitivity_html(self)
-
-    def _repr_svg_(self) -> str | None:
-        """The rates as bars (None, so a notebook shows no picture, when nothing is priced)."""
-        from dualize.multipliers.plot import prices_svg
-
-        return prices_svg(self) if self.rows else None
-
 
 def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT,
-                seconds: float = DEFAULT_SECONDS) -> Sensitivity:
-    """Price every constraint of ``problem`` on ``instance`` and check every rate."""
+                deadline: Deadline | None = None,
+                tick: Callable[[], None] | None = None) -> Sensitivity:
+    """Price every constraint of ``problem`` on ``instance`` and check every rate; past
+    ``deadline`` the entries left are reported unchecked (one solve is never cut)."""
     from dualize.analysis.convexity import analyse_convexity
+    from dualize.analysis.measured import Measured
     from dualize.analysis.slater import strong_duality
+    from dualize.numeric.evaluate import evaluate_2d
 
-    verdict = strong_duality(problem, analyse_convexity(problem), instance.values)
+    verdict = strong_duality(problem, analyse_convexity(problem),
+                             Measured(instance.values, evaluate_2d))
     base = dict(problem=problem, instance=instance.source, verdict=verdict.status,
                 verdict_reason=verdict.reason)
     refusal = _refusal(problem)
@@ -129,7 +124,7 @@ def sensitivity(problem: Problem, instance: Instance, limit: int = DEFAULT_LIMIT
         return Sensitivity(status=start.status, value=float("nan"), refusal=(
             f"the problem on this instance is {start.status}: there is no optimal "
             "multiplier to read"), **base)
-    rows = _rows(posed, start, limit, time.monotonic() + seconds)
+    rows = _rows(posed, start, limit, deadline or Deadline(DEFAULT_SECONDS), tick)
     return Sensitivity(status=start.status, value=start.value, rows=tuple(rows), **base)
 
 
@@ -143,11 +138,15 @@ def _refusal(problem: Problem) -> str:
     return ""
 
 
-def _rows(posed: Posed, start: Point, limit: int, until: float) -> list[Rate]:
+def _rows(posed: Posed, start: Point, limit: int, deadline: Deadline,
+          tick: Callable[[], None] | None) -> list[Rate]:
     problem, instance = posed.problem, posed.instance
     sign = -1.0 if problem.sense == "minimize" else 1.0
+    everything = E.entries(problem, instance)
+    sizes = [abs(E.multiplier_entry(e, start.multipliers)) for e in everything]
+    scale = max((v for v in sizes if np.isfinite(v)), default=0.0)
     out = []
-    for k, entry in enumerate(E.entries(problem, instance)):
+    for k, entry in enumerate(everything):
         lam = E.multiplier_entry(entry, start.multipliers)
         gap = E.slack(entry, problem, instance, start.x)
         row = Rate(entry.name, entry.constraint.label, entry.constraint.relation, lam, gap,
@@ -156,11 +155,13 @@ def _rows(posed: Posed, start: Point, limit: int, until: float) -> list[Rate]:
             row = _replace(row, note="not checked: the solver returned no multiplier")
         elif k >= limit:
             row = _replace(row, note=f"not checked: only the first {limit} entries are")
-        elif time.monotonic() > until:
+        elif deadline.expired():
             row = _replace(row, note="not checked: the time limit was reached")
         else:
-            row = _check(posed, start, entry, row)
+            row = _check(posed, start, entry, row, scale)
         out.append(row)
+        if tick is not None:
+            tick()
     return out
 
 
@@ -178,26 +179,67 @@ def _step(entry: E.Entry, row: Rate) -> float:
     return step
 
 
-def _check(posed: Posed, start: Point, entry: E.Entry, row: Rate) -> Rate:
-    """Four re-solves (+-h, +-h/2) and the verdict on the rate."""
+def _check(posed: Posed, start: Point, entry: E.Entry, row: Rate, scale: float) -> Rate:
+    """The verdict at the step ``h``; up to two more steps, 8 times smaller or larger.
+
+    Another constraint that starts or stops binding within the step bends ``p*``
+    between 0 and ``h`` without a kink at 0: a smaller step no longer sees it, while a
+    true kink persists at every step, so the last step's verdict is kept.  A check
+    drowned in solver noise gets a larger step (never beyond half a slack).
+    """
     h = _step(entry, row)
+    cap = row.slack / 2 if not row.binds and row.slack > 0 else float("inf")
+    found = row
+    for _ in range(REFINEMENTS + 1):
+        found = _conclusive(_measure(posed, start, entry, row, h), scale, start.value, entry)
+        if found.check in ("disagrees", "kink", "kink-disagrees"):
+            h /= REFINE_FACTOR
+        elif found.note.startswith(NOISY) and h * REFINE_FACTOR <= cap:
+            h *= REFINE_FACTOR
+        else:
+            return found  # agreement, an edge, nothing solved: another step cannot help
+    return found
+
+
+def _conclusive(row: Rate, scale: float, p0: float, entry: E.Entry) -> Rate:
+    """A check whose tolerance (set by solver noise over the step) exceeds 1e-2 of the
+    problem's rates proves nothing: it is reported as not checked, with the reason.
+    (When every rate is near zero, the reference rate is a thousandth of p* per unit of
+    the entry's scale.)"""
+    ref = max(abs(row.rate), scale, 1e-3 * (1 + abs(p0)) / max(entry.scale, 1.0))
+    if row.check == "not-checked" or row.tolerance <= LOOSEST * ref:
+        return row
+    return _replace(row, check="not-checked", note=(
+        f"{NOISY} at this step (the agreement tolerance would be {row.tolerance:.2g})"))
+
+
+def _measure(posed: Posed, start: Point, entry: E.Entry, row: Rate, h: float) -> Rate:
+    """Four re-solves (+-h, +-h/2) and the verdict on the rate."""
     shape = posed.shifts[entry.constraint.label].shape
-    values = {}
+    values, statuses, accuracy = {}, [], start.tolerance
     for t in (h, h / 2, -h / 2, -h):
         point = posed.solve({entry.constraint.label: E.shift_for(entry, shape, t)})
         values[t] = point.value if point.solved else float("nan")
+        statuses.append(point.status)
+        accuracy = max(accuracy, point.tolerance if point.solved else 0.0)
+    if all(status == "infeasible" for status in statuses):
+        return _replace(row, step=h, check="not-checked", note=(
+            "any shift of this entry alone leaves the problem infeasible: the constraints "
+            "are dependent on this instance (p* is finite only on a subspace of shifts), "
+            "so the entry has no rate of its own"))
     p0 = start.value
     right = 2 * (values[h / 2] - p0) / (h / 2) - (values[h] - p0) / h
     left = 2 * (p0 - values[-h / 2]) / (h / 2) - (p0 - values[-h]) / h
-    tol = _tolerance(row.rate, left, right, p0, h)
+    tol = _tolerance(row.rate, left, right, accuracy * (1 + abs(p0)), h)
     return _judge(_replace(row, step=h, left=left, right=right, tolerance=tol),
                   posed.problem.sense == "minimize")
 
 
-def _tolerance(rate: float, left: float, right: float, p0: float, h: float) -> float:
-    """1e-4 relative, with a floor for the noise of optimal values divided by the step."""
+def _tolerance(rate: float, left: float, right: float, noise: float, h: float) -> float:
+    """1e-4 relative, with a floor for the noise of optimal values over the step: the
+    solver's gap tolerance times (1 + |p*|), amplified 6 times by the extrapolation."""
     sizes = [abs(v) for v in (rate, left, right) if np.isfinite(v)]
-    noise = 6 * VALUE_NOISE * (1 + abs(p0)) / h
+    noise = 6 * noise / h
     return max(AGREE_REL * max(sizes, default=0.0), noise)
 
 

@@ -16,26 +16,12 @@ import sympy
 
 from dualize.model import expr as ir
 from dualize.model.functions import lookup
+from dualize.model.sizes import size_of
 
 Values = Mapping[str, "np.ndarray | float"]
 Dims = Mapping[str, int]
 
-
-def size_of(size: sympy.Expr | int, dims: Dims) -> int:
-    """A symbolic size (``n``, ``m + 1``) as an integer, from ``dims``."""
-    if isinstance(size, int):
-        return size
-    if size.is_Integer:
-        return int(size)
-    if size.is_Symbol:
-        if size.name not in dims:
-            raise KeyError(f"no value for dimension {size.name}")
-        return int(dims[size.name])
-    free = sorted(size.free_symbols, key=lambda s: s.name)
-    missing = [s.name for s in free if s.name not in dims]
-    if missing:
-        raise KeyError(f"no value for dimension {', '.join(missing)}")
-    return int(size.subs({s: int(dims[s.name]) for s in free}))
+__all__ = ["Dims", "Values", "evaluate", "evaluate_2d", "size_of"]
 
 
 def shape_of(shape: ir.Shape, dims: Dims) -> tuple[int, int]:

@@ -299,13 +299,3 @@ def _matrix_violation(arr: np.ndarray, facts: frozenset[str],
             low = float(np.linalg.eigvalsh((arr + arr.T) / 2)[0])
             return f"it is not positive {word} (smallest eigenvalue about {low:.3g})"
     return None
-
-
-def random_instance(problem: Problem, dims: dict[str, int] | None = None,
-                    seed: int = 0) -> Instance:
-    """A random instance honouring every set; the feasibility rule is documented in
-    ``dualize.numeric.random_data`` (data alone on one side of a constraint is set
-    from a point inside the domains, with slack for inequalities)."""
-    from dualize.numeric.random_data import random_instance as draw
-
-    return draw(problem, dims, seed)

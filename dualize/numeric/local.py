@@ -19,6 +19,7 @@ from dualize.model import expr as ir
 from dualize.model.problem import Constraint, Domain, Problem, Variable
 from dualize.numeric.evaluate import evaluate_2d, shape_of
 from dualize.numeric.instance import Instance
+from dualize.numeric.solution import Solution
 
 STARTS = 12
 LARGE = 20  # above this many unknowns, finite-difference SLSQP runs are costly
@@ -33,8 +34,6 @@ FEAS_TOL = 1e-6
 def solve_local(problem: Problem, instance: Instance, fixed: dict[str, np.ndarray],
                 why: str) -> Any:
     """The best of several SLSQP runs from random points (seeded: deterministic)."""
-    from dualize.numeric.reference import Solution
-
     free = [v for v in problem.variables if v.name not in fixed]
     blocker = _unsupported(problem, free)
     if blocker:
@@ -199,5 +198,6 @@ def _dual_constraint(index: int, lhs: ir.Expr, relation: str, rhs: ir.Expr) -> C
     function = ir.Add((first, ir.Scale(minus_one, second)))
     label = f"c{index + 1}"
     multiplier = ir.Symbol(label, "auxiliary", function.shape)
-    return Constraint(label, _DUAL_KINDS[relation], relation, lhs, rhs,  # type: ignore[arg-type]
+    written = "==" if relation == "=" else relation  # a constraint is stated as written
+    return Constraint(label, _DUAL_KINDS[relation], written, lhs, rhs,  # type: ignore[arg-type]
                       function, multiplier, False)

@@ -21,7 +21,7 @@ scipy's HiGHS marginals in the tests.
 from __future__ import annotations
 
 import itertools
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -30,6 +30,7 @@ from dualize.duality.result import DualProblem
 from dualize.model.problem import Problem, Variable
 from dualize.numeric.evaluate import shape_of
 from dualize.numeric.instance import Instance
+from dualize.numeric.solution import Solution
 from dualize.numeric.translate import scalar, to_cvxpy
 
 __all__ = ["Solution", "solve_primal", "solve_dual", "to_cvxpy", "MAX_BINARY_ENTRIES"]
@@ -40,17 +41,6 @@ _STATUS = {
     "infeasible": "infeasible", "infeasible_inaccurate": "infeasible",
     "unbounded": "unbounded", "unbounded_inaccurate": "unbounded",
 }
-
-
-@dataclass(frozen=True)
-class Solution:
-    """A numeric solve: status, optimal value, the point, and multipliers by label."""
-
-    status: str
-    value: float
-    x: dict[str, np.ndarray | float] = field(default_factory=dict)
-    multipliers: dict[str, np.ndarray | float] = field(default_factory=dict)
-    note: str = ""
 
 
 def _worst(sense: str) -> float:
@@ -114,11 +104,11 @@ def solve_primal(problem: Problem, instance: Instance) -> Solution:
 def _solve_continuous(problem: Problem, instance: Instance,
                       fixed: dict[str, np.ndarray]) -> Solution:
     try:
-        built = _build_primal(problem, instance, fixed)
+        built = build_primal(problem, instance, fixed)
     except (ValueError, TypeError, ArithmeticError) as err:
         return _nonconvex(problem, instance, fixed, f"not certifiably convex: {err}")
     if not built.prob.is_dcp():
-        return _nonconvex(problem, instance, fixed, "not certifiably convex (DCP)")
+        return _nonconvex(problem, instance, fixed, "not certified convex by the reference's rules")
     status = run_solver(built.prob)
     return built.solution(status, problem.sense)
 
@@ -143,7 +133,7 @@ class _Built:
         return Solution(status, float(self.prob.value), dict(sorted(x.items())), mult)
 
 
-def _build_primal(problem: Problem, instance: Instance,
+def build_primal(problem: Problem, instance: Instance,
                   fixed: dict[str, np.ndarray]) -> _Built:
     import cvxpy as cp
 
@@ -258,7 +248,7 @@ def solve_dual(dual: DualProblem, instance: Instance) -> Solution:
     except (ValueError, TypeError, ArithmeticError) as err:
         return _local_dual(dual, instance, f"dual not certifiably concave: {err}")
     if not built.prob.is_dcp():
-        return _local_dual(dual, instance, "dual not certifiably concave (DCP)")
+        return _local_dual(dual, instance, "dual not certified concave by the reference's rules")
     status = run_solver(built.prob)
     return built.solution(status, dual.sense)
 

@@ -23,6 +23,7 @@ from dualize.duality.result import Derivation, DualProblem
 from dualize.model.problem import Problem
 from dualize.numeric.evaluate import evaluate, shape_of
 from dualize.numeric.instance import Instance
+from dualize.numeric.tolerance import tolerance
 
 
 @dataclass(frozen=True)
@@ -44,8 +45,6 @@ def weak_duality_samples(derivation: Derivation, instance: Instance, n: int = 8,
     ``primal_values`` when the reference solve succeeded), so a dual objective is
     tested against p* at every random dual-feasible point.
     """
-    from dualize.numeric.verify import tolerance
-
     rng = np.random.default_rng(seed)
     primal = [v for v in (_primal_sample(derivation.problem, instance, rng) for _ in range(n))
               if v is not None and math.isfinite(v)]
@@ -85,12 +84,12 @@ def _projected(variables: dict[str, Any], targets: dict[str, np.ndarray], constr
 
 def _primal_sample(problem: Problem, instance: Instance, rng: np.random.Generator
                    ) -> float | None:
-    from dualize.numeric.reference import _build_primal
+    from dualize.numeric.reference import build_primal
 
     if any(v.domain.kind in ("binary", "integer") for v in problem.variables):
         return None
     try:
-        built = _build_primal(problem, instance, {})
+        built = build_primal(problem, instance, {})
     except (ValueError, TypeError, ArithmeticError):
         return None
     targets = {k: 3.0 * rng.normal(size=v.shape) for k, v in sorted(built.variables.items())}
@@ -103,8 +102,8 @@ def _primal_sample(problem: Problem, instance: Instance, rng: np.random.Generato
 
 def _dual_sample(dual: DualProblem, instance: Instance, rng: np.random.Generator
                  ) -> float | None:
+    from dualize.numeric.dual_value import dual_function_value
     from dualize.numeric.reference import dual_constraints, dual_variable
-    from dualize.numeric.verify import dual_function_value
 
     if dual.unbounded:
         return None

@@ -140,6 +140,32 @@ def _quad_form(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
 SEMIDEFINITE_TOL = 1e-9
 
 
+def _form_over_scalar(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
+    """u'Pu / h with P positive semidefinite data and h a varying scalar: the
+    quadratic-over-linear function ||L'u||^2 / h (P = L L'), jointly convex for h > 0
+    (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 3.1.5)."""
+    if not (isinstance(expr, ir.Divide) and expr.shape.is_scalar and ctx.varies(expr.right)
+            and isinstance(expr.left, ir.MatMul) and len(expr.left.factors) >= 2):
+        return None
+    head_coefs, first = _peel(expr.left.factors[0])
+    tail_coefs, last = _peel(expr.left.factors[-1])
+    coefs, middle = head_coefs + tail_coefs, expr.left.factors[1:-1]
+    if last.shape.cols != 1 or pushed_transpose(first) != pushed_transpose(ir.Transpose(last)):
+        return None
+    if coefs or any(ctx.varies(f) for f in middle):
+        return None
+    u = ctx(last)
+    if middle:
+        p = evaluate_2d(ir.MatMul(middle) if len(middle) > 1 else middle[0], ctx.values,
+                        ctx.dims)
+        w, v = np.linalg.eigh((p + p.T) / 2)
+        scale = max(1.0, float(np.max(np.abs(w)))) if w.size else 1.0
+        if w.size and w[0] < -SEMIDEFINITE_TOL * scale:
+            return None
+        u = (np.sqrt(np.clip(w, 0.0, None))[:, None] * v.T) @ u
+    return _as_2d(ctx.cp, ctx.cp.quad_over_lin(u, scalar(ctx(expr.right))))
+
+
 def _semidefinite_form(cp: Any, u: CvxExpr, p: np.ndarray) -> CvxExpr:
     """u'Pu as +-||L'u||^2 when P is semidefinite up to rounding, else quad_form.
 
@@ -173,6 +199,9 @@ def _neg_entropy(expr: ir.Expr, ctx: _Ctx) -> CvxExpr | None:
             return -ctx.cp.entr(ctx(a))
         if isinstance(b, ir.Apply) and b.func == LOG.name and _same(b.arg, _negated(a)):
             return ctx.cp.entr(ctx(b.arg))  # a log(-a) = -(-a) log(-a) = entr(-a)
+        if (isinstance(b, ir.Apply) and b.func == LOG.name and isinstance(b.arg, ir.Divide)
+                and _same(b.arg.left, a) and b.arg.right.shape == a.shape):
+            return ctx.cp.rel_entr(ctx(a), ctx(b.arg.right))  # a log(a/q), jointly convex
     return None
 
 
@@ -228,6 +257,7 @@ def _as_2d(cp: Any, e: CvxExpr) -> CvxExpr:
 
 _RECOGNISERS: tuple[Callable[[ir.Expr, _Ctx], CvxExpr | None], ...] = (
     _quad_form, _squared_norm, _neg_entropy, _entropy_product, _log_sum_exp, _softplus,
+    _form_over_scalar,
 )
 
 

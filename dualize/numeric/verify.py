@@ -26,18 +26,19 @@ from typing import Any
 
 import numpy as np
 
-from dualize.duality.result import Derivation, DualProblem
+from dualize.duality.result import Derivation
 from dualize.numeric.dual_data import make_dual_feasible
-from dualize.numeric.instance import Instance, random_instance
+from dualize.numeric.dual_value import SOLVED, dual_function_value
+from dualize.numeric.instance import Instance
+from dualize.numeric.random_data import random_instance
 from dualize.numeric.samples import WeakDualitySamples, weak_duality_samples
+from dualize.numeric.solution import status_word
+from dualize.numeric.tolerance import tolerance
 from dualize.numeric.verify_words import CONSISTENT
 
 __all__ = ["CONSISTENT", "InstanceCheck", "VerifyReport", "WeakDualitySamples", "check_instance",
            "dual_function_value", "report_dict", "tolerance", "verify", "weak_duality_samples"]
 
-ABS_TOL = 1e-6
-REL_TOL = 1e-5
-_SOLVED = ("optimal", "inaccurate")
 
 
 @dataclass(frozen=True)
@@ -66,11 +67,6 @@ class VerifyReport:
     messages: tuple[str, ...] = ()
 
 
-def tolerance(p: float, d: float) -> float:
-    scale = max(1.0, abs(p) if math.isfinite(p) else 1.0, abs(d) if math.isfinite(d) else 1.0)
-    return ABS_TOL + REL_TOL * scale
-
-
 def verify(derivation: Derivation, instances: Sequence[Instance] = (),
            seeds: Sequence[int] = (), dims: dict[str, int] | None = None) -> VerifyReport:
     """Check ``derivation`` on the given instances and on random ones for ``seeds``.
@@ -95,13 +91,13 @@ def check_instance(derivation: Derivation, instance: Instance, seed: int | None
     primal = solve_primal(problem, instance)
     dual = solve_dual(derivation.dual, instance)
     dual_value, dual_status, note = dual.value, dual.status, dual.note
-    if dual.status == "unsupported" and derivation.dual.inner and primal.status in _SOLVED:
+    if dual.status == "unsupported" and derivation.dual.inner and primal.status in SOLVED:
         dual_value, dual_status, note = _at_reference(derivation, instance, primal.multipliers)
     if seed is None:  # a user's instance; random ones are feasible by construction
         primal = _confirmed(problem, instance, primal)
     sign = 1.0 if problem.sense == "minimize" else -1.0
     gap = sign * (primal.value - dual_value)
-    usable = primal.status in _SOLVED + ("local",) and math.isfinite(dual_value)
+    usable = primal.status in SOLVED + ("local",) and math.isfinite(dual_value)
     weak_ok = not usable or gap >= -tolerance(primal.value, dual_value)
     error = _multiplier_error(derivation, primal.multipliers, dual.x)
     notes = "; ".join(filter(None, (primal.note, note)))
@@ -116,11 +112,14 @@ def _confirmed(problem: Any, instance: Instance, primal: Any) -> Any:
     accepts points infeasible by 1e-9, and an infeasible instance has no optimum."""
     from dataclasses import replace
 
+    from dualize.analysis.measured import Measured
     from dualize.analysis.phase_one import feasible_exactly
+    from dualize.numeric.evaluate import evaluate_2d
 
-    if primal.status not in _SOLVED or not primal.x:
+    if primal.status not in SOLVED or not primal.x:
         return primal
-    if feasible_exactly(problem, instance, primal.x) is not False:
+    measured = Measured(instance, evaluate_2d)
+    if feasible_exactly(problem, measured, primal.x) is not False:
         return primal
     note = ("the solver's primal point meets the constraints only within its tolerance and "
             "no point meeting them exactly on the instance's values was found near it: the "
@@ -198,9 +197,10 @@ def summarize(checks: tuple[InstanceCheck, ...]) -> VerifyReport:
     max_gap = max((abs(c.gap) for c in usable), default=float("nan"))
     if messages or not usable:
         if not usable and not messages:
+            seen = {f"{status_word(c.primal_status)}/{status_word(c.dual_status)}"
+                    for c in checks}
             messages.append("no instance gave two comparable finite values: "
-                            + ", ".join(sorted({f"{c.primal_status}/{c.dual_status}"
-                                                for c in checks})))
+                            + ", ".join(sorted(seen)))
         return VerifyReport(checks, max_gap, "failed", tuple(messages + agree))
     gaps = [c for c in usable if c.gap > tolerance(c.primal_value, c.dual_value)]
     for c in gaps:
@@ -213,42 +213,6 @@ def summarize(checks: tuple[InstanceCheck, ...]) -> VerifyReport:
     return VerifyReport(checks, max_gap, "gap" if gaps else "zero-gap", tuple(messages))
 
 
-def dual_function_value(dual: DualProblem, instance: Instance, point: dict[str, Any]) -> float:
-    """The dual objective at ``point`` (multipliers by name), inner optimization included.
-
-    The point is taken as given: dual constraints are not checked here.
-    """
-    from dualize.numeric.evaluate import evaluate
-
-    values = {**instance.values, **point}
-    if not dual.inner:
-        with np.errstate(all="ignore"):
-            return float(evaluate(dual.objective, values, instance.dims))
-    return _inner_value(dual, Instance(values, instance.dims, instance.source))
-
-
-def _inner_value(dual: DualProblem, instance: Instance) -> float:
-    import cvxpy as cp
-
-    from dualize.numeric.reference import domain_constraints, make_variable, run_solver
-    from dualize.numeric.translate import scalar, to_cvxpy
-
-    variables, extra = {}, []
-    for var in dual.inner:
-        x, more = make_variable(var, instance.dims)
-        variables[var.name] = x
-        extra += more + domain_constraints(var, x, instance)
-    objective = scalar(to_cvxpy(dual.objective, variables, instance.values, instance.dims))
-    goal = cp.Minimize(objective) if dual.sense == "maximize" else cp.Maximize(objective)
-    prob = cp.Problem(goal, extra)
-    if not prob.is_dcp():
-        return float("nan")
-    status = run_solver(prob)
-    if status == "unbounded":
-        return -math.inf if dual.sense == "maximize" else math.inf
-    return float(prob.value) if status in _SOLVED else float("nan")
-
-
 def report_dict(report: VerifyReport) -> dict[str, Any]:
     """The report as JSON-ready data: non-finite numbers as the strings "inf", "-inf", "nan"."""
     return {
@@ -257,7 +221,8 @@ def report_dict(report: VerifyReport) -> dict[str, Any]:
         "messages": list(report.messages),
         "checks": [{
             "source": c.source, "seed": c.seed,
-            "primal_status": c.primal_status, "dual_status": c.dual_status,
+            "primal_status": status_word(c.primal_status),
+            "dual_status": status_word(c.dual_status),
             "primal_value": _json_number(c.primal_value),
             "dual_value": _json_number(c.dual_value), "gap": _json_number(c.gap),
             "multiplier_error": None if c.multiplier_error is None

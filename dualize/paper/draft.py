@@ -58,7 +58,7 @@ def translation_for(claim_arg: str, problem: Problem,
     claim cannot be found or translated.
     """
     path, label = split_claim_path(claim_arg)
-    tex = _read(path)
+    tex = read_draft(path)
     try:
         claims = find_claims(tex, path, label)
     except PaperError as err:
@@ -147,7 +147,7 @@ def _check_one(claim: PaperClaim, problem: Problem | None, problem_path: str | N
     return DraftCheck(claim, problem_path, translation, report)
 
 
-def _read(path: str) -> str:
+def read_draft(path: str) -> str:
     try:
         return Path(path).read_bytes().decode("utf-8").removeprefix("\ufeff")
     except OSError as err:

@@ -10,10 +10,27 @@ become vectors u and v.  With vector entries only, u is written ``a' * diag(y)``
 from __future__ import annotations
 
 from fractions import Fraction
+from typing import Protocol
 
 from dualize.paper import tree as T
-from dualize.paper.emit import ATOM_P, UNARY_P, Emitter, Index, Refusal, mentions
+from dualize.paper.notation import ATOM_P, UNARY_P, Index, Refusal, Symbol, mentions
 from dualize.paper.piece import Piece, join
+
+
+class Emitter(Protocol):
+    """What a double sum asks of the expression translator (``emit.Emitter``)."""
+
+    names: dict[str, Symbol]
+
+    def expression(self, node: T.Node, index: Index | None = None) -> Piece: ...
+
+    def wrapped(self, node: T.Node, index: Index | None, least: int) -> Piece: ...
+
+    def symbol(self, name: T.Name) -> Symbol: ...
+
+    def matrix_of(self, entry: T.Entry, index: Index) -> Piece: ...
+
+    def _is_row(self, node: T.Node, index: Index | None) -> bool: ...
 
 
 def sum_indices(node: T.Sum) -> tuple[tuple[Index, ...], T.Node]:

@@ -16,8 +16,9 @@ from dualize.model.expr import Shape
 from dualize.model.problem import Problem
 from dualize.paper import rules as R
 from dualize.paper import tree as T
-from dualize.paper.emit import Emitter, Index, Refusal, Symbol, free_use
+from dualize.paper.emit import Emitter
 from dualize.paper.locate import PaperClaim
+from dualize.paper.notation import Index, Refusal, Symbol, children, free_use
 from dualize.paper.piece import Piece, innermost
 from dualize.paper.reader import read_display
 from dualize.syntax.span import Span
@@ -94,8 +95,6 @@ def with_variables(paper: T.PaperProblem, problem: Problem,
 
 
 def _all_names(paper: T.PaperProblem) -> list[T.Name]:
-    from dualize.paper.emit import children
-
     out: list[T.Name] = []
     stack: list[T.Node] = [paper.objective, *paper.items]
     while stack:
@@ -118,8 +117,6 @@ def _is_index(name: T.Name, paper: T.PaperProblem) -> bool:
 
 
 def _sum_indices(paper: T.PaperProblem) -> set[str]:
-    from dualize.paper.emit import children
-
     out: set[str] = set()
     stack: list[T.Node] = [paper.objective, *paper.items]
     while stack:

@@ -67,3 +67,26 @@ def diagnostic_dict(d: Diagnostic) -> dict[str, object]:
 
 def diagnostics_json(diagnostics: Iterable[Diagnostic]) -> list[dict[str, object]]:
     return [diagnostic_dict(d) for d in diagnostics]
+
+
+def diagnostics_markdown(diagnostics: Iterable[Diagnostic], files: int) -> str:
+    """A Markdown table of findings (place, severity, rule, message) under a summary."""
+    found = list(diagnostics)
+    errors = sum(1 for d in found if d.severity == "error")
+    warnings = sum(1 for d in found if d.severity == "warning")
+    head = f"**{files} file(s) checked: {errors} error(s), {warnings} warning(s)**"
+    if not found:
+        return head
+    rows = [f"| `{_place(d)}` | {d.severity} | `{d.rule}` | {markdown_cell(d.message)} |"
+            for d in found]
+    return "\n".join([head, "", "| where | severity | rule | message |", "|---|---|---|---|",
+                      *rows])
+
+
+def _place(d: Diagnostic) -> str:
+    return f"{d.path}:{d.span.line}:{d.span.column}" if d.span else d.path
+
+
+def markdown_cell(text: str) -> str:
+    """Text safe inside a Markdown table cell: pipes escaped, one line."""
+    return text.replace("|", "\\|").replace("\n", " ")

@@ -122,7 +122,13 @@ class KKTView:
     @property
     def statements(self) -> tuple[str, ...]:
         """The conditions stated only in words, for sentences after the display."""
-        return tuple(line.note.rstrip(".") for line in self.lines if not line.relation)
+        return tuple(_sentence_case(line.note.rstrip(".")) for line in self.lines
+                     if not line.relation)
+
+
+def _sentence_case(text: str) -> str:
+    """A statement standing as a sentence opens with a capital letter."""
+    return text[:1].upper() + text[1:] if text[:1].isalpha() else text
 
 
 @dataclass(frozen=True)

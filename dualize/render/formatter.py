@@ -74,8 +74,22 @@ class TargetFormatter:
                 runs.append((True, self.name(piece)))
             else:
                 runs.append((True, self.formula(table.get(piece, piece))))
-        return "".join(self.inline(piece) if math else self.words(piece)
-                       for math, piece in _joined(runs))
+        joined = _joined(runs)
+        out = []
+        for index, (math, piece) in enumerate(joined):
+            if not math:
+                out.append(self.words(piece))
+                continue
+            after = joined[index + 1][1] if index + 1 < len(joined) else ""
+            if self.displays(piece) and after[:1] in (".", ",", ";", ":"):
+                piece += after[0]  # a displayed formula carries the sentence's punctuation
+                joined[index + 1] = (False, after[1:])
+            out.append(self.inline(piece))
+        return "".join(out)
+
+    def displays(self, math: str) -> bool:
+        """Whether this target sets the formula as a display of its own (too wide inline)."""
+        return False
 
     def formula(self, item: object) -> str:
         """One marked formula of a sentence, in this target's mathematics."""

@@ -7,6 +7,7 @@
 
 from __future__ import annotations
 
+import re
 import textwrap
 from typing import Any
 
@@ -66,6 +67,18 @@ def _escape_text(text: str) -> str:
     return "".join(out)
 
 
+_GROWING = re.compile(r"\{?\\left\(((?:(?!\\left|\\right|\\frac).)*?) ?\\right\)\}?")
+
+
+def plain_parentheses(latex: str) -> str:
+    """``{\\left(x \\right)}`` as ``(x)``, innermost first, where no fraction needs tall ones."""
+    while True:
+        shown = _GROWING.sub(r"(\1)", latex)
+        if shown == latex:
+            return shown
+        latex = shown
+
+
 def latex_size(size: Any) -> str:
     """A dimension (``n``, ``3``, ``n + 1``) through sympy's printer."""
     return IRLatexPrinter().doprint(size)
@@ -100,11 +113,19 @@ class LatexFormatter(TargetFormatter):
     set_of = staticmethod(latex_set)
     words = staticmethod(_escape_text)
 
+    def displays(self, math: str) -> bool:
+        return visible_width(math) > INLINE_WIDTH
+
     def inline(self, math: str) -> str:
         """Inline mathematics; a formula too wide for a line is displayed instead."""
-        if visible_width(math) > INLINE_WIDTH:
+        if self.displays(math):
             return "\n" + displayed(math) + "\n"
         return f"${math}$"
+
+    def scalar(self, value: Any) -> str:
+        """sympy's LaTeX of a scalar function, with ``\\log{\\left(t \\right)}`` written
+        ``\\log(t)`` as papers write it where nothing tall stands inside."""
+        return plain_parentheses(super().scalar(value))
 
     def gradient(self, variable: str, of: str) -> str:
         return rf"\nabla_{{{variable}}} {of}"

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import re
 
-DISPLAY_WIDTH = 64
+DISPLAY_WIDTH = 58
 """Visible characters of mathematics that fit on one displayed line."""
 
 INLINE_WIDTH = 36
@@ -23,11 +23,13 @@ CONTINUATION = r"\quad "
 
 
 def visible_width(latex: str) -> int:
-    """A rough count of the characters a formula shows: commands count one, markup none."""
+    """A rough count of the characters a formula shows: commands count one, markup none,
+    and a binary operator or relation two (TeX sets space on both sides of it)."""
     shown = re.sub(r"\\(left|right|quad|,|;|!)", "", latex)
     shown = re.sub(r"\\(mathbf|mathrm|operatorname|text|tfrac|frac)", "", shown)
+    spaced = len(re.findall(r" [-+=] | \\(leq|geq|odot|oslash|succeq|preceq|in) ", shown))
     shown = re.sub(r"\\[A-Za-z]+", "x", shown)
-    return len(re.sub(r"[{}^_\s]", "", shown))
+    return len(re.sub(r"[{}^_\s]", "", shown)) + spaced
 
 
 _OPEN, _CLOSE = "({[", ")}]"

@@ -18,7 +18,7 @@ from dualize.render.document import (
     unbounded_sentence,
 )
 from dualize.render.latex import LatexFormatter, align_block, problem_block
-from dualize.render.latex_breaks import CONTINUATION, INLINE_WIDTH, broken, visible_width
+from dualize.render.latex_breaks import CONTINUATION, broken
 from dualize.render.templating import fill
 
 __all__ = ["MarkdownFormatter", "render_markdown", "repr_markdown"]
@@ -34,7 +34,7 @@ class MarkdownFormatter(LatexFormatter):
 
     def inline(self, math: str) -> str:
         """Inline mathematics; a formula too wide for a line gets a ``$$`` block of its own."""
-        if visible_width(math) <= INLINE_WIDTH:
+        if not self.displays(math):
             return f"${math}$"
         rows = broken(math, joint=" \\\\\n&" + CONTINUATION)
         return "\n\n" + display("\\begin{aligned}\n&" + rows + "\n\\end{aligned}") + "\n\n"

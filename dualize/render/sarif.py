@@ -44,6 +44,8 @@ def _rule(kind: RuleKind) -> dict[str, Any]:
         "defaultConfiguration": {"level": _LEVEL[kind.severity]},
         "properties": {"stage": kind.stage},
     }
+    if kind.aliases:  # SARIF 2.1.0, section 3.49.4: ids a rule was known by before
+        out["deprecatedIds"] = list(kind.aliases)
     if kind.why:
         out["fullDescription"] = {"text": kind.why}
         out["help"] = {"text": kind.why}

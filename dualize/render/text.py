@@ -22,9 +22,15 @@ from dualize.render.document import (
 from dualize.render.formatter import TargetFormatter
 from dualize.render.names import unicode_subscript
 from dualize.render.templating import fill
-from dualize.render.text_printer import RELATIONS, IRTextPrinter, text_expr, unicode_scalar
+from dualize.render.text_printer import (
+    RELATIONS,
+    IRTextPrinter,
+    text_expr,
+    text_relation,
+    unicode_scalar,
+)
 
-__all__ = ["TextFormatter", "render_text", "text_expr"]
+__all__ = ["TextFormatter", "render_text", "text_expr", "text_relation"]
 
 _STYLES: dict[str, str] = {
     "heading": "1", "error": "31;1", "warning": "33;1", "info": "36",

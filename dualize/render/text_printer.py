@@ -136,6 +136,6 @@ def unicode_scalar(value: sympy.Basic) -> str:
         base, star, _ = value.func.__name__.partition("^*")
         args = ", ".join(unicode_scalar(a) for a in value.args)
         return f"{text_name(base)}{'*' if star else ''}({args})"
-    shown = StrPrinter({"order": "none"}).doprint(value)
+    shown = StrPrinter().doprint(value)
     shown = re.sub(r"\*\*(\d+)", lambda m: "".join(_SUPERSCRIPTS[c] for c in m.group(1)), shown)
     return shown.replace("**", "^").replace("*", "·")

@@ -13,7 +13,7 @@ same (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, sections 4.1.3 and
 4.3).  The replacement keeps going through sums, transposes and weights of known sign,
 since a nondecreasing function of t is least where t is; a negative weight swaps the
 roles of max and min.  Before that, every objective term and constraint with such a
-node must be convex in the minimized form by the composition rules of the analysis
+node must be convex in the minimized form by the convexity calculus of the analysis
 stage (a max under a negative weight is not), else it is refused, never guessed.
 
 The same lift serves the primal when a generated solver recovers x as a linear
@@ -154,7 +154,7 @@ class _Lifter:
             kinds = sorted({k for n in ir.walk(expr) if (k := _kink(n)) and self.moving(n)})
             raise DualizeError(
                 f"{self.subject.lead}{what} with {' and '.join(map(_a, kinds))} of "
-                f"{self.subject.moving} is not shown convex by the composition rules ({form}), "
+                f"{self.subject.moving} is not shown convex by the convexity calculus ({form}), "
                 "so no epigraph lift applies", 2
             )
 

@@ -1,12 +1,16 @@
-"""The syntax stage's kinds of diagnostic (one registered kind per defect)."""
+"""The syntax stage's kinds of diagnostic (one kind per defect, listed in ``KINDS``)."""
 
 from __future__ import annotations
 
-from dualize.diagnostics import RuleKind, register
+from dualize.diagnostics import RuleKind
+
+_KINDS: list[RuleKind] = []  # filled by this module alone, in order
 
 
 def _syntax(id: str, template: str, why: str) -> RuleKind:
-    return register(RuleKind(id, "error", template, why, "syntax"))
+    kind = RuleKind(id, "error", template, why, "syntax")
+    _KINDS.append(kind)
+    return kind
 
 
 SYNTAX_ERROR = _syntax(
@@ -80,3 +84,5 @@ NUMBER_OUT_OF_RANGE = _syntax(
     "number-out-of-range", "the number `{text}` is out of range: {why}",
     "Numbers are exact rationals; an exponent that large would take unbounded time "
     "and memory to expand.")
+
+KINDS: tuple[RuleKind, ...] = tuple(_KINDS)

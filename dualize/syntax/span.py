@@ -1,22 +1,10 @@
-"""Source positions, kept on every syntax node and carried into the IR."""
+"""Source positions, kept on every syntax node and carried into the IR.
 
-from __future__ import annotations
+The class lives in the base module ``dualize.span`` so that ``dualize.diagnostics``
+(below every stage) can carry one without importing the syntax stage; the syntax
+stage and those above it name it from here or from there alike.
+"""
 
-from dataclasses import dataclass
+from dualize.span import Span
 
-
-@dataclass(frozen=True)
-class Span:
-    """A region of one source file: 1-based lines and columns, end exclusive."""
-
-    line: int
-    column: int
-    end_line: int
-    end_column: int
-    start: int = 0  # character offsets into the text
-    end: int = 0
-
-    def merge(self, other: Span) -> Span:
-        first, last = (self, other) if self.start <= other.start else (other, self)
-        return Span(first.line, first.column, last.end_line, last.end_column,
-                    first.start, last.end)
+__all__ = ["Span"]

@@ -93,6 +93,6 @@ def objective_curvature(objective: str, over: str, data_lines: str = "") -> str:
 
 def rules_of(text: str, instance: object = None) -> list[str]:
     """The rule ids the analysis raises on ``text`` (sorted)."""
-    from dualize.analysis import analyze
+    from dualize.api import analyze
 
     return sorted(d.rule for d in analyze(load_problem(text), instance).diagnostics)

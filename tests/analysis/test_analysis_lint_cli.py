@@ -43,14 +43,14 @@ def folder(tmp_path: Path) -> Path:
 def test_default_reports_all_and_passes_without_errors(folder: Path) -> None:
     code, out = run(["lint", ".", "--format", "json"], folder)
     assert code == 0
-    assert rules(out) == ["curvature-unknown", "nonconvex-equality", "slater-undecided"]
+    assert rules(out) == ["convexity-undecided", "nonconvex-equality", "slater-undecided"]
 
 
 def test_select_by_prefix_and_ignore_by_id(folder: Path) -> None:
     code, out = run(["lint", ".", "--format", "json", "--select", "nonconvex,slater"], folder)
     assert rules(out) == ["nonconvex-equality", "slater-undecided"]
     code, out = run(["lint", ".", "--format", "json", "--ignore", "slater-undecided"], folder)
-    assert rules(out) == ["curvature-unknown", "nonconvex-equality"]
+    assert rules(out) == ["convexity-undecided", "nonconvex-equality"]
 
 
 def test_longest_selector_wins() -> None:
@@ -114,7 +114,7 @@ def test_sarif_output_is_stable(folder: Path) -> None:
     assert first == run(["lint", ".", "--format", "sarif"], folder)[1]
     log = json.loads(first)
     assert [r["ruleId"] for r in log["runs"][0]["results"]] == [
-        "slater-undecided", "curvature-unknown", "nonconvex-equality"]
+        "slater-undecided", "convexity-undecided", "nonconvex-equality"]
 
 
 def test_nearest_pyproject_without_our_table_is_passed_over(folder: Path) -> None:
@@ -128,3 +128,31 @@ def test_nearest_pyproject_without_our_table_is_passed_over(folder: Path) -> Non
     config = load_config(inner)
     assert config.ignore == ("curvature",) and config.source.endswith("pyproject.toml")
     assert not config.keeps("curvature-unknown") and config.keeps("slater-undecided")
+
+
+def test_former_rule_id_still_selects_and_ignores(folder: Path) -> None:
+    # The undecided-convexity rule was renamed; its former id stays an alias.
+    code, out = run(["lint", ".", "--format", "json", "--select", "curvature-unknown"], folder)
+    assert code == 0 and rules(out) == ["convexity-undecided"]
+    code, out = run(["lint", ".", "--format", "json", "--ignore", "curvature"], folder)
+    assert rules(out) == ["nonconvex-equality", "slater-undecided"]
+
+
+def test_former_rule_id_in_pyproject(folder: Path) -> None:
+    (folder / "pyproject.toml").write_text('[tool.dualize]\nignore = ["curvature-unknown"]\n',
+                                           encoding="utf-8")
+    code, out = run(["lint", ".", "--format", "json"], folder)
+    assert code == 0 and rules(out) == ["nonconvex-equality", "slater-undecided"]
+
+
+def test_sarif_names_the_former_id(folder: Path) -> None:
+    # SARIF 2.1.0 (OASIS, 2020), section 3.49.4: deprecatedIds lists a rule's former ids.
+    log = json.loads(run(["lint", ".", "--format", "sarif"], folder)[1])
+    rules_ = {r["id"]: r for r in log["runs"][0]["tool"]["driver"]["rules"]}
+    assert rules_["convexity-undecided"]["deprecatedIds"] == ["curvature-unknown"]
+    assert "deprecatedIds" not in rules_["slater-fails"]
+
+
+def test_an_unknown_selector_is_still_refused(folder: Path) -> None:
+    code, out = run(["lint", ".", "--select", "curvatures"], folder)
+    assert code == 2 and "unknown rule id or prefix: curvatures" in out

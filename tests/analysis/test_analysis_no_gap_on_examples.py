@@ -16,7 +16,7 @@ SOLVED = ("optimal", "local")
 
 def _case(path: Path) -> tuple[object, object, object, object]:
     pytest.importorskip("cvxpy")
-    from dualize.analysis import analyze
+    from dualize.api import analyze
     from dualize.duality import derive
     from dualize.model import load_file
     from dualize.numeric.instance import read_instance
@@ -47,7 +47,7 @@ def test_verdict_matches_the_gap(path: Path) -> None:
 def test_most_examples_are_checked() -> None:
     """Guard against a vacuous pass: the examples hold many guaranteed, solvable cases."""
     pytest.importorskip("cvxpy")
-    from dualize.analysis import analyze
+    from dualize.api import analyze
     from dualize.model import load_file
     from dualize.numeric.instance import read_instance
 

@@ -13,7 +13,7 @@ import numpy as np
 import pytest
 from analysis_fixtures import load_problem, rules_of
 
-from dualize.analysis import analyze
+from dualize.api import analyze
 
 BALL = ("data r in R\ndata c in R^n\nminimize c' * x\nover x in R^n\n"
         "subject to\n  ball: ||x|| <= r\n")

@@ -11,8 +11,8 @@ import numpy as np
 import pytest
 from analysis_fixtures import load_problem
 
-from dualize.analysis import analyze
-from dualize.diagnostics import rule_table
+from dualize.api import analyze
+from dualize.lint import rule_table
 
 TRIGGERS = [
     # minimizing a concave function is not a convex problem (section 4.2.1)
@@ -27,7 +27,7 @@ TRIGGERS = [
      "data F in S^n\nminimize x\nover x in R\ns.t.\n  q: x^2 * identity(n) succeq F\n",
      None, 5),
     # x'Wx with W only symmetric: no rule decides (and sizes are symbolic)
-    ("curvature-unknown", "data W in S^n\nminimize x' * W * x\nover x in R^n\n", None, 2),
+    ("convexity-undecided", "data W in S^n\nminimize x' * W * x\nover x in R^n\n", None, 2),
     ("integer-variables", "data c in R^n\nminimize c' * x\nover x in {0,1}^n\n", None, 3),
     # exercise 5.21
     ("slater-fails", "minimize exp(-x)\nover x in R, y in R_++\ns.t.\n  c: x^2 / y <= 0\n",

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from analysis_fixtures import load_problem
 
-from dualize.analysis import analyze
+from dualize.api import analyze
 
 
 def verdict(text: str, instance: object = None) -> tuple[str, str, object]:
@@ -98,10 +98,10 @@ def test_constraint_classes() -> None:
     a = analyze(load_problem(
         "data A in R^(m,n)\ndata b in R^m\ndata F in S^n\n"
         "minimize sum(x)\nover x in R^n, X in S^n\nsubject to\n"
-        "  aff: A*x <= b\n  cvx: ||x|| <= 1\n  eqa: sum(x) == 1\n  neq: x' * x == 1\n"
+        "  aff: A*x <= b\n  ball: ||x|| <= 1\n  eqa: sum(x) == 1\n  neq: x' * x == 1\n"
         "  sup: ||x|| >= 1\n  lmi: X succeq F\n"))
     assert dict(a.constraint_classes) == {
-        "aff": "affine-inequality", "cvx": "convex-inequality", "eqa": "affine-equality",
+        "aff": "affine-inequality", "ball": "convex-inequality", "eqa": "affine-equality",
         "neq": "nonaffine-equality", "sup": "nonconvex-inequality",
         "lmi": "linear-matrix-inequality"}
     assert a.convex is False

@@ -93,7 +93,7 @@ def test_half_instead_of_a_quarter_is_a_valid_bound_at_half_the_optimum() -> Non
 
 
 def test_counterexample_file_is_plain_instance_json(tmp_path: Path) -> None:
-    # The instance file format of LANGUAGE.md: only data names and dimension symbols.
+    # The instance file format of docs/language.md: only data names and dimension symbols.
     problem = example("drone_thrust_qp")
     target = tmp_path / "c.json"
     check_claim(problem, claim_text("qp_sign_error"), seeds=SEEDS,

@@ -78,7 +78,7 @@ def test_lp_multipliers_agree_with_highs_marginals() -> None:
 
 def _random_instances(derivation, seed: int, dims):  # type: ignore[no-untyped-def]
     from dualize.numeric.dual_data import make_dual_feasible
-    from dualize.numeric.instance import random_instance
+    from dualize.numeric.random_data import random_instance
 
     return [make_dual_feasible(derivation, random_instance(derivation.problem, dims, seed),
                                seed)]

@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import multiprocessing
 import os
+import re
 import subprocess
 import sys
 from pathlib import Path
@@ -76,7 +77,7 @@ def test_a_warm_entry_is_used_without_deriving(private_cache: Path,
     assert _entropy_derivation_text() == cold
 
 
-@pytest.mark.parametrize("damage", ["garbage", "truncated", "foreign", "hostile"])
+@pytest.mark.parametrize("damage", ["garbage", "truncated", "foreign", "hostile", "flipped"])
 def test_a_damaged_entry_is_ignored_and_rebuilt(private_cache: Path, damage: str) -> None:
     cold = _entropy_derivation_text()
     entries = _entries(private_cache)
@@ -91,9 +92,19 @@ def test_a_damaged_entry_is_ignored_and_rebuilt(private_cache: Path, damage: str
             entry = json.loads(text)
             entry["stamp"] = "0-other-version"
             path.write_text(json.dumps(entry))
-        else:
+        elif damage == "hostile":
             entry = json.loads(text)
             entry["payload"] = {"outcome": {"closed_form": True, "value": ["__import__", "os"]}}
+            entry["digest"] = cache.disk_cache._digest(entry["payload"])
+            path.write_text(json.dumps(entry))
+        else:  # a digit changed in place: still valid JSON, caught by the digest
+            entry = json.loads(text)
+            before = json.dumps(entry["payload"])
+            digit = re.search(r"\d", before)
+            assert digit is not None
+            flipped = "7" if digit.group() != "7" else "3"
+            after = before[: digit.start()] + flipped + before[digit.end():]
+            entry["payload"] = json.loads(after)
             path.write_text(json.dumps(entry))
     assert _entropy_derivation_text() == cold
     for path in _entries(private_cache):

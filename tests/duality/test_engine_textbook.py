@@ -259,7 +259,7 @@ def test_concave_quadratic_objective_makes_the_dual_minus_infinity() -> None:
 
 
 def test_maximization_is_dualized_as_an_upper_bound() -> None:
-    # LANGUAGE.md sign conventions (common practice): maximize f has the dual
+    # docs/language.md sign conventions (common practice): maximize f has the dual
     # minimize h with h = sup_x (f - sum y f_i) >= p*.  For maximize -x'x + 2 c'x
     # with no constraints the dual is the constant c'c.
     d = _derive("data c in R^n\nmaximize -(x' * x) + 2 * c' * x\nover x in R^n")

@@ -99,3 +99,17 @@ def test_numeric_forms_agree_with_the_definitions() -> None:
     huber = np.where(np.abs(u) <= 1, u**2 / 2, np.abs(u) - 0.5)
     assert np.allclose(QUADLIN.numpy.callable()(u), huber)
     assert np.allclose(LOGCOST.numpy.callable()(u), np.log1p(np.exp(-u)))
+
+
+def test_joint_relative_entropy_dual_is_an_exponential_cone_condition() -> None:
+    # inf over u, v > 0 of u log(u/v) + g u + h v is 0 where h >= exp(-g - 1) and minus
+    # infinity elsewhere: the perspective of w log w, whose conjugate is exp(s - 1)
+    # (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, sections 3.2.6 and 3.3,
+    # from memory).  Here g = a 1 and h = A'fit.
+    data = "data A in R^(m,n)\ndata b in R^m"
+    d = _derive(data + "\nminimize sum(relent(u, v))\nover u in R^n_+, v in R^n_++\n"
+                "subject to\n  a: sum(u) == 1\n  fit: A*v == b")
+    claim = _claim(data, "maximize -b' * fit - a\nover a in R, fit in R^m\nsubject to\n"
+                   "  A' * fit - exp(-a * ones(n) - ones(n)) >= 0")
+    _check(d, claim)
+    assert any(s.rule == "minimize-perspective" for s in d.steps)

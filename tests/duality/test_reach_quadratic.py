@@ -130,3 +130,37 @@ def test_kernel_ridge_dual_depends_on_the_kernel_only() -> None:
     assert _no_matrix_inequality(d)
     [rec] = d.recovery
     assert rec.formula is not None and "kernel expansion" in rec.note
+
+
+def test_explicit_features_enter_only_through_the_gram_matrix() -> None:
+    # The soft-margin dual with explicit features X depends on X only through X X', and
+    # w = X' diag(y) a makes w't a kernel expansion (Schoelkopf and Smola, Learning with
+    # Kernels, 2002, chapter 7, from memory).
+    data = "data X in R^(m,n)\ndata y in R^m\ndata C in R_++"
+    d = _derive(data + "\nminimize 1/2 * ||w||^2 + C * sum(s)\nover w in R^n, b in R, "
+                "s in R^m\nsubject to\n  a: y .* (X*w + b) >= 1 - s\n  t: s >= 0")
+    [note] = [n for n in d.notes if "Gram matrix" in n]
+    assert "X X'" in note and "kernel expansion" in note
+    # A problem where X also enters alone (an equality A x = b has b'nu, and A' nu
+    # in a norm ball) gets no such note.
+    d2 = _derive("data A in R^(m,n)\ndata b in R^m\nminimize ||x||_1\nover x in R^n\n"
+                 "subject to\n  nu: A*x == b")
+    assert not any("Gram matrix" in n for n in d2.notes)
+
+
+def test_variance_cap_dual_has_no_matrix_inequality() -> None:
+    # maximize mu'x s.t. x'Sx <= r, 1'x = 1 with S positive definite has the dual
+    # minimize (mu - nu 1)'S^-1(mu - nu 1)/(4 lam) + nu + r lam over lam >= 0 (the
+    # Lagrangian's maximizer x = S^-1(mu - nu 1)/(2 lam); S. Boyd and L. Vandenberghe,
+    # Convex Optimization, 2004, section 5.2.4 and exercise 5.1 in spirit, from memory).
+    data = "data mu in R^n\ndata S in S^n_++\ndata r in R_++"
+    d = _derive(data + "\nmaximize mu' * x\nover x in R^n\nsubject to\n  lam: x' * S * x <= r\n"
+                "  nu: sum(x) == 1")
+    claim = _claim(data, "minimize (nu * ones(n) - mu)' * inv(S) * (nu * ones(n) - mu) / "
+                   "(4 * lam) + nu + r * lam\nover lam in R_+, nu in R\nsubject to\n  lam >= 0")
+    _check(d, claim)
+    assert _no_matrix_inequality(d)
+    singular = _derive(data.replace("S^n_++", "S^n_+") + "\nmaximize mu' * x\nover x in R^n\n"
+                       "subject to\n  lam: x' * S * x <= r\n  nu: sum(x) == 1")
+    assert _no_matrix_inequality(singular)
+    assert singular.dual.closed_form

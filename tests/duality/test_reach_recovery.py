@@ -114,3 +114,16 @@ def test_recovery_wording_is_specific() -> None:
     for text in (LASSO, NNLS):
         d = _derived(text)
         assert all("support vector" not in r.note for r in d.recovery)
+
+
+def test_nonnegative_lasso_dual_is_one_sided() -> None:
+    # Over x >= 0 the 1-norm is 1'x, so the lasso's norm ball becomes the one-sided
+    # -A'z <= lam (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, section 5.7,
+    # from memory; the dual norm of the positive part for other norms).
+    from tests.duality.test_engine_textbook import _check, _claim
+
+    data = "data A in R^(m,n)\ndata b in R^m\ndata lam in R_++"
+    d = _derived(data + "\nminimize ||A*x - b||^2 + lam * ||x||_1\nover x in R^n_+")
+    claim = _claim(data, "maximize -1/4 * z' * z - b' * z\nover z in R^m\nsubject to\n"
+                   "  -A' * z <= lam")
+    _check(d, claim)

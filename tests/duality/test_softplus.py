@@ -13,7 +13,7 @@ import numpy as np
 import pytest
 import sympy
 
-from dualize.analysis.dcp import curvature
+from dualize.analysis.convexity_calculus import curvature
 from dualize.duality import derive
 from dualize.duality.conjugate import conjugate
 from dualize.model import expr as ir

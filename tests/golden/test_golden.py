@@ -1,7 +1,7 @@
 """Each bundled example renders exactly as its reviewed golden files.
 
 The golden files were read by eye against the textbook forms of the duals they
-show (sources in REFERENCES.md of the project; e.g. Cortes and Vapnik 1995 for
+show (e.g. Cortes and Vapnik 1995 for
 parts_soft_margin, Boyd and Vandenberghe 2004 section 5.1.3 for
 survey_least_norm; from memory) and are regenerated only on purpose with
 tests/golden/regenerate.py.

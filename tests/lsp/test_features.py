@@ -58,9 +58,12 @@ def test_symbols_definition_completion(tmp_path: Path) -> None:
         assert where.range.start == position_of(text, "w in R^n")
 
         items = await s.client.text_document_completion_async(lsp.CompletionParams(
-            _doc(uri), position_of(text, "R^n,")))
+            _doc(uri), position_of(text, "R^n,", 3)))
         labels = {i.label for i in items.items}
         assert {"R^n_+", "S^n_+", "{0,1}"} <= labels and "alpha" not in labels
+        [plus] = [i for i in items.items if i.label == "R^n_+"]  # replaces the typed "R^n"
+        assert plus.text_edit.range == lsp.Range(position_of(text, "R^n,"),
+                                                 position_of(text, "R^n,", 3))
         items = await s.client.text_document_completion_async(lsp.CompletionParams(
             _doc(uri), position_of(text, "1/2")))
         labels = {i.label for i in items.items}

@@ -40,7 +40,7 @@ def test_positions_count_utf16_code_units() -> None:
 def test_slow_derivation_times_out_and_leaves_lint_free(monkeypatch: pytest.MonkeyPatch) -> None:
     release = threading.Event()
 
-    def slow(snap: object) -> object:
+    def slow(snap: object, seconds: float) -> object:
         release.wait(20)
         raise RuntimeError("released")
 
@@ -52,7 +52,7 @@ def test_slow_derivation_times_out_and_leaves_lint_free(monkeypatch: pytest.Monk
             snap = await work.snapshot("untitled:a", 1, GOOD, 20)
             started = time.monotonic()
             with pytest.raises(TimeoutError):
-                await work.derived(snap, 0.3)
+                await work.derived(snap, 0.3, 60)
             assert time.monotonic() - started < 5
             done = await asyncio.wait_for(work.analysed(snap, 20), 20)
             assert done.findings is not None
@@ -88,3 +88,31 @@ def test_hover_on_the_objective_states_the_dual() -> None:
     shown, _ = hover_text(snap, text.index("minimize") + 3, derive(snap.loaded.problem))
     assert "dual: maximize over l" in shown and "`-bᵀ l`" in shown
     assert "`Aᵀ l = -c`" in shown and "`l ∈ ℝ^m_+`" in shown
+
+
+def test_hover_on_functions_states_domain_and_curvature() -> None:
+    # log is concave and increasing on the positive reals, exp convex and increasing
+    # on all reals (Boyd and Vandenberghe, Convex Optimization, 2004, section 3.1.5)
+    text = "data a in R^n\nminimize sum(exp(x)) - sum(log(x + a))\nover x in R^n\n"
+    snap = snapshot("untitled:f", 1, text)
+    shown, mention = hover_text(snap, text.index("log") + 1, None)
+    assert mention is not None and mention.kind == "function"
+    assert "concave, increasing" in shown and "positive numbers" in shown
+    shown, _ = hover_text(snap, text.index("exp"), None)
+    assert "convex, increasing" in shown and "every real number" in shown
+    shown, _ = hover_text(snap, text.index("sum"), None)
+    assert "affine" in shown
+
+
+def test_hovers_say_when_the_time_limit_cut_the_derivation() -> None:
+    from dataclasses import replace
+
+    from dualize.api import derive
+    from dualize.deadline import DeadlineExceeded
+
+    snap = snapshot("untitled:a", 1, GOOD)
+    note = f"Time limit: {DeadlineExceeded('simplifying the dual', 2.0)}."
+    cut = replace(derive(snap.loaded.problem), notes=(note,))
+    for at in (GOOD.index("c:"), GOOD.index("minimize")):
+        shown, _ = hover_text(snap, at, cut)
+        assert f"Unfinished: {note}" in shown

@@ -266,3 +266,28 @@ def test_weighted_terms_as_written(tmp_path: Path, objective: str, r_text: str) 
     assert code == 0
     data = json.loads(out)
     assert data["r"] == r_text and f"bound: {r_text} <= t" in data["other_form"]
+
+
+def test_time_limits_leave_entries_and_points_unchecked() -> None:
+    """A run past its time budget says what it did not do (common practice: a bounded run)."""
+    code, out, _ = run("prices", str(EXAMPLES / "parts_soft_margin.prob"), "--time-limit",
+                       "0.000001", "--format", "json")
+    assert code == 0
+    entries = json.loads(out)["entries"]
+    assert all(e["check"] == "not-checked" and "time limit" in e["note"] for e in entries)
+    code, out, _ = run("trade-off", str(EXAMPLES / "weighbridge_ridge.prob"),
+                       "--sweep-weights", "0.1:10:3", "--time-limit", "0.000001",
+                       "--format", "json")
+    assert code == 1
+    assert all("time limit" in p["note"] for p in json.loads(out)["points"])
+
+
+@pytest.mark.parametrize("args", [
+    ["reform", str(EXAMPLES / "spectrum_lasso.prob"), "-o", "/nonexistent-folder/x.prob"],
+    ["prices", str(EXAMPLES / "joinery_lp.prob"), "--data", "/nonexistent-folder/i.json"],
+    ["trade-off", str(EXAMPLES / "weighbridge_ridge.prob"), "--png", "/nonexistent-folder/a"],
+    ["prices", str(EXAMPLES / "no_such_problem.prob")],
+])
+def test_unusable_paths_are_one_line_and_exit_2(args: list[str]) -> None:
+    code, _, err = run(*args)
+    assert code == 2 and "Traceback" not in err and "internal error" not in err

@@ -39,3 +39,20 @@ def test_pair_object_shows_the_other_form() -> None:
     pair = other_form(EXAMPLES / "weighbridge_ridge.prob")
     assert "bound: ||x||^2 <= t" in pair._repr_markdown_()
     assert "&lt;= t" in pair._repr_html_()
+
+
+def test_html_escapes_the_problem_text() -> None:
+    """A title is user text: the notebook's HTML shows it, never runs it (common practice)."""
+    from dualize.numeric.instance import Instance
+
+    text = ('title "<script>alert(1)</script>"\nminimize x\nover x in R\nsubject to\n'
+            "  c: x >= 1\n")
+    report = prices(load_problem(text), Instance({}, {}))
+    html = report._repr_html_()
+    assert "<script>" not in html and "&lt;script&gt;" in html
+
+
+def test_the_rates_picture_is_reproducible() -> None:
+    path = EXAMPLES / "joinery_lp.prob"
+    report = prices(path, str(path.with_suffix(".json")))
+    assert report._repr_svg_() == report._repr_svg_()

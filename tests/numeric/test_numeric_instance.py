@@ -1,7 +1,7 @@
 """Reading instances: sizes inferred and checked, values checked against their sets.
 
 The set memberships (sign, symmetry, semidefiniteness by eigenvalues) are the
-definitions of the sets in LANGUAGE.md; the eigenvalue test for S^n_+ and
+definitions of the sets in docs/language.md; the eigenvalue test for S^n_+ and
 S^n_++ is common practice.
 """
 

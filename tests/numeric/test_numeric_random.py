@@ -31,7 +31,8 @@ from numeric_handbuilt import (
 
 from dualize.model import expr as ir
 from dualize.model.problem import Problem
-from dualize.numeric.instance import Instance, random_instance, set_violation
+from dualize.numeric.instance import Instance, set_violation
+from dualize.numeric.random_data import random_instance
 from dualize.numeric.reference import make_variable
 from dualize.numeric.translate import to_cvxpy
 

@@ -28,7 +28,8 @@ from scipy.special import logsumexp
 
 from dualize.model import expr as ir
 from dualize.model.problem import Problem
-from dualize.numeric.instance import Instance, random_instance
+from dualize.numeric.instance import Instance
+from dualize.numeric.random_data import random_instance
 from dualize.numeric.reference import MAX_BINARY_ENTRIES, solve_primal, to_cvxpy
 
 
@@ -44,8 +45,8 @@ def bounded_lp_instance(seed: int, rows: int = 7, cols: int = 3) -> Instance:
 @pytest.mark.parametrize("seed", [0, 1, 2, 3])
 def test_inequality_lp_multipliers_match_highs_marginals(seed: int) -> None:
     # scipy.optimize.linprog documentation, HiGHS marginals: the marginals are the
-    # sensitivities d p*/d b, the negated multipliers of LANGUAGE.md
-    # (/work/shared/REFERENCES.md; common practice).
+    # sensitivities d p*/d b, the negated multipliers of docs/language.md
+    # (common practice).
     inst = bounded_lp_instance(seed)
     v = inst.values
     ref = linprog(v["c"], A_ub=v["A"], b_ub=v["b"], bounds=(None, None), method="highs")
@@ -72,7 +73,7 @@ def test_standard_lp_equality_and_sign_multipliers_match_highs(seed: int) -> Non
 
 
 def test_maximization_multipliers_are_those_of_minimize_minus_f() -> None:
-    # LANGUAGE.md: maximize f is dualized as minimize -f; HiGHS marginals of that LP.
+    # docs/language.md: maximize f is dualized as minimize -f; HiGHS marginals of that LP.
     inst = bounded_lp_instance(4)
     base = inequality_lp()
     p = replace(base, sense="maximize", objective=neg(base.objective))

@@ -36,7 +36,7 @@ BLOCKS = [
 ]
 
 
-def cvx_variables() -> dict[str, cp.Variable]:
+def reference_variables() -> dict[str, cp.Variable]:
     out = {}
     for name in ("x", "y"):
         v = cp.Variable((4, 1), name=name)
@@ -46,7 +46,7 @@ def cvx_variables() -> dict[str, cp.Variable]:
 
 
 def compare(expr: ir.Expr) -> None:
-    got = to_cvxpy(expr, cvx_variables(), VALUES, DIMS).value
+    got = to_cvxpy(expr, reference_variables(), VALUES, DIMS).value
     want = evaluate(expr, VALUES, DIMS)
     np.testing.assert_allclose(np.asarray(got, dtype=float).reshape(np.shape(want)), want,
                                rtol=1e-9, atol=1e-12)
@@ -59,7 +59,7 @@ def test_every_node_translates_to_the_same_value(expr: ir.Expr, _: object) -> No
         # x ./ y has no certified convex form: translation refuses (the reference then
         # falls back to local solves) rather than building a wrong expression.
         with pytest.raises(ValueError, match="quotient"):
-            to_cvxpy(expr, cvx_variables(), VALUES, DIMS)
+            to_cvxpy(expr, reference_variables(), VALUES, DIMS)
         return
     compare(expr)
 
@@ -75,7 +75,7 @@ def test_recognised_blocks_are_certified_convex() -> None:
     for label, expr in BLOCKS:
         if label == "quotient by a variable":
             continue
-        assert to_cvxpy(expr, cvx_variables(), psd, DIMS).is_convex(), label
+        assert to_cvxpy(expr, reference_variables(), psd, DIMS).is_convex(), label
 
 
 def test_pushed_transpose_identifies_both_spellings() -> None:

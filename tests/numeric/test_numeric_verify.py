@@ -1,6 +1,6 @@
 """Textbook duals, built by hand, solved on their own and checked against the primal.
 
-Duals are written in the sign convention of LANGUAGE.md (L = f0 + sum y_i f_i
+Duals are written in the sign convention of docs/language.md (L = f0 + sum y_i f_i
 with f_i the normalized constraint functions).
 """
 
@@ -27,7 +27,7 @@ from test_numeric_reference import bounded_lp_instance
 from dualize.duality.result import Derivation, DualConstraint, DualProblem, DualVariable
 from dualize.model import expr as ir
 from dualize.model.problem import Problem
-from dualize.numeric.instance import random_instance
+from dualize.numeric.random_data import random_instance
 from dualize.numeric.reference import solve_dual, solve_primal
 from dualize.numeric.verify import verify, weak_duality_samples
 
@@ -95,7 +95,8 @@ def test_least_norm_dual_agrees_with_primal(seed: int) -> None:
     inst = random_instance(p, {"m": 3, "n": 5}, seed)
     primal, dual = solve_primal(p, inst), solve_dual(least_norm_dual(p), inst)
     assert dual.value == pytest.approx(primal.value, rel=1e-6)
-    # p* = b'(AA')^-1 b for A of full row rank (REFERENCES.md, section 5.1.3, from memory)
+    # p* = b'(AA')^-1 b for A of full row rank (Boyd and Vandenberghe, Convex
+    # Optimization, 2004, section 5.1.3, from memory)
     av, bv = inst.values["A"], inst.values["b"]
     assert primal.value == pytest.approx(bv @ np.linalg.solve(av @ av.T, bv), rel=1e-6)
 
@@ -204,7 +205,7 @@ def test_unbounded_dual_is_infeasible_minus_infinity() -> None:
 
 
 def test_maximization_dual_is_an_upper_bound() -> None:
-    # maximize -c'x s.t. Ax <= b; LANGUAGE.md: h = sup_x (f - lam'(Ax - b)), giving
+    # maximize -c'x s.t. Ax <= b; docs/language.md: h = sup_x (f - lam'(Ax - b)), giving
     # minimize b'lam s.t. A'lam + c = 0, lam >= 0 (from the 5.2.1 derivation).
     base = inequality_lp()
     p = replace(base, sense="maximize", objective=neg(base.objective))

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import pytest
 
-from dualize.diagnostics import rule_table
+from dualize.lint import rule_table
 from dualize.paper import rules as R
 from dualize.paper.locate import PaperError, find_claims
 from tests.paper.helpers import fragment

@@ -1,6 +1,6 @@
 """Names of the language as readers of papers expect them.
 
-The Greek spellings are those of LANGUAGE.md (renderers show them as letters);
+The Greek spellings are those of docs/language.md (renderers show them as letters);
 the LaTeX commands are LaTeX's own names for the Greek letters (L. Lamport,
 LaTeX: A Document Preparation System, 2nd ed., 1994, table 3.3; from memory).
 """

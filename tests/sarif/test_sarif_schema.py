@@ -9,7 +9,8 @@ from pathlib import Path
 
 import pytest
 
-from dualize.diagnostics import Diagnostic, rule_table
+from dualize.diagnostics import Diagnostic
+from dualize.lint import rule_table
 from dualize.render.sarif import artifact_uri, sarif_log
 from dualize.syntax.span import Span
 

@@ -1,9 +1,9 @@
 """Nonsmooth and nonquadratic building blocks, recognised in a Lagrangian term,
 and the infimum of each against a linear term (its conjugate).
 
-A term is an atom when it is ``c * phi(arg)`` with ``c`` a positive scalar free
-of the decision variables and ``phi`` one of the building blocks below.  The
-rule used with an atom is always
+A term is a building block when it is ``c * phi(arg)`` with ``c`` a positive
+scalar free of the decision variables and ``phi`` one of the kinds below.  The
+rule used with a building block is always
 
     inf over u of  c phi(u) - s'u  =  -(c phi)*(s),
 
@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import sympy
 
 from dualize.duality import build as b
-from dualize.duality.normal import Term, rebuild
+from dualize.duality.normal import Term, expand, rebuild, tidy
 from dualize.duality.scalar import Scope, to_sympy
 from dualize.model.expr import (
     Apply,
@@ -44,9 +44,9 @@ DUAL_NORM = {"2": "2", "1": "inf", "inf": "1"}
 
 
 @dataclass(frozen=True)
-class Atom:
+class BuildingBlock:
     """``coef * phi(arg)``; ``kind`` names phi, ``body`` is the elementwise
-    expression for separable atoms (phi applied to ``arg`` entry by entry)."""
+    expression for separable building blocks (phi applied to ``arg`` entry by entry)."""
 
     coef: Expr
     kind: str  # norm | square | hinge | abs | logsumexp | separable
@@ -59,7 +59,7 @@ class Atom:
 
 @dataclass(frozen=True)
 class Infimum:
-    """inf over u of atom(u) - s'u: a value, constraints on s, and the minimizer."""
+    """inf over u of block(u) - s'u: a value, constraints on s, and the minimizer."""
 
     value: Expr
     constraints: tuple[tuple[Expr, str, Expr], ...]
@@ -67,10 +67,12 @@ class Infimum:
     statement: str
     formulas: tuple[tuple[str, object], ...] = ()
     """The formulas the statement marks as ``$key$`` (see ``result.Step``)."""
+    entries: Expr | None = None
+    """For a separable term: phi*(s) entry by entry (``value`` is minus its sum)."""
 
 
-def recognise(term: Term, variables: frozenset[str]) -> Atom | None:
-    """The atom in one collected term, or None."""
+def recognise(term: Term, variables: frozenset[str]) -> BuildingBlock | None:
+    """The block in one collected term, or None."""
     dependent = [s for s in term.scalars if depends_on(s, variables)]
     if not term.chain and len(dependent) > 1 and all(d.shape.is_scalar for d in dependent):
         return _scalar_product(term, dependent, variables)
@@ -98,27 +100,27 @@ def _sign(coef: Expr) -> str | None:
     return None
 
 
-def _shaped(coef: Expr, e: Expr) -> Atom | None:
+def _shaped(coef: Expr, e: Expr) -> BuildingBlock | None:
     if isinstance(e, Norm):
-        return Atom(coef, "norm", e.arg, e.p)
+        return BuildingBlock(coef, "norm", e.arg, e.p)
     if isinstance(e, Power) and e.exponent == 2 and isinstance(e.base, Norm) and e.base.p == "2":
-        return Atom(coef, "square", e.base.arg)
+        return BuildingBlock(coef, "square", e.base.arg)
     if isinstance(e, Apply) and e.func == LOG.name:
         inner = _summed(e.arg)
         if inner is not None and isinstance(inner, Apply) and inner.func == EXP.name:
-            return Atom(coef, "logsumexp", inner.arg)
+            return BuildingBlock(coef, "logsumexp", inner.arg)
     if isinstance(e, Apply) and e.func == ABS.name and e.shape.is_scalar:
-        return Atom(coef, "abs", e.arg)
+        return BuildingBlock(coef, "abs", e.arg)
     if isinstance(e, Extremum) and e.kind == "max" and is_zero(e.right):
-        return Atom(coef, "hinge", e.left)
+        return BuildingBlock(coef, "hinge", e.left)
     weighted = _weighted(e)
     weight, inner = weighted if weighted is not None else (None, _summed(e))
     if inner is None:
         return None
     if isinstance(inner, Apply) and inner.func == ABS.name:
-        return Atom(coef, "abs", inner.arg, weight=weight)
+        return BuildingBlock(coef, "abs", inner.arg, weight=weight)
     if isinstance(inner, Extremum) and inner.kind == "max" and is_zero(inner.right):
-        return Atom(coef, "hinge", inner.left, weight=weight)
+        return BuildingBlock(coef, "hinge", inner.left, weight=weight)
     return None
 
 
@@ -164,7 +166,7 @@ def _summed(e: Expr) -> Expr | None:
 
 
 def _scalar_product(term: Term, dependent: list[Expr],
-                    variables: frozenset[str]) -> Atom | None:
+                    variables: frozenset[str]) -> BuildingBlock | None:
     """c * f1(x) * f2(x) * ... for a scalar x (``x * log(x)``): one scalar function."""
     product = dependent[0]
     for d in dependent[1:]:
@@ -174,7 +176,7 @@ def _scalar_product(term: Term, dependent: list[Expr],
     return _separable(coef, product, variables)
 
 
-def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> Atom | None:
+def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> BuildingBlock | None:
     """coef * sum(E(v)) with E elementwise in one decision variable v."""
     inner = _summed(e)
     if inner is None and isinstance(e, MatMul) and len(e.factors) == 2:
@@ -192,7 +194,7 @@ def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> Atom | None:
 
     if scalar_form(inner, var, sympy.Symbol("t", real=True)) is None:
         return _separable_of_affine(coef, inner, variables)
-    return Atom(coef, "separable", var, body=inner)
+    return BuildingBlock(coef, "separable", var, body=inner)
 
 
 PLACE = Symbol("⟨u⟩", "auxiliary", b.SCALAR)
@@ -200,7 +202,8 @@ PLACE = Symbol("⟨u⟩", "auxiliary", b.SCALAR)
 language can be spelled this way, so it never captures a variable of the problem."""
 
 
-def _separable_of_affine(coef: Expr, inner: Expr, variables: frozenset[str]) -> Atom | None:
+def _separable_of_affine(coef: Expr, inner: Expr,
+                         variables: frozenset[str]) -> BuildingBlock | None:
     """phi applied entrywise to an affine argument: the argument is split off later.
 
     ``body`` is phi applied to a placeholder symbol of the argument's shape.
@@ -221,7 +224,7 @@ def _separable_of_affine(coef: Expr, inner: Expr, variables: frozenset[str]) -> 
             continue
         if scalar_form(body, place, sympy.Symbol("t", real=True)) is None:
             continue
-        return Atom(coef, "separable", arg, body=body)
+        return BuildingBlock(coef, "separable", arg, body=body)
     return None
 
 
@@ -244,16 +247,16 @@ def _find(e: Expr, name: str) -> Symbol:
     return next(n for n in walk(e) if isinstance(n, Symbol) and n.name == name)
 
 
-def with_argument(atom: Atom, u: Symbol) -> Atom:
-    """The atom applied to the split variable u instead of its affine argument."""
+def with_argument(block: BuildingBlock, u: Symbol) -> BuildingBlock:
+    """The block applied to the split variable u instead of its affine argument."""
     from dualize.model.expr import substitute
 
-    if atom.kind != "separable" or atom.body is None:
-        return Atom(atom.coef, atom.kind, u, atom.p, weight=atom.weight)
-    place = Symbol(PLACE.name, "auxiliary", atom.arg.shape)
-    body = substitute(atom.body, {place: u}) if depends_on(atom.body, {PLACE.name}) else \
-        substitute(atom.body, {atom.arg: u})
-    return Atom(atom.coef, "separable", u, body=body)
+    if block.kind != "separable" or block.body is None:
+        return BuildingBlock(block.coef, block.kind, u, block.p, weight=block.weight)
+    place = Symbol(PLACE.name, "auxiliary", block.arg.shape)
+    body = substitute(block.body, {place: u}) if depends_on(block.body, {PLACE.name}) else \
+        substitute(block.body, {block.arg: u})
+    return BuildingBlock(block.coef, "separable", u, body=body)
 
 
 def _sole_variable(e: Expr, variables: frozenset[str]) -> Symbol | None:
@@ -263,53 +266,75 @@ def _sole_variable(e: Expr, variables: frozenset[str]) -> Symbol | None:
     return next(iter(found)) if len(found) == 1 else None
 
 
-# -- the infimum of each atom against a linear term ----------------------------
+# -- the infimum of each block against a linear term ----------------------------
 
 
-def infimum(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
-    """inf over u of atom(u) - s'u, where ``u`` stands for the atom's argument."""
-    handler = _INFIMUM.get(atom.kind)
-    return handler(atom, s, u) if handler else None
+def infimum(block: BuildingBlock, s: Expr, u: Expr) -> Infimum | None:
+    """inf over u of block(u) - s'u, where ``u`` stands for the block's argument."""
+    handler = _INFIMUM.get(block.kind)
+    return handler(block, s, u) if handler else None
 
 
-def _norm(atom: Atom, s: Expr, u: Expr) -> Infimum:
-    q = DUAL_NORM[atom.p]
-    bound = ((_norm_of(s, q) if not s.shape.is_scalar else Apply(ABS.name, s), "<=", atom.coef),)
-    return _stated(atom, s, u, b.num(0), bound, None,
+def _norm(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
+    q = DUAL_NORM[block.p]
+    bound = ((_norm_of(s, q) if not s.shape.is_scalar else Apply(ABS.name, s), "<=", block.coef),)
+    return _stated(block, s, u, b.num(0), bound, None,
                    "the infimum of $#term$ is 0 where {conditions} (a bound on the dual norm) "
                    "and minus infinity elsewhere")
 
 
-def _square(atom: Atom, s: Expr, u: Expr) -> Infimum:
-    c = atom.coef
+def orthant_norm(atom: BuildingBlock, s: Expr, u: Expr) -> Infimum | None:
+    """inf over u >= 0 of c||u||_p - s'u = 0 when ||max(s, 0)||_q <= c, else minus infinity.
+
+    On the orthant s'u <= max(s, 0)'u <= ||max(s, 0)||_q ||u||_p, so the infimum is 0
+    (at u = 0) when the dual norm of the positive part is at most c; otherwise the
+    maximizer of max(s, 0)'u over the unit ball, nonnegative since p-norms are absolute,
+    makes the expression fall without bound.  For p = 1 the condition is s <= c entry
+    by entry.
+    """
+    if atom.kind != "norm" or s.shape.is_scalar:
+        return None
+    q = DUAL_NORM[atom.p]
+    if atom.p == "1":
+        cons = (s, "<=", b.broadcast(atom.coef, s.shape))
+    else:
+        cons = (Norm(b.maximum(s, b.zeros(s.shape)), q), "<=", atom.coef)  # type: ignore[arg-type]
+    return _stated(atom, s, u, b.num(0), (cons,), None,
+                   "over the nonnegative orthant the infimum of $#term$ is 0 where "
+                   "{conditions} (the dual norm of the positive part) and minus infinity "
+                   "elsewhere")
+
+
+def _square(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
+    c = block.coef
     value = b.scale(b.scale(b.num(-1), b.power(b.scale(b.num(4), c), sympy.Integer(-1))),
                     b.inner(s, s))
     minimizer = b.scale(b.power(b.scale(b.num(2), c), sympy.Integer(-1)), s)
-    return _stated(atom, s, u, value, (), minimizer,
+    return _stated(block, s, u, value, (), minimizer,
                    "$#term$ is least at $#at$, where the gradient vanishes")
 
 
-def _hinge(atom: Atom, s: Expr, u: Expr) -> Infimum:
+def _hinge(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
     zero = b.zeros(s.shape)
-    weight = atom.coef if atom.weight is None else b.scale(atom.coef, atom.weight)
-    c = b.broadcast(weight, s.shape) if atom.weight is None else weight
-    return _stated(atom, s, u, b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
+    weight = block.coef if block.weight is None else b.scale(block.coef, block.weight)
+    c = b.broadcast(weight, s.shape) if block.weight is None else weight
+    return _stated(block, s, u, b.num(0), ((s, ">=", zero), (s, "<=", c)), None,
                    "$#term$ is bounded below exactly when {conditions}, with infimum 0")
 
 
-def _abs(atom: Atom, s: Expr, u: Expr) -> Infimum:
-    if atom.weight is not None:
+def _abs(block: BuildingBlock, s: Expr, u: Expr) -> Infimum:
+    if block.weight is not None:
         unsigned = s.arg if isinstance(s, Scale) and isinstance(s.factor, Number) and \
             s.factor.value == -1 else s  # |-s| = |s|
-        bound = ((Apply(ABS.name, unsigned), "<=", b.scale(atom.coef, atom.weight)),)
-        return _stated(atom, s, u, b.num(0), bound, None, "$#term$ is bounded below exactly "
+        bound = ((Apply(ABS.name, unsigned), "<=", b.scale(block.coef, block.weight)),)
+        return _stated(block, s, u, b.num(0), bound, None, "$#term$ is bounded below exactly "
                        "when {conditions} entry by entry, with infimum 0")
     lhs = Apply(ABS.name, s) if s.shape.is_scalar else _norm_of(s, "inf")
-    return _stated(atom, s, u, b.num(0), ((lhs, "<=", atom.coef),), None,
+    return _stated(block, s, u, b.num(0), ((lhs, "<=", block.coef),), None,
                    "$#term$ is bounded below exactly when {conditions}, with infimum 0")
 
 
-def _stated(atom: Atom, s: Expr, u: Expr, value: Expr,
+def _stated(block: BuildingBlock, s: Expr, u: Expr, value: Expr,
             constraints: tuple[tuple[Expr, str, Expr], ...], minimizer: Expr | None,
             sentence: str) -> Infimum:
     """An infimum with its sentence in the problem's own symbols: ``$#term$`` is the term
@@ -318,7 +343,7 @@ def _stated(atom: Atom, s: Expr, u: Expr, value: Expr,
 
     from dualize.duality.result import Equation
 
-    term = b.sub(atom_expression(replace(atom, arg=u)), b.inner(s, u))
+    term = b.sub(block_expression(replace(block, arg=u)), b.inner(s, u))
     formulas: list[tuple[str, object]] = [("#term", term)]
     for index, (lhs, rel, rhs) in enumerate(constraints):
         formulas.append((f"#c{index}", Equation(lhs, rel, rhs)))  # type: ignore[arg-type]
@@ -329,14 +354,14 @@ def _stated(atom: Atom, s: Expr, u: Expr, value: Expr,
                    tuple(formulas))
 
 
-def _logsumexp(atom: Atom, s: Expr, u: Expr) -> Infimum | None:
-    c = atom.coef
+def _logsumexp(block: BuildingBlock, s: Expr, u: Expr) -> Infimum | None:
+    c = block.coef
     if not s.shape.is_vector:
         return None
     ratio = b.scale(b.power(c, sympy.Integer(-1)), s)
     entropy = b.sum_all(b.hadamard(s, b.apply(LOG.name, ratio)))
     simplex = ((s, ">=", b.zeros(s.shape)), (b.sum_all(s), "=", c))
-    return _stated(atom, s, u, b.neg(entropy), simplex, None, "the conjugate of log-sum-exp "
+    return _stated(block, s, u, b.neg(entropy), simplex, None, "the conjugate of log-sum-exp "
                    "is the negative entropy on the simplex {conditions}")
 
 
@@ -357,23 +382,26 @@ def _norm_of(s: Expr, p: str) -> Expr:
         factor = -s.factor.value
         inner = Norm(s.arg, p)  # type: ignore[arg-type]
         return inner if factor == 1 else b.scale(Number(factor), inner)
+    terms = expand(s)
+    if terms and all(t.coef < 0 for t in terms):  # ||-A'l - c|| = ||A'l + c||
+        return Norm(tidy(b.neg(s)), p)  # type: ignore[arg-type]
     return Norm(s, p)  # type: ignore[arg-type]
 
 
-def atom_expression(atom: Atom) -> Expr:
-    """The atom as an IR expression again (for an infimum that is kept)."""
-    u = atom.arg
-    if atom.kind == "norm":
-        body: Expr = Norm(u, atom.p)  # type: ignore[arg-type]
-    elif atom.kind == "square":
+def block_expression(block: BuildingBlock) -> Expr:
+    """The block as an IR expression again (for an infimum that is kept)."""
+    u = block.arg
+    if block.kind == "norm":
+        body: Expr = Norm(u, block.p)  # type: ignore[arg-type]
+    elif block.kind == "square":
         body = b.power(Norm(u, "2"), sympy.Integer(2))
-    elif atom.kind in ("hinge", "abs"):
-        inner: Expr = Extremum("max", u, b.zeros(u.shape)) if atom.kind == "hinge" else \
+    elif block.kind in ("hinge", "abs"):
+        inner: Expr = Extremum("max", u, b.zeros(u.shape)) if block.kind == "hinge" else \
             Apply(ABS.name, u)
-        body = b.sum_all(inner) if atom.weight is None else b.inner(atom.weight, inner)
-    elif atom.kind == "logsumexp":
+        body = b.sum_all(inner) if block.weight is None else b.inner(block.weight, inner)
+    elif block.kind == "logsumexp":
         body = Apply(LOG.name, b.sum_all(Apply(EXP.name, u)))
     else:
-        assert atom.body is not None
-        body = b.sum_all(atom.body)
-    return b.scale(atom.coef, body)
+        assert block.body is not None
+        body = b.sum_all(block.body)
+    return b.scale(block.coef, body)

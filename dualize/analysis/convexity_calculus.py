@@ -1,8 +1,8 @@
-"""Curvature by the composition rules of disciplined convex programming.
+"""Curvature by the convexity calculus: the operations that keep convexity.
 
-Source of the rules: M. Grant, S. Boyd and Y. Ye, Disciplined convex
-programming, 2006, and S. Boyd and L. Vandenberghe, Convex Optimization, 2004,
-section 3.2 (operations that preserve convexity).  A composition h(g(x)) is
+Source of the rules: S. Boyd and L. Vandenberghe, Convex Optimization, 2004,
+section 3.2 (operations that preserve convexity; the same rule set is stated
+for modelling by M. Grant, S. Boyd and Y. Ye, 2006).  A composition h(g(x)) is
 convex when h is convex and, for each argument, h is nondecreasing and g
 convex, or h nonincreasing and g concave, or g affine.  The curvature of a
 vector or matrix expression is entrywise.  Where no rule applies the answer is
