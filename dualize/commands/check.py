@@ -50,7 +50,7 @@ def check_command(file: str, claim_path: str, name_map: str, data: str | None, c
 
     The claim may omit the data declarations of FILE.  It is compared
     symbolically and by solving it on instances.  Exit status: 0 for
-    "equivalent", 1 for any other verdict, 2 for bad input.
+    "equivalent" and "tight, not attained", 1 for any other verdict, 2 for bad input.
     """
     from dualize import api
 

@@ -1,7 +1,8 @@
 """``dualize check-draft``: every marked dual of a LaTeX draft, checked in one call.
 
-Exit codes: 0 when every claim is "equivalent"; 1 when any is not, or cannot be
-read or checked; 2 for bad input (an unreadable draft, no marked claim).
+Exit codes: 0 when every claim is "equivalent" (or "tight, not attained"); 1 when any
+is not, or cannot be read or checked; 2 for bad input (an unreadable draft, no marked
+claim).
 """
 
 from __future__ import annotations

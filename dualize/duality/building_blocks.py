@@ -106,7 +106,7 @@ def _shaped(coef: Expr, e: Expr) -> BuildingBlock | None:
     if isinstance(e, Power) and e.exponent == 2 and isinstance(e.base, Norm) and e.base.p == "2":
         return BuildingBlock(coef, "square", e.base.arg)
     if isinstance(e, Apply) and e.func == LOG.name:
-        inner = _summed(e.arg)
+        inner = summed_argument(e.arg)
         if inner is not None and isinstance(inner, Apply) and inner.func == EXP.name:
             return BuildingBlock(coef, "logsumexp", inner.arg)
     if isinstance(e, Apply) and e.func == ABS.name and e.shape.is_scalar:
@@ -114,7 +114,7 @@ def _shaped(coef: Expr, e: Expr) -> BuildingBlock | None:
     if isinstance(e, Extremum) and e.kind == "max" and is_zero(e.right):
         return BuildingBlock(coef, "hinge", e.left)
     weighted = _weighted(e)
-    weight, inner = weighted if weighted is not None else (None, _summed(e))
+    weight, inner = weighted if weighted is not None else (None, summed_argument(e))
     if inner is None:
         return None
     if isinstance(inner, Apply) and inner.func == ABS.name:
@@ -129,7 +129,7 @@ def _weighted(e: Expr) -> tuple[Expr, Expr] | None:
     from dualize.model.expr import Hadamard
 
     pair = None
-    summed = _summed(e)
+    summed = summed_argument(e)
     if isinstance(summed, Hadamard):
         pair = (summed.left, summed.right)
         if not _nonneg_data(pair[0]):
@@ -147,7 +147,7 @@ def _nonneg_data(w: Expr) -> bool:
     return isinstance(w, Symbol) and w.role == "data" and bool(w.facts & {"nonneg", "pos"})
 
 
-def _summed(e: Expr) -> Expr | None:
+def summed_argument(e: Expr) -> Expr | None:
     """E when e is sum(E) (written sum(E) or 1'E)."""
     if isinstance(e, SumAll):
         return e.arg
@@ -178,7 +178,7 @@ def _scalar_product(term: Term, dependent: list[Expr],
 
 def _separable(coef: Expr, e: Expr, variables: frozenset[str]) -> BuildingBlock | None:
     """coef * sum(E(v)) with E elementwise in one decision variable v."""
-    inner = _summed(e)
+    inner = summed_argument(e)
     if inner is None and isinstance(e, MatMul) and len(e.factors) == 2:
         first, second = e.factors
         if isinstance(first, Transpose) and first.arg.shape.cols == 1:

@@ -549,18 +549,20 @@ def finiteness_sentence(dual: DualProblem, sense: str) -> str:
     Outside the implicit constraints the infimum of the Lagrangian is minus infinity
     (plus infinity for the supremum of a maximization); by weak duality an unbounded
     dual proves the primal infeasible, and a dual with no feasible multiplier gives
-    no bound (S. Boyd and L. Vandenberghe, Convex Optimization, 2004, sections 5.1.2
-    and 5.2.2, from memory).
+    no bound: it says nothing of the primal unless strong duality holds, when d* =
+    p* = -inf makes the primal unbounded (S. Boyd and L. Vandenberghe, Convex
+    Optimization, 2004, sections 5.1.2 and 5.2.2, from memory; a problem with a
+    duality gap may have an infeasible dual and a finite primal optimum).
     """
     if sense == "minimize":
         return ("Outside these conditions the dual function is minus infinity. The dual is "
                 "unbounded above only if the primal is infeasible; if no multiplier "
-                "satisfies the conditions, the dual gives no bound and the primal is "
-                "unbounded below or infeasible.")
+                "satisfies the conditions, the dual gives no bound, and where strong "
+                "duality holds the primal is then unbounded below.")
     return ("Outside these conditions the dual function is plus infinity. The dual is "
             "unbounded below only if the primal is infeasible; if no multiplier satisfies "
-            "the conditions, the dual gives no bound and the primal is unbounded above or "
-            "infeasible.")
+            "the conditions, the dual gives no bound, and where strong duality holds the "
+            "primal is then unbounded above.")
 
 
 def _notes(work: Work, dual: DualProblem) -> tuple[str, ...]:

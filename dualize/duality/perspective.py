@@ -56,10 +56,10 @@ def relative_entropy_pair(term: Term, variables: dict[str, Variable]) -> tuple[
 
 def _factor_pairs(e: Expr) -> list[tuple[Expr, Expr]]:
     """The two factors of sum(a .* f) or a' f (either order)."""
-    from dualize.duality.building_blocks import _summed
+    from dualize.duality.building_blocks import summed_argument
     from dualize.model.expr import MatMul, Transpose
 
-    inner = _summed(e)
+    inner = summed_argument(e)
     if isinstance(inner, Hadamard):
         return [(inner.left, inner.right), (inner.right, inner.left)]
     if isinstance(e, MatMul) and len(e.factors) == 2 and isinstance(e.factors[0], Transpose):

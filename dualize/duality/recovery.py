@@ -22,27 +22,26 @@ from typing import Any
 from dualize.duality.result import Equation, Recovery
 from dualize.model.expr import Expr, depends_on
 
-_BALL = {"1": "||s||_inf <= c", "2": "||s||_2 <= c", "inf": "||s||_1 <= c"}
 _ALIGNED = {
-    "1": "entry by entry, {v}_i = 0 where |s_i| < c, and {v}_i has the sign of s_i where "
-         "|s_i| = c (the support of {v} is where the ball constraint is active)",
-    "2": "{v} = 0 where ||s||_2 < c, and {v} is a nonnegative multiple of s where "
-         "||s||_2 = c",
-    "inf": "where ||s||_1 = c, |{v}_i| = ||{v}||_inf on the entries with s_i != 0, with the "
-           "sign of s_i",
+    "1": "entry by entry, an entry of ${v}$ is zero where the matching entry of that "
+         "coefficient is below the weight in magnitude, and has that entry's sign where it "
+         "reaches the weight (the support of ${v}$ is where the ball constraint is active)",
+    "2": "${v}$ is zero where the ball constraint is slack, and a nonnegative multiple of "
+         "that coefficient where it is active",
+    "inf": "where the ball constraint is active, the entries of ${v}$ at which that "
+           "coefficient is nonzero have the largest magnitude, with the coefficient's sign",
 }
 
 
 def subgradient_note(name: str, atom: Any) -> str:
     """What the optimum says of a variable minimized against a nonsmooth building block."""
     if atom.kind == "norm":
-        p = atom.p
-        return (f"{name} is the multiplier of the dual's norm-ball constraint {_BALL[p]} "
-                f"(s the negated coefficient of {name} in the Lagrangian, c the weight of the "
-                f"norm): {_ALIGNED[p].format(v=name)}; "
-                f"at the optimum s'{name} = c ||{name}||_{p}")
-    return (f"{name} is a subgradient point of the building block: 0 lies in the "
-            f"subdifferential of the Lagrangian in {name}; recover it from the KKT conditions")
+        return (f"${name}$ is the multiplier of the dual's norm-ball constraint on the "
+                f"negated coefficient of ${name}$ in the Lagrangian: "
+                f"{_ALIGNED[atom.p].format(v=name)}; at the optimum that coefficient's inner "
+                f"product with ${name}$ equals the weighted norm of ${name}$")
+    return (f"${name}$ is a subgradient point of the building block: $0$ lies in the "
+            f"subdifferential of the Lagrangian in ${name}$; recover it from the KKT conditions")
 
 
 def with_split_relations(r: Recovery, aux_args: dict[str, Expr],

@@ -121,9 +121,14 @@ def _gram(n: int, rng: np.random.Generator, shift: float) -> np.ndarray:
 
 def _low_rank_gram(n: int, rng: np.random.Generator) -> np.ndarray:
     """A singular member of S^n_+ (rank about n/2): S^n_+ data need not be invertible,
-    and the singular case is the one that tests the range conditions."""
-    g = rng.normal(size=(n, max(1, n // 2)))
-    return g @ g.T / n
+    and the singular case is the one that tests the range conditions.
+
+    The factor has small dyadic entries (multiples of 1/4), so every product and sum
+    is exact in floating point and the matrix is semidefinite exactly, as the exact
+    test of an instance's sets requires (a float Gram matrix ``G G'`` is not: rounding
+    leaves eigenvalues of about -1e-17 that an exact test rightly rejects)."""
+    g = rng.integers(-4, 5, size=(n, max(1, n // 2))) / 4.0
+    return g @ g.T / 4.0
 
 
 def _stored(arr: np.ndarray) -> np.ndarray | float:
