@@ -10,7 +10,8 @@ peak resident memory of each process (``/usr/bin/time -v`` when present, else th
 process's own ``getrusage``).
 
 Run: python bench/bench_solver.py [--quick] [--only NAME] [--timeout SECONDS]
-Writes bench/results_solver.json (not tracked).
+Writes bench/results_solver.json (not tracked); bench/solver_results.json keeps the run the
+README quotes.
 """
 
 from __future__ import annotations

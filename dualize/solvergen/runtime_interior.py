@@ -258,10 +258,8 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
     it happened.
     """
     objective, gradient, hessian, a, b, z, lo, hi = _with_slacks(p, d, z0, lo, hi)
-    extra = len(z) - len(z0)
     low, up = np.isfinite(lo), np.isfinite(hi)
-    wl, wu = low.astype(float), up.astype(float)
-    y = np.zeros(0 if a is None else len(b))
+    wl, wu, y = low.astype(float), up.astype(float), np.zeros(0 if a is None else len(b))
     count = max(int(low.sum() + up.sum()), 1)
     scale = 1.0 + np.abs(gradient(z)).max(initial=0.0)
     target = 1.0 + np.abs(b).max(initial=0.0) if b is not None else 1.0
@@ -270,26 +268,26 @@ def _interior(p, d, z0, lo, hi, tol, max_iter):
         dual_res = gradient(z) - wl + wu - (a.T @ y if a is not None else 0.0)
         primal_res = a @ z - b if a is not None else np.zeros(0)
         mu = it.gap() / count
-        if (np.abs(dual_res).max(initial=0.0) <= tol * scale
-                and np.abs(primal_res).max(initial=0.0) <= tol * target
-                and np.isfinite(objective(z))
-                and mu * count <= tol * (1.0 + abs(objective(z)))):
-            equalities = 0 if a is None else len(b) - extra
+        value = objective(z)
+        if max(np.abs(dual_res).max(initial=0.0) / scale,
+               np.abs(primal_res).max(initial=0.0) / target) <= tol and \
+                np.isfinite(value) and mu * count <= tol * (1.0 + abs(value)):
+            equalities = 0 if a is None else len(b) - (len(z) - len(z0))  # then the slacks
             _keep_multipliers(p, z[:len(z0)], d, y[equalities:], y[:equalities],
                               (wl[:len(z0)], wu[:len(z0)]))
             return z[:len(z0)], True, "interior point: residuals and complementarity below " \
                 "the tolerance"
         if not (np.all(it.sl > 0) and np.all(it.su > 0) and np.all(np.isfinite(dual_res))):
             return z[:len(z0)], False, "interior point: lost interiority to rounding"
-        weights = np.where(low, wl / it.sl, 0.0) + np.where(up, wu / it.su, 0.0)
         dense, factor, diagonal = hessian(z)
-        solve = _kkt_solver(dense, factor, weights + diagonal, a)
+        weights = np.where(low, wl / it.sl, 0.0) + np.where(up, wu / it.su, 0.0) + diagonal
+        solve = _kkt_solver(dense, factor, weights, a)
         dz, dy, dwl, dwu = _mehrotra(it, solve, dual_res, primal_res, mu, count)
-        dy = np.zeros_like(y) if dy is None else dy
         step = _damped(objective, z, dz, 0.995 * it.longest(dz, dwl, dwu))
         if step == 0.0:
             return z[:len(z0)], False, "interior point: no step keeps the objective finite"
-        z, y, wl, wu = z + step * dz, y + step * dy, wl + step * dwl, wu + step * dwu
+        z, wl, wu = z + step * dz, wl + step * dwl, wu + step * dwu
+        y = y if dy is None else y + step * dy
     return z[:len(z0)], False, "interior point: iteration limit reached"
 
 

@@ -49,7 +49,9 @@ class _Rows:
 def _lp_direction(rows, e, lam, s, m_factor, schur, r_d, r_g, r_e, r_c):
     """The Newton step (dz, dy, dlam, ds) of the LP's KKT system for complementarity r_c."""
     r1 = -r_d - rows.transpose_times(lam / s * r_g - r_c / s)
-    solve = lambda r: scipy.linalg.cho_solve(m_factor, r)  # noqa: E731
+    def solve(r):
+        return scipy.linalg.cho_solve(m_factor, r)
+
     base = solve(r1)
     dy = np.zeros(0)
     if e is not None:

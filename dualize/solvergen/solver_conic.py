@@ -20,12 +20,12 @@ from dualize.solvergen.solver_plan import (
     Bound,
     General,
     Plan,
-    _as_bound,
-    _differentiate,
-    _expand,
-    _general,
-    _hessian_blocks,
-    _zero,
+    as_bound,
+    differentiate,
+    expand_ball,
+    general_constraint,
+    hessian_blocks,
+    zero,
 )
 
 REASON = "the dual has a semidefinite constraint: a conic interior-point method (Clarabel)"
@@ -43,8 +43,8 @@ def conic_plan(dual: DualProblem) -> Plan:
     objective = normalize(ir.Scale(sign, dual.objective))
     variables = tuple(v.symbol for v in dual.variables)
     names = {v.name for v in dual.variables}
-    gradients = tuple(_differentiate(objective, v, "the dual objective") for v in variables)
-    hessian = _hessian_blocks(gradients, variables)
+    gradients = tuple(differentiate(objective, v, "the dual objective") for v in variables)
+    hessian = hessian_blocks(gradients, variables)
     if hessian is None or any(ir.depends_on(b, names) for row in hessian for b in row):
         raise DualizeError("cannot generate a solver: a dual with a semidefinite constraint "
                            "needs a linear or quadratic objective for the conic route", 2)
@@ -54,12 +54,12 @@ def conic_plan(dual: DualProblem) -> Plan:
         if constraint.relation in ("succeq", "preceq"):
             cones.append(_psd_side(constraint.lhs, constraint.relation, constraint.rhs))
             continue
-        for part in _expand(constraint):
-            bound = _as_bound(part, names)
+        for part in expand_ball(constraint):
+            bound = as_bound(part, names)
             if bound:
                 bounds.extend(bound)
             else:
-                general.append(_general(part, variables))
+                general.append(general_constraint(part, variables))
     if not all(g.affine for g in general):
         raise DualizeError("cannot generate a solver: a dual with a semidefinite constraint "
                            "and a nonlinear constraint is beyond the conic route", 2)
@@ -94,9 +94,9 @@ def _matrix_plan(dual: DualProblem) -> Plan:
 
 def _sign_bounds(v: DualVariable) -> list[Bound]:
     if v.set == "nonneg":
-        return [Bound(v.name, "lo", _zero())]
+        return [Bound(v.name, "lo", zero())]
     if v.set == "nonpos":
-        return [Bound(v.name, "hi", _zero())]
+        return [Bound(v.name, "hi", zero())]
     return []
 
 

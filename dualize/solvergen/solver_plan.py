@@ -87,25 +87,25 @@ def make_plan(dual: DualProblem) -> Plan:
     """The plan for a closed-form, non-conic dual; raises DualizeError when none fits."""
     sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
     objective = normalize(ir.Scale(sign, dual.objective))
-    parts = [part for constraint in dual.constraints for part in _expand(constraint)]
+    parts = [part for constraint in dual.constraints for part in expand_ball(constraint)]
     lift = epigraph_lift(objective, parts, {v.name for v in dual.variables})
     variables = _multipliers(dual) + lift.auxiliary
     names = {v.name for v in variables}
     objective = normalize(lift.objective)
-    gradients = tuple(_differentiate(objective, v, "the dual objective") for v in variables)
-    bounds = [Bound(v.name, "lo", _zero()) for v in dual.variables if v.set == "nonneg"]
-    bounds += [Bound(v.name, "hi", _zero()) for v in dual.variables if v.set == "nonpos"]
+    gradients = tuple(differentiate(objective, v, "the dual objective") for v in variables)
+    bounds = [Bound(v.name, "lo", zero()) for v in dual.variables if v.set == "nonneg"]
+    bounds += [Bound(v.name, "hi", zero()) for v in dual.variables if v.set == "nonpos"]
     general: list[General] = []
     for part in lift.parts:
-        bound = _as_bound(part, names)
+        bound = as_bound(part, names)
         if bound:
             bounds.extend(bound)
         else:
-            general.append(_general(part, variables))
+            general.append(general_constraint(part, variables))
     linear = not any(ir.depends_on(g, names) for g in gradients)
     plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
     if plan.method in ("augmented", "slsqp", "lbfgsb") and all(g.affine for g in general):
-        hessian = _hessian_blocks(gradients, variables)
+        hessian = hessian_blocks(gradients, variables)
         constant = hessian is not None and not any(
             ir.depends_on(block, names) for row in hessian for block in row)
         # Bounds only: L-BFGS-B stays for a nonquadratic dual; a quadratic one gets Newton
@@ -121,7 +121,7 @@ def make_plan(dual: DualProblem) -> Plan:
     return _lifted(plan, lift) if lift.auxiliary else plan
 
 
-def _hessian_blocks(
+def hessian_blocks(
     gradients: tuple[ir.Expr, ...], variables: tuple[ir.Symbol, ...]
 ) -> tuple[tuple[ir.Expr, ...], ...] | None:
     """The Hessian blocks d(gradient_i)/d(variable_j), or None where one has no rule."""
@@ -143,11 +143,11 @@ def _lifted(plan: Plan, lift: Lift) -> Plan:
     return replace(plan, reason=reason, auxiliary=lift.auxiliary)
 
 
-def _zero() -> ir.Expr:
+def zero() -> ir.Expr:
     return ir.Number(sympy.Integer(0))
 
 
-def _differentiate(expr: ir.Expr, var: ir.Symbol, what: str) -> ir.Expr:
+def differentiate(expr: ir.Expr, var: ir.Symbol, what: str) -> ir.Expr:
     try:
         return gradient(expr, var)
     except NotDifferentiable as err:
@@ -157,7 +157,7 @@ def _differentiate(expr: ir.Expr, var: ir.Symbol, what: str) -> ir.Expr:
         ) from err
 
 
-def _expand(constraint: DualConstraint) -> list[tuple[ir.Expr, str, ir.Expr]]:
+def expand_ball(constraint: DualConstraint) -> list[tuple[ir.Expr, str, ir.Expr]]:
     """Rewrite norm balls into smooth or linear pieces: ||u||_inf <= t is -t <= u <= t."""
     lhs, rel, rhs = constraint.lhs, constraint.relation, constraint.rhs
     if rel == "in":
@@ -184,7 +184,7 @@ def _known_nonneg(expr: ir.Expr) -> bool:
     return known_sign(expr) == 1
 
 
-def _as_bound(part: tuple[ir.Expr, str, ir.Expr], names: set[str]) -> list[Bound] | None:
+def as_bound(part: tuple[ir.Expr, str, ir.Expr], names: set[str]) -> list[Bound] | None:
     lhs, rel, rhs = part
     for var, other, side in ((lhs, rhs, rel), (rhs, lhs, _flip(rel))):
         if isinstance(var, ir.Symbol) and var.name in names and not ir.depends_on(other, names):
@@ -200,7 +200,8 @@ def _flip(rel: str) -> str:
     return {"<=": ">=", ">=": "<=", "=": "="}[rel]
 
 
-def _general(part: tuple[ir.Expr, str, ir.Expr], variables: tuple[ir.Symbol, ...]) -> General:
+def general_constraint(part: tuple[ir.Expr, str, ir.Expr],
+                       variables: tuple[ir.Symbol, ...]) -> General:
     lhs, rel, rhs = part
     minus = ir.Number(sympy.Integer(-1))
     if rel == ">=":

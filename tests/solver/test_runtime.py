@@ -152,3 +152,16 @@ def test_normal_equation_interior_point_matches_highs(seed):
 def test_bracket_depth_is_the_same_across_chunk_boundaries(chunk):
     raw = b'{"a": [[1, [2]], [[3]]], "b": {"c": [4]}}'
     assert runtime._bracket_depth(raw, chunk) == 4
+
+
+def test_svec_keeps_inner_products_and_inverts():
+    # The scaled vectorization keeps the trace inner product, <A, B> = svec(A)'svec(B)
+    # (common practice for semidefinite cones; Clarabel's documented triangle form).
+    from dualize.solvergen import runtime_conic
+
+    rng = np.random.default_rng(4)
+    a, b = rng.normal(size=(2, 4, 4))
+    a, b = a + a.T, b + b.T
+    assert runtime_conic._svec(a) @ runtime_conic._svec(b) == pytest.approx(np.trace(a @ b))
+    assert np.allclose(runtime_conic._unsvec(runtime_conic._svec(a), 4), a)
+    assert runtime_conic._svec(np.eye(2)).tolist() == [1.0, 0.0, 1.0]
