@@ -40,23 +40,9 @@ def test_no_circle_of_imports() -> None:
     assert circles(arrows()) == []
 
 
-# Private names still taken from a sibling module, to be made public or moved; the
-# list only shrinks.
-PRIVATE_LEFT = frozenset({
-})
-
-
-def _private() -> set[tuple[str, str]]:
-    return {(source, name) for source, name, _ in private_imports()}
-
-
 def test_no_module_takes_another_modules_private_names() -> None:
     """Private state (a flag stack, a registry) is changed only by its own module."""
-    assert _private() - PRIVATE_LEFT == set()
-
-
-def test_the_list_of_private_names_left_only_shrinks() -> None:
-    assert PRIVATE_LEFT <= _private()
+    assert private_imports() == []
 
 
 def test_every_module_has_a_place_in_the_order() -> None:
