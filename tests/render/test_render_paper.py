@@ -12,12 +12,12 @@ from __future__ import annotations
 import json
 import re
 import shutil
-import subprocess
 from functools import cache
 from pathlib import Path
 
 import pytest
 import sympy
+from latex_compile import compile_log as pdflatex_log
 
 from dualize.model import expr as ir
 from dualize.render.caution import CAUTION
@@ -44,14 +44,6 @@ def derived(path: str) -> tuple:
     assert loaded.problem is not None, [d.message for d in loaded.diagnostics]
     return derive(loaded.problem), analyze(loaded.problem)
 
-
-def pdflatex_log(source: str, folder: Path) -> str:
-    (folder / "doc.tex").write_text(source, encoding="utf-8")
-    subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "doc.tex"],
-                   cwd=folder, capture_output=True, timeout=120, check=False)
-    log = (folder / "doc.log").read_text(encoding="latin-1")
-    assert (folder / "doc.pdf").exists(), log[-2000:]
-    return log
 
 
 @pytest.mark.skipif(shutil.which("pdflatex") is None, reason="pdflatex missing")

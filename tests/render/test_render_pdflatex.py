@@ -8,11 +8,11 @@ Skipped where TeX is not installed; CI installs it.
 from __future__ import annotations
 
 import shutil
-import subprocess
 from dataclasses import replace
 from pathlib import Path
 
 import pytest
+from latex_compile import compile_log
 from render_builders import (
     FakeAnalysis,
     long_lagrangian_derivation,
@@ -51,15 +51,6 @@ DOCUMENTS = {
         + render_latex(svm_derivation()) + "\\end{document}\n"),
 }
 
-
-def compile_log(source: str, folder: Path) -> str:
-    """The pdflatex log of ``source``; fails the test when no PDF comes out."""
-    (folder / "doc.tex").write_text(source, encoding="utf-8")
-    subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "doc.tex"],
-                   cwd=folder, capture_output=True, timeout=120, check=False)
-    log = (folder / "doc.log").read_text(encoding="latin-1")
-    assert (folder / "doc.pdf").exists(), log[-2000:]
-    return log
 
 
 @pytest.mark.parametrize("name", sorted(DOCUMENTS))
