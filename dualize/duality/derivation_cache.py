@@ -1,7 +1,7 @@
 """Derived and checked results of the costly symbolic steps, kept on disk between processes.
 
 Deriving a conjugate by the Legendre transform and checking it numerically
-costs seconds (sympy's solver and limits, scipy's optimizer for the check),
+costs seconds (sympy's solver, limits and simplification),
 and the same few functions (x log x, exp, -log, softplus) come back in every
 run; so does the closed-form maximization over a free scalar multiplier.  This
 module keeps each outcome in a user cache folder so that a second process
