@@ -25,12 +25,25 @@ from dualize.render.formats import FORMATS
 def derive_command(file: str, fmt: str, output: str | None, standalone: bool,
                    data: str | None, time_limit: float) -> None:
     """Derive the Lagrange dual of a problem file, with its steps, KKT and recovery."""
-    from dualize import api
+    from dualize import replay
+    from dualize.commands.common import deadline_of
 
-    derived = api.derive(file, data=data, with_analysis=True, time_limit=time_limit)
     color = output in (None, "-") and sys.stdout.isatty() and "NO_COLOR" not in os.environ
-    text = derived.render(fmt, standalone=standalone, color=color)
+    key = replay.key_of("derive", {"format": fmt, "standalone": standalone, "color": color,
+                                   "time_limit": time_limit},
+                        {"problem": file, "data": data})
+    text = replay.replayed(key)
+    if text is None:
+        from dualize import api
+
+        deadline = deadline_of(time_limit)
+        derived = api.derive(file, data=data, with_analysis=True, time_limit=deadline)
+        text = derived.render(fmt, standalone=standalone, color=color)
+        if replay.finished(deadline.remaining()):
+            replay.keep(key, text)
     if output is None:
         click.echo(text, nl=not text.endswith("\n"))
     else:
-        api.write_atomically(output, text)
+        from dualize.outfile import write_output
+
+        write_output(output, text)

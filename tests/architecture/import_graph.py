@@ -34,7 +34,7 @@ LAYERS: tuple[tuple[str, ...], ...] = (
     ("lint_config",),
     ("results",),
     ("api",),
-    ("lsp",),
+    ("lsp", "replay"),
     ("commands",),
     ("cli",),
     ("__main__",),
