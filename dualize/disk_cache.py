@@ -12,10 +12,19 @@ Entries are written to a temporary file in the same folder and moved
 into place with ``os.replace``, so a reader never sees half an entry.  Entries
 are plain JSON: nothing read back is ever executed.  A folder that cannot be
 written costs only the speed-up.
+
+The package ships a seed (``cache_seed.json``): entries of the same form that
+the release's own code made for the steps every user meets first (the
+parser's tables, the conjugates of the function table's functions), so that a
+first run with an empty folder need not derive them.  A seed entry obeys the
+same rules (key, stamp, digest): one made by other code or another library
+version is a miss, and the step is done afresh.  ``DUALIZE_CACHE=off`` (or
+``DUALIZE_CACHE_SEED=off`` alone) turns the seed off.
 """
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import json
 import os
@@ -46,16 +55,48 @@ def entry_path(section: str, key: str) -> Path | None:
 
 
 def lookup(section: str, key: str, stamp: str) -> Any | None:
-    """The stored payload, or None on a miss, a foreign stamp or a damaged entry."""
+    """The stored payload, or None on a miss, a foreign stamp or a damaged entry; the
+    user folder first, then the package's seed."""
     path = entry_path(section, key)
     if path is None:
         return None
+    found = _valid(_read(path), key, stamp)
+    if found is None:
+        found = _valid(seed().get(section, {}).get(key), key, stamp)
+    return found
+
+
+def _read(path: Path) -> Any:
     try:
         if path.stat().st_size > MAX_BYTES:
             return None
-        entry = json.loads(path.read_text(encoding="utf-8"))
+        return json.loads(path.read_text(encoding="utf-8"))
     except (OSError, ValueError, RecursionError):
         return None
+
+
+SEED = Path(__file__).resolve().parent / "cache_seed.json"
+SEED_BYTES = 8_000_000
+
+
+@functools.lru_cache(maxsize=1)
+def seed() -> dict[str, dict[str, Any]]:
+    """The shipped entries by section and key; empty when the file is absent or damaged."""
+    if os.environ.get("DUALIZE_CACHE_SEED", "").lower() in ("off", "0", "no", "false"):
+        return {}
+    try:
+        if SEED.stat().st_size > SEED_BYTES:
+            return {}
+        data = json.loads(SEED.read_text(encoding="utf-8"))
+    except (OSError, ValueError, RecursionError):
+        return {}
+    if not isinstance(data, dict):
+        return {}
+    return {k: v for k, v in data.items() if isinstance(k, str) and isinstance(v, dict)}
+
+
+def _valid(entry: Any, key: str, stamp: str) -> Any | None:
+    """The payload of ``entry`` if it is the entry of ``key`` with ``stamp``, else None."""
     if not isinstance(entry, dict) or entry.get("stamp") != stamp or entry.get("key") != key:
         return None
     payload = entry.get("payload")

@@ -54,7 +54,17 @@ def _answer(payload: object) -> Definiteness:
 
 
 def _scalar_sign(value: sympy.Expr) -> Definiteness:
-    value = sympy.simplify(value)
+    # A strict sign that the assumptions prove on the expression as it stands is final
+    # (it cannot be zero); only the rest needs sympy's simplify, whose first call in a
+    # process costs a third of a second of imports.
+    if value.is_positive:
+        return "pd"
+    if value.is_negative:
+        return "nd"
+    if value.is_nonnegative or value.is_nonpositive:
+        value = sympy.cancel(value)  # enough to see a zero; the sign is known already
+    else:
+        value = sympy.simplify(value)
     if value == 0:
         return "zero"
     if value.is_positive:

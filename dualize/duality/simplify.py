@@ -202,19 +202,59 @@ def _maximize_over(objective: Expr, v: DualVariable) -> tuple[Expr, Expr] | None
 
 
 def _stationary(expr: sympy.Expr, nu: sympy.Symbol) -> tuple[sympy.Expr, sympy.Expr] | None:
-    """(max value, argmax) of expr over nu from its one real stationary point, if concave there."""
+    """(max value, argmax) of expr over nu from its one real stationary point, if concave there.
+
+    sympy's own check and simplification of the roots, and its ``simplify``, import
+    sympy's units package on first use (a third of a second); the roots are checked
+    numerically here instead and shortened by ``shortest``, as is the value, so the
+    common case imports none of it.
+    """
     d1 = sympy.diff(expr, nu)
     try:
-        roots = sympy.solve(d1, nu, dict=False)
+        roots = sympy.solve(d1, nu, dict=False, check=False, simplify=False)
     except (NotImplementedError, ValueError):
         return None
-    roots = [r for r in roots if r.is_real is not False]
+    roots = [shortest(r) for r in roots]
+    roots = [r for r in roots if r.is_real is not False and _vanishes(d1.subs(nu, r))]
     if len(roots) != 1:
         return None
-    second = sympy.simplify(sympy.diff(expr, nu, 2).subs(nu, roots[0]))
-    if second.is_negative is not True:
+    second = sympy.diff(expr, nu, 2).subs(nu, roots[0])
+    if second.is_negative is not True and sympy.simplify(second).is_negative is not True:
         return None
-    return sympy.simplify(sympy.expand_log(expr.subs(nu, roots[0]), force=False)), roots[0]
+    return shortest(sympy.expand_log(expr.subs(nu, roots[0]), force=False)), roots[0]
+
+
+_SAMPLES = (sympy.Rational(7, 10), sympy.Rational(19, 10))
+
+
+def _vanishes(value: sympy.Expr) -> bool:
+    """Whether ``value`` is zero at two sample points of its symbols (positive ones get
+    positive values, the others both signs), to 1e-12; a point where it is not a finite
+    real number counts against it."""
+    symbols = sorted(value.free_symbols, key=lambda x: x.name)
+    for k, sample in enumerate(_SAMPLES):
+        point = {x: sample if x.is_positive or k == 0 else -sample for x in symbols}
+        number = value.subs(point).evalf(30)
+        if not (number.is_real and number.is_finite) or abs(float(number)) > 1e-12:
+            return False
+    return True
+
+
+def shortest(expr: sympy.Expr) -> sympy.Expr:
+    """The first stage of sympy's ``simplify`` (the shortest of the power, cancel and
+    factor forms, then a number times a sum multiplied out), without its later stages
+    and the import they bring."""
+
+    def shorter(*choices: sympy.Expr) -> sympy.Expr:
+        return min(choices, key=sympy.count_ops)
+
+    short = shorter(sympy.powsimp(expr, combine="exp", deep=True), sympy.powsimp(expr), expr)
+    short = shorter(short, sympy.cancel(short))
+    short = shorter(short, sympy.factor_terms(short),
+                    sympy.expand_power_exp(sympy.expand_mul(short)))
+    return short.replace(
+        lambda x: x.is_Mul and len(x.args) == 2 and x.args[0].is_Number and x.args[1].is_Add,
+        lambda x: sympy.Mul(*x.args))
 
 
 def _pair_payload(found: tuple[sympy.Expr, sympy.Expr] | None) -> object:
