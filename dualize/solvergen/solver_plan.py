@@ -14,8 +14,13 @@ bounds go to the spectral projected gradient method (E. Birgin, J. Martinez,
 M. Raydan, SIAM J. Optim., 2000); anything else smooth to SLSQP with analytic
 Jacobians.  Max, min, absolute values and polyhedral norms of the multipliers
 are first replaced by epigraph variables (``solver_lift``), so a
-piecewise-linear dual becomes a linear program.  A semidefinite dual needs a
-conic solver, which the generated module says instead of guessing.
+piecewise-linear dual becomes a linear program.  A dual whose max and min come
+only from minimizing over a box where the Lagrangian is strictly convex (the
+engine's ``strictly_convex_boxes``) is continuously differentiable all the same
+(Danskin's theorem; D. Bertsekas, Nonlinear Programming, 2nd ed., 1999, Prop.
+B.25): its max and min are differentiated piece by piece instead of lifted, and
+it goes to the gradient methods above, never to Newton steps.  A semidefinite
+dual needs a conic solver, which the generated module says instead of guessing.
 """
 
 from __future__ import annotations
