@@ -37,7 +37,7 @@ from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
 from dualize.solvergen.ir_rewrite import normalize
 from dualize.solvergen.solver_lift import Lift, epigraph_lift, known_sign
 
-Method = Literal["linprog", "lbfgsb", "interior", "augmented", "slsqp", "conic"]
+Method = Literal["linprog", "lbfgsb", "lbfgsb_c1", "interior", "augmented", "slsqp", "conic"]
 
 
 @dataclass(frozen=True)
@@ -112,18 +112,25 @@ def make_plan(dual: DualProblem) -> Plan:
     linear = not any(ir.depends_on(g, names) for g in gradients)
     plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
     if smooth:  # C^1 but not C^2: no Newton steps on a Hessian with jumps
-        plan = replace(plan, reason=_smooth_reason(dual) + plan.reason)
+        plan = _smooth(plan, dual)
     elif plan.method in ("augmented", "slsqp", "lbfgsb") and all(g.affine for g in general):
         plan = _with_hessian(plan, variables, names)
     return _lifted(plan, lift) if lift.auxiliary else plan
 
 
-def _smooth_reason(dual: DualProblem) -> str:
+def _smooth(plan: Plan, dual: DualProblem) -> Plan:
+    """The plan of a dual smooth by strictly convex boxes: its reason says so, and bounds
+    alone go to L-BFGS-B stopping on the projected gradient (``lbfgsb_c1``)."""
     boxes = ", ".join(dual.strictly_convex_boxes)
-    return (f"the max and min of the multipliers come from minimizing the Lagrangian over the "
-            f"box of {boxes}, where it is strictly convex: the minimizer is unique, so the dual "
-            "function is continuously differentiable (Danskin's theorem) and its gradient is "
-            "taken piece by piece; ")
+    reason = (f"the max and min of the multipliers come from minimizing the Lagrangian over "
+              f"the box of {boxes}, where it is strictly convex: the minimizer is unique, so "
+              "the dual function is continuously differentiable (Danskin's theorem) and its "
+              "gradient is taken piece by piece; ")
+    if plan.method == "lbfgsb":
+        return replace(plan, method="lbfgsb_c1", reason=reason + "the only constraints are "
+                       "bounds on the multipliers: L-BFGS-B with that gradient, stopped by "
+                       "the projected gradient rather than by the decrease of the objective")
+    return replace(plan, reason=reason + plan.reason)
 
 
 def _with_hessian(plan: Plan, variables: tuple[ir.Symbol, ...], names: set[str]) -> Plan:

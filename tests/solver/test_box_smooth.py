@@ -147,7 +147,7 @@ def test_box_quadratic_with_a_budget_matches_cvxpy(tmp_path, seed):
     code, report, source = run(BUDGET, data, tmp_path)
     value, x = budget_reference(data)
     assert code == 0 and report["status"] == "certified", report["message"]
-    assert report["method"] == "lbfgsb" and "Danskin" in source
+    assert report["method"] == "lbfgsb_c1" and "Danskin" in source
     assert report["dual_value"] == pytest.approx(value, rel=1e-6, abs=1e-7)
     assert report["primal_value"] == pytest.approx(value, rel=1e-6, abs=1e-7)
     assert np.allclose(report["primal"]["x"], x, atol=1e-4)
@@ -171,6 +171,16 @@ def test_separable_over_a_box_with_inequalities_matches_cvxpy(tmp_path, text, ph
     assert np.allclose(report["primal"]["x"], x, atol=1e-3)
     assert np.allclose(report["multipliers"]["cap"], cap, atol=1e-4)
     assert min(report["multipliers"]["cap"]) >= 0.0
+
+
+def test_a_larger_instance_is_certified(tmp_path):
+    # 40 rows, 200 entries: with the decrease of the objective as its stopping rule
+    # L-BFGS-B stopped here with a violation near 1e-5, not certified.
+    data = cap_instance(12, m=40, n=200)
+    code, report, _ = run(EXP_CAP, data, tmp_path)
+    value, _, _ = cap_reference(data, cp.exp, 0.0, 2.0)
+    assert code == 0 and report["status"] == "certified", report["message"]
+    assert report["dual_value"] == pytest.approx(value, rel=1e-7)
 
 
 def test_gradient_is_the_constraint_at_the_minimizer(tmp_path):
