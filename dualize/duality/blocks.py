@@ -43,6 +43,11 @@ class Outcome:
     smooth: bool = False
     """True when the block's Lagrangian is differentiable where it is finite: its
     stationarity condition is a vanishing gradient, not a subdifferential inclusion."""
+    strict_box: bool = False
+    """True when the block ranges over a box and its Lagrangian is strictly convex there:
+    the minimizer is unique for every multiplier, so the block's value is continuously
+    differentiable in them, max and min in its printed form notwithstanding (see
+    ``smoothness``)."""
 
 
 def zero_constraint(e: Expr, relation: str, reason: str) -> DualConstraint:
@@ -228,7 +233,7 @@ def _box(x: Symbol, H: Expr, q: Quadratic, domain: Domain) -> Outcome | None:
             "least at the projection onto the interval of the point where the gradient "
             "vanishes, and the block contributes $#value$.")
     said = _said(h=h, lo=domain.lo, hi=domain.hi, value=value)
-    return Outcome(value, recovery=Recovery(x.name, c), steps=[Step(
+    return Outcome(value, recovery=Recovery(x.name, c), strict_box=True, steps=[Step(
         "minimize-quadratic-box", text, (Equation(x, "=", c),), block=x.name, formulas=said)])
 
 

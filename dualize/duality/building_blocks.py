@@ -69,6 +69,9 @@ class Infimum:
     """The formulas the statement marks as ``$key$`` (see ``result.Step``)."""
     entries: Expr | None = None
     """For a separable term: phi*(s) entry by entry (``value`` is minus its sum)."""
+    strict_box: bool = False
+    """Whether the domain is a box and phi is shown strictly convex on it (the minimizer is
+    then unique: see ``smoothness``)."""
 
 
 def recognise(term: Term, variables: frozenset[str]) -> BuildingBlock | None:

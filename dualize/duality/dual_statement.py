@@ -50,8 +50,9 @@ def _relations_substituted(r: Recovery, fixed: dict[Expr, Expr]) -> Recovery:
 
 def as_minimization(dual: DualProblem) -> DualProblem:
     """The dual of a maximization, stated as the minimization it is."""
-    return DualProblem("minimize", dual.variables, tidy(b.neg(dual.objective)),
-                       dual.constraints, dual.inner, dual.unbounded)
+    from dataclasses import replace
+
+    return replace(dual, sense="minimize", objective=tidy(b.neg(dual.objective)))
 
 
 def dual_sentence(dual: DualProblem, sense: str = "minimize") -> str:

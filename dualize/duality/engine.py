@@ -49,6 +49,7 @@ from dualize.duality.result import (
 )
 from dualize.duality.separable import separable_infimum
 from dualize.duality.simplify import simplify, substitutions
+from dualize.duality.smoothness import strictly_convex_boxes
 from dualize.model.expr import SCALAR, Expr, Symbol, symbols_of
 from dualize.model.problem import Domain, Problem, Variable
 
@@ -464,7 +465,7 @@ def _conjugate_outcome(x: Symbol, atom: BuildingBlock, s: Expr, r: Expr, domain:
                 tuple(Equation(lhs, rel, rhs) for lhs, rel, rhs in inf.constraints),  # type: ignore[arg-type]
                 block=x.name, formulas=inf.formulas + (("#value", tidy(inf.value)),))
     smooth = atom.kind in ("square", "logsumexp", "separable") and domain.kind == "free"
-    return Outcome(value, constraints, rec, [step], smooth=smooth)
+    return Outcome(value, constraints, rec, [step], smooth=smooth, strict_box=inf.strict_box)
 
 
 # -- assembling the dual ---------------------------------------------------------
@@ -494,5 +495,5 @@ def _assemble(work: Work, outcomes: dict[str, Outcome], mults):  # type: ignore[
     recovery = [with_split_relations(r, work.aux_args, outcomes, norms) for r in recovery]
     variables = tuple(mults) + tuple(work.extra)
     dual = DualProblem("maximize", variables, tidy(objective), tuple(constraints),
-                       tuple(inner), unbounded)
+                       tuple(inner), unbounded, strictly_convex_boxes(outcomes))
     return dual, recovery

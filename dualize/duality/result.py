@@ -101,6 +101,13 @@ class DualProblem:
     constraints: tuple[DualConstraint, ...]
     inner: tuple[Variable, ...] = ()
     unbounded: bool = False
+    strictly_convex_boxes: tuple[str, ...] = ()
+    """The primal variables kept in a box whose minimization leaves a max or min of the
+    multipliers in ``objective``, when the Lagrangian is strictly convex in every one of
+    them (and no other block leaves one): the minimizer over each box is then unique, so
+    the dual function is continuously differentiable although its printed form has
+    kinks (Danskin's theorem; D. Bertsekas, Nonlinear Programming, 2nd ed., 1999,
+    Prop. B.25).  Empty when the engine shows no such fact."""
 
     @property
     def closed_form(self) -> bool:

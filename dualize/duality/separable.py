@@ -100,7 +100,30 @@ def separable_infimum(atom: BuildingBlock, s: Expr, x: Symbol, domain: Domain,
     statement = ("the term $#term$ is separable, with $#phi$ entry by entry; its conjugate, "
                  "derived by the Legendre transform and checked numerically, is $#conj$")
     return Infimum(b.neg(total), constraints, minimizer, statement,
-                   _formulas(atom, phi, t, shown, conj.s), entries)
+                   _formulas(atom, phi, t, shown, conj.s), entries,
+                   domain.kind == "box" and strictly_convex_on(phi, t, interval))
+
+
+def strictly_convex_on(phi: sympy.Expr, t: sympy.Symbol, interval: sympy.Interval) -> bool:
+    """Whether phi'' > 0 is shown by sympy's assumptions beyond a finite end of
+    ``interval`` (t = lo + p or hi - p with p > 0), or on all of R without one.
+
+    A function continuous on an interval whose second derivative is positive inside it
+    is strictly convex there (Boyd and Vandenberghe, 2004, section 3.1.4, from memory);
+    showing it on the wider half-line is stronger.  False when sympy cannot tell.
+    """
+    second = sympy.diff(phi, t, 2)
+    p = sympy.Symbol("p", positive=True)
+    if interval.left.is_finite:
+        second = second.subs(t, interval.left + p)
+    elif interval.right.is_finite:
+        second = second.subs(t, interval.right - p)
+    if second.is_positive:
+        return True
+    try:
+        return bool(sympy.simplify(second).is_positive)
+    except (TypeError, ValueError, NotImplementedError):
+        return False
 
 
 def _formulas(atom: BuildingBlock, phi: sympy.Expr, t: sympy.Symbol, conj: sympy.Expr,

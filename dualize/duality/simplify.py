@@ -48,8 +48,8 @@ def simplify(dual: DualProblem, problem: Problem) -> tuple[DualProblem, list[Ste
                 changed = True
                 break
     result = _maximize_free_scalars(dual)
-    if result is not None:
-        dual, more = result
+    if result is not None:  # a partial maximum: the smoothness fact is not carried over
+        dual, more = replace(result[0], strictly_convex_boxes=()), result[1]
         steps.extend(more)
     dual = replace(dual, constraints=_distinct(tuple(_readable(c) for c in dual.constraints)))
     return dual, steps

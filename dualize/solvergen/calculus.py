@@ -9,6 +9,12 @@ variable ``v`` is an IR expression of shape ``len(e) x len(v)``.  Row and
 column vectors are treated alike (flattened), which is all the duals need;
 an expression whose matrix-valued parts depend on the variable raises
 :class:`NotDifferentiable` with the reason, never a silent wrong answer.
+
+A max or min has a derivative rule only on request (``piecewise``): the derivative
+of the side it takes, entry by entry (``Picks``; the left side at ties).  That is the
+gradient wherever no tie occurs; the caller asks for it only for a function it knows
+to be continuously differentiable as a whole (a dual smooth by Danskin's theorem, see
+``duality.smoothness``), where the one-sided derivatives at a tie agree.
 """
 
 from __future__ import annotations
@@ -22,6 +28,7 @@ from dualize.model.functions import lookup
 from dualize.model.ops import is_zero
 from dualize.solvergen.ir_rewrite import (
     LogSumExp,
+    Picks,
     Softmax,
     is_scalar,
     is_vector_like,
@@ -33,6 +40,8 @@ from dualize.solvergen.ir_rewrite import (
     total,
 )
 
+MINUS = ir.Number(sympy.Integer(-1))
+
 
 class NotDifferentiable(Exception):
     """The expression has no derivative rule here (nonsmooth, or a matrix in the variable)."""
@@ -41,22 +50,24 @@ class NotDifferentiable(Exception):
 @dataclass(frozen=True)
 class _Target:
     symbol: ir.Symbol
+    piecewise: bool = False
 
     @property
     def size(self) -> sympy.Expr:
         return length(self.symbol.shape)
 
 
-def jacobian(expr: ir.Expr, var: ir.Symbol) -> ir.Expr:
-    """d expr / d var, an IR expression of shape len(expr) x len(var), normalized."""
-    return normalize(_jac(normalize(expr), _Target(var)))
+def jacobian(expr: ir.Expr, var: ir.Symbol, piecewise: bool = False) -> ir.Expr:
+    """d expr / d var, an IR expression of shape len(expr) x len(var), normalized;
+    ``piecewise`` differentiates a max or min by the side it takes (see the module doc)."""
+    return normalize(_jac(normalize(expr), _Target(var, piecewise)))
 
 
-def gradient(expr: ir.Expr, var: ir.Symbol) -> ir.Expr:
+def gradient(expr: ir.Expr, var: ir.Symbol, piecewise: bool = False) -> ir.Expr:
     """The gradient of a scalar expression, shaped like ``var``."""
     if not is_scalar(expr):
         raise NotDifferentiable("a gradient needs a scalar expression")
-    jac = jacobian(expr, var)
+    jac = jacobian(expr, var, piecewise)
     return jac if is_scalar(var) else normalize(ir.Transpose(jac))
 
 
@@ -190,6 +201,18 @@ def _norm(expr: ir.Norm, target: _Target) -> ir.Expr:
     return matmul(ir.Transpose(unit), _jac(expr.arg, target))
 
 
+def _extremum(expr: ir.Extremum, target: _Target) -> ir.Expr:
+    """d max(l, r) = d r + diag(picks l) (d l - d r), likewise for min."""
+    if not target.piecewise:
+        raise NotDifferentiable(f"a {expr.kind} is not differentiable everywhere")
+    left, right = expr.left, expr.right
+    if length(left.shape) != length(right.shape):
+        raise NotDifferentiable(f"a {expr.kind} of a scalar and a vector")
+    jl, jr = _jac(left, target), _jac(right, target)
+    step = _diag_times(Picks(expr.kind, left, right), ir.Add((jl, scale(MINUS, jr))))
+    return ir.Add((jr, step))
+
+
 def _log_sum_exp(expr: LogSumExp, target: _Target) -> ir.Expr:
     return matmul(ir.Transpose(Softmax(_column(expr.arg))), _jac(expr.arg, target))
 
@@ -241,5 +264,6 @@ _RULES = {
     ir.Norm: _norm,
     ir.MatMul: _matmul,
     ir.Inverse: _inverse,
+    ir.Extremum: _extremum,
     LogSumExp: _log_sum_exp,
 }

@@ -1,11 +1,12 @@
 """Rewrites of IR expressions that the numeric code printer relies on.
 
-Two extra nodes live here, private to code generation: ``LogSumExp`` (so that
-``log(1' exp(u))`` is printed as a stable library call rather than an overflow)
-and ``Softmax`` (its gradient).  ``normalize`` pushes transposes to the leaves,
-flattens product chains, lifts scalars out of chains and distributes chains
-over sums, so that every product ends in the vector it is applied to: that is
-what lets the printer evaluate ``X' (X w)`` instead of ``(X' X) w``.
+Three extra nodes live here, private to code generation: ``LogSumExp`` (so that
+``log(1' exp(u))`` is printed as a stable library call rather than an overflow),
+``Softmax`` (its gradient) and ``Picks`` (which side a max or min takes, for the
+piecewise derivative of a dual that is smooth as a whole).  ``normalize`` pushes
+transposes to the leaves, flattens product chains, lifts scalars out of chains
+and distributes chains over sums, so that every product ends in the vector it is
+applied to: that is what lets the printer evaluate ``X' (X w)`` instead of ``(X' X) w``.
 """
 
 from __future__ import annotations
@@ -41,6 +42,21 @@ class Softmax(ir.Expr):
     @property
     def shape(self) -> ir.Shape:
         return self.arg.shape
+
+
+@dataclass(frozen=True)
+class Picks(ir.Expr):
+    """1 where max(left, right) (or min, by ``kind``) takes ``left``, else 0, entry by
+    entry; ties take ``left``.  The selection a piecewise derivative follows."""
+
+    kind: str
+    left: ir.Expr
+    right: ir.Expr
+    span: object = None
+
+    @property
+    def shape(self) -> ir.Shape:
+        return self.left.shape
 
 
 ONE = ir.Number(sympy.Integer(1))

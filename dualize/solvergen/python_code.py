@@ -22,7 +22,7 @@ from sympy.printing.printer import Printer
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.functions import LOG, lookup
-from dualize.solvergen.ir_rewrite import LogSumExp, Softmax, is_scalar, is_vector_like
+from dualize.solvergen.ir_rewrite import LogSumExp, Picks, Softmax, is_scalar, is_vector_like
 from dualize.solvergen.pynames import python_names  # noqa: F401 - re-exported
 
 
@@ -278,6 +278,11 @@ class NumpyPrinter(Printer):
 
     def _print_ir_Softmax(self, expr: Softmax) -> str:  # noqa: N802
         return f"scipy.special.softmax({self._arg(expr.arg)})"
+
+    def _print_ir_Picks(self, expr: Picks) -> str:  # noqa: N802
+        relation = ">=" if expr.kind == "max" else "<="
+        left, right = self._print(expr.left), self._print(expr.right)
+        return f"np.asarray(({left}) {relation} ({right}), dtype=float)"
 
     # --- product chains ---------------------------------------------------------
     def _print_ir_MatMul(self, expr: ir.MatMul) -> str:  # noqa: N802

@@ -174,15 +174,24 @@ def _most_interior(p, z0, lo, hi, d):
     return res.x[:size]
 
 
-def _solve_lbfgsb(p, d, z0, lo, hi, tol, max_iter):
+def _solve_lbfgsb(p, d, z0, lo, hi, tol, max_iter, ftol=None):
     def fun(z):
         return p.objective(z, d), p.gradient(z, d)
 
+    ftol = tol * 1e-3 if ftol is None else ftol
     res = scipy.optimize.minimize(
         _walled(fun, z0), z0, jac=True, method="L-BFGS-B", bounds=scipy.optimize.Bounds(lo, hi),
-        options={"maxiter": max_iter, "ftol": tol * 1e-3, "gtol": tol, "maxcor": 30},
+        options={"maxiter": max_iter, "ftol": ftol, "gtol": tol, "maxcor": 30},
     )
     return res.x, bool(res.success), str(res.message)
+
+
+def _solve_lbfgsb_c1(p, d, z0, lo, hi, tol, max_iter):
+    """L-BFGS-B for a dual that is continuously differentiable but not twice (max and min
+    left by strictly convex box blocks): no stop on the relative decrease of the objective,
+    which the jumps of its curvature and the flat directions of entries held at a bound end
+    early; it stops on the projected gradient or when no step decreases the objective."""
+    return _solve_lbfgsb(p, d, z0, lo, hi, tol, max_iter, ftol=0.0)
 
 
 def _projected_gradient(fun, z, lo, hi, tol, max_iter, memory=10):

@@ -27,6 +27,7 @@ from dualize.solvergen.runtime_methods import (
     _finite_at,
     _solve_augmented,
     _solve_lbfgsb,
+    _solve_lbfgsb_c1,
     _solve_slsqp,
     _start,
 )
@@ -37,6 +38,7 @@ from dualize.solvergen.runtime_recover import _listed, _primal_report
 SOLVERS = {
     "linprog": _solve_lp,
     "lbfgsb": _solve_lbfgsb,
+    "lbfgsb_c1": _solve_lbfgsb_c1,
     "interior": _solve_interior,
     "augmented": _solve_augmented,
     "slsqp": _solve_slsqp,

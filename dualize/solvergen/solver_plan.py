@@ -14,8 +14,13 @@ bounds go to the spectral projected gradient method (E. Birgin, J. Martinez,
 M. Raydan, SIAM J. Optim., 2000); anything else smooth to SLSQP with analytic
 Jacobians.  Max, min, absolute values and polyhedral norms of the multipliers
 are first replaced by epigraph variables (``solver_lift``), so a
-piecewise-linear dual becomes a linear program.  A semidefinite dual needs a
-conic solver, which the generated module says instead of guessing.
+piecewise-linear dual becomes a linear program.  A dual whose max and min come
+only from minimizing over a box where the Lagrangian is strictly convex (the
+engine's ``strictly_convex_boxes``) is continuously differentiable all the same
+(Danskin's theorem; D. Bertsekas, Nonlinear Programming, 2nd ed., 1999, Prop.
+B.25): its max and min are differentiated piece by piece instead of lifted, and
+it goes to the gradient methods above, never to Newton steps.  A semidefinite
+dual needs a conic solver, which the generated module says instead of guessing.
 """
 
 from __future__ import annotations
@@ -32,7 +37,7 @@ from dualize.solvergen.calculus import NotDifferentiable, gradient, jacobian
 from dualize.solvergen.ir_rewrite import normalize
 from dualize.solvergen.solver_lift import Lift, epigraph_lift, known_sign
 
-Method = Literal["linprog", "lbfgsb", "interior", "augmented", "slsqp", "conic"]
+Method = Literal["linprog", "lbfgsb", "lbfgsb_c1", "interior", "augmented", "slsqp", "conic"]
 
 
 @dataclass(frozen=True)
@@ -88,11 +93,13 @@ def make_plan(dual: DualProblem) -> Plan:
     sign = ir.Number(sympy.Integer(-1 if dual.sense == "maximize" else 1))
     objective = normalize(ir.Scale(sign, dual.objective))
     parts = [part for constraint in dual.constraints for part in expand_ball(constraint)]
-    lift = epigraph_lift(objective, parts, {v.name for v in dual.variables})
+    smooth = bool(dual.strictly_convex_boxes)  # differentiated piece by piece, not lifted
+    lift = epigraph_lift(zero() if smooth else objective, parts, {v.name for v in dual.variables})
     variables = _multipliers(dual) + lift.auxiliary
     names = {v.name for v in variables}
-    objective = normalize(lift.objective)
-    gradients = tuple(differentiate(objective, v, "the dual objective") for v in variables)
+    objective = objective if smooth else normalize(lift.objective)
+    gradients = tuple(differentiate(objective, v, "the dual objective", smooth)
+                      for v in variables)
     bounds = [Bound(v.name, "lo", zero()) for v in dual.variables if v.set == "nonneg"]
     bounds += [Bound(v.name, "hi", zero()) for v in dual.variables if v.set == "nonpos"]
     general: list[General] = []
@@ -104,21 +111,44 @@ def make_plan(dual: DualProblem) -> Plan:
             general.append(general_constraint(part, variables))
     linear = not any(ir.depends_on(g, names) for g in gradients)
     plan = _choose(objective, gradients, tuple(bounds), tuple(general), linear)
-    if plan.method in ("augmented", "slsqp", "lbfgsb") and all(g.affine for g in general):
-        hessian = hessian_blocks(gradients, variables)
-        constant = hessian is not None and not any(
-            ir.depends_on(block, names) for row in hessian for block in row)
-        # Bounds only: L-BFGS-B stays for a nonquadratic dual; a quadratic one gets Newton
-        # steps, whose accuracy a certificate at 1e-6 needs.
-        if hessian is not None and (plan.method != "lbfgsb" or constant):
-            kind = "a quadratic" if constant else "a smooth convex"
-            reason = f"{kind} objective with bounds and linear constraints: a primal-dual " \
-                "interior-point method (Mehrotra predictor-corrector) on the analytic Hessian"
-            if constant:
-                reason += ", factored as a low-rank Gram matrix when it is one"
-            plan = replace(plan, method="interior", reason=reason, hessian=hessian,
-                           constant_hessian=constant)
+    if smooth:  # C^1 but not C^2: no Newton steps on a Hessian with jumps
+        plan = _smooth(plan, dual)
+    elif plan.method in ("augmented", "slsqp", "lbfgsb") and all(g.affine for g in general):
+        plan = _with_hessian(plan, variables, names)
     return _lifted(plan, lift) if lift.auxiliary else plan
+
+
+def _smooth(plan: Plan, dual: DualProblem) -> Plan:
+    """The plan of a dual smooth by strictly convex boxes: its reason says so, and bounds
+    alone go to L-BFGS-B stopping on the projected gradient (``lbfgsb_c1``)."""
+    boxes = ", ".join(dual.strictly_convex_boxes)
+    reason = (f"the max and min of the multipliers come from minimizing the Lagrangian over "
+              f"the box of {boxes}, where it is strictly convex: the minimizer is unique, so "
+              "the dual function is continuously differentiable (Danskin's theorem) and its "
+              "gradient is taken piece by piece; ")
+    if plan.method == "lbfgsb":
+        return replace(plan, method="lbfgsb_c1", reason=reason + "the only constraints are "
+                       "bounds on the multipliers: L-BFGS-B with that gradient, stopped by "
+                       "the projected gradient rather than by the decrease of the objective")
+    return replace(plan, reason=reason + plan.reason)
+
+
+def _with_hessian(plan: Plan, variables: tuple[ir.Symbol, ...], names: set[str]) -> Plan:
+    """The plan moved to the interior-point method when the Hessian has a rule."""
+    hessian = hessian_blocks(plan.gradients, variables)
+    constant = hessian is not None and not any(
+        ir.depends_on(block, names) for row in hessian for block in row)
+    # Bounds only: L-BFGS-B stays for a nonquadratic dual; a quadratic one gets Newton
+    # steps, whose accuracy a certificate at 1e-6 needs.
+    if hessian is None or (plan.method == "lbfgsb" and not constant):
+        return plan
+    kind = "a quadratic" if constant else "a smooth convex"
+    reason = f"{kind} objective with bounds and linear constraints: a primal-dual " \
+        "interior-point method (Mehrotra predictor-corrector) on the analytic Hessian"
+    if constant:
+        reason += ", factored as a low-rank Gram matrix when it is one"
+    return replace(plan, method="interior", reason=reason, hessian=hessian,
+                   constant_hessian=constant)
 
 
 def hessian_blocks(
@@ -147,9 +177,9 @@ def zero() -> ir.Expr:
     return ir.Number(sympy.Integer(0))
 
 
-def differentiate(expr: ir.Expr, var: ir.Symbol, what: str) -> ir.Expr:
+def differentiate(expr: ir.Expr, var: ir.Symbol, what: str, piecewise: bool = False) -> ir.Expr:
     try:
-        return gradient(expr, var)
+        return gradient(expr, var, piecewise)
     except NotDifferentiable as err:
         raise DualizeError(
             f"cannot generate a solver: {what} is not smooth in {var.name} ({err}); "
