@@ -23,7 +23,7 @@ HERE = Path(__file__).resolve().parent
 ROOT = HERE.parents[1]
 sys.path.insert(0, str(HERE))
 
-import regenerate  # noqa: E402 - the generator lives beside this test
+import regenerate_seed as regenerate  # noqa: E402 - the generator lives beside this test
 
 SEED = json.loads(regenerate.SEED.read_text(encoding="utf-8"))
 
@@ -49,7 +49,7 @@ def test_every_entry_carries_its_own_key_and_a_matching_digest() -> None:
 
 def test_the_seed_was_made_by_this_code_with_these_libraries() -> None:
     # A stale seed is silently unused; with the libraries it was made with, that can only
-    # mean the engine or grammar changed without `python tests/cache_seed/regenerate.py`.
+    # mean the engine or grammar changed without `python tests/cache_seed/regenerate_seed.py`.
     stamps = _current_stamps()
     library = {"derivation": 1, "parser": 2}  # where the library version sits in a stamp
     for section, entries in SEED.items():
@@ -60,7 +60,7 @@ def test_the_seed_was_made_by_this_code_with_these_libraries() -> None:
         if stamp.split("-")[position] != stamps[section].split("-")[position]:
             pytest.skip(f"{section}: the seed was made with another library version ({stamp})")
         assert stamp == stamps[section], (
-            f"{section}: the seed is stale; run python tests/cache_seed/regenerate.py")
+            f"{section}: the seed is stale; run python tests/cache_seed/regenerate_seed.py")
 
 
 def test_the_seed_equals_what_a_cold_derivation_stores() -> None:

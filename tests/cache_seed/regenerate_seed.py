@@ -1,6 +1,6 @@
 """Write dualize/cache_seed.json, the cache entries the package ships: run on purpose only.
 
-    python tests/cache_seed/regenerate.py
+    python tests/cache_seed/regenerate_seed.py
 
 The seed holds what every user's first run would otherwise compute: the parser's
 tables and the conjugates of parameter-free scalar functions, the ones the
