@@ -36,8 +36,8 @@ def median_seconds(run: Callable[[], object], repeat: int) -> float:
     return statistics.median(times)
 
 
-def process(args: list[str]) -> Callable[[], object]:
-    env = dict(os.environ, NO_COLOR="1")
+def process(args: list[str], **extra: str) -> Callable[[], object]:
+    env = dict(os.environ, NO_COLOR="1", **extra)
     return lambda: subprocess.run(args, check=True, capture_output=True, env=env, cwd=ROOT)
 
 
@@ -53,7 +53,9 @@ def startup(repeat: int) -> dict[str, float]:
 
 
 def derivations(repeat: int) -> dict[str, object]:
-    """Each example derived in process (after imports), and one whole process."""
+    """Each example derived in process (after imports), and one whole process, all with
+    the cache turned off (every step derived; bench/derive_cost.py measures the cache)."""
+    os.environ["DUALIZE_CACHE"] = "off"
     from dualize.duality import derive
     from dualize.model import load_file
 
@@ -64,7 +66,8 @@ def derivations(repeat: int) -> dict[str, object]:
         per_example[path.stem] = median_seconds(lambda p=problem: derive(p), repeat)
     sympy_import = median_seconds(process([sys.executable, "-c", "import sympy"]), repeat)
     svm = str(EXAMPLES / "parts_soft_margin.prob")
-    whole = median_seconds(process(dualize_cmd("derive", svm)), repeat)
+    whole = median_seconds(process(dualize_cmd("derive", svm), DUALIZE_CACHE="off"), repeat)
+    del os.environ["DUALIZE_CACHE"]
     typical = statistics.median(per_example.values())
     return {"per_example_s": per_example, "first_run_s": first, "typical_s": typical,
             "worst_first_run_s": max(first.values()),
