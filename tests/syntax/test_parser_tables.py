@@ -8,6 +8,7 @@ from pathlib import Path
 import pytest
 from lark import Lark, UnexpectedInput
 
+from dualize import disk_cache
 from dualize.syntax import parser_tables
 from dualize.syntax.grammar_file import grammar_text
 from dualize.syntax.newlines import NewlineFilter
@@ -46,6 +47,7 @@ def test_loaded_parser_agrees_with_the_built_one(pair: tuple[Lark, Lark], path: 
 
 def test_cached_parser_stores_then_reads(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     monkeypatch.setenv("DUALIZE_CACHE_DIR", str(tmp_path))
+    monkeypatch.setattr(disk_cache, "seed", dict)  # the user folder alone, no shipped seed
     builds: list[int] = []
 
     def build() -> Lark:
