@@ -13,6 +13,28 @@ from dualize.solvergen.runtime import NoFiniteDual
 # ---- copied into the generated module from here ----
 
 
+_SCIPY_WORDS = {
+    "L-BFGS-B": {0: "converged: the projected gradient or the relative decrease of the "
+                    "objective met its tolerance",
+                 1: "stopped at the iteration or evaluation limit",
+                 2: "stopped: the line search found no decrease (the objective may be badly "
+                    "scaled or not smooth there)"},
+    "SLSQP": {0: "converged: the step and the constraint violation met their tolerances",
+              4: "stopped: the linearized constraints are incompatible",
+              8: "stopped: the line search found no descent direction",
+              9: "stopped at the iteration limit"},
+    "HiGHS": {0: "solved", 1: "stopped at the iteration limit", 2: "infeasible",
+              3: "unbounded", 4: "stopped on numerical difficulties"},
+}
+
+
+def _in_our_words(method, res):
+    """What a scipy method's result means, said in the module's own words (the library's
+    messages are its own and change between versions); the status number is kept."""
+    said = _SCIPY_WORDS[method].get(int(res.status), "stopped early")
+    return f"{method} {said} (status {int(res.status)})"
+
+
 def _start(lo, hi):
     z = np.zeros(lo.shape)
     both = np.isfinite(lo) & np.isfinite(hi)
@@ -168,7 +190,7 @@ def _most_interior(p, z0, lo, hi, d):
     )
     if res.status == 2:  # t is free below, so only the constraints themselves can clash
         raise NoFiniteDual("infeasible", "no multipliers meet the dual's bounds and linear "
-                           f"constraints ({res.message})")
+                           f"constraints ({_in_our_words('HiGHS', res)})")
     if res.status != 0 or res.x[size] <= 0:
         return None
     return res.x[:size]
@@ -183,7 +205,7 @@ def _solve_lbfgsb(p, d, z0, lo, hi, tol, max_iter, ftol=None):
         _walled(fun, z0), z0, jac=True, method="L-BFGS-B", bounds=scipy.optimize.Bounds(lo, hi),
         options={"maxiter": max_iter, "ftol": ftol, "gtol": tol, "maxcor": 30},
     )
-    return res.x, bool(res.success), str(res.message)
+    return res.x, bool(res.success), _in_our_words("L-BFGS-B", res)
 
 
 def _solve_lbfgsb_c1(p, d, z0, lo, hi, tol, max_iter):
@@ -268,4 +290,4 @@ def _solve_slsqp(p, d, z0, lo, hi, tol, max_iter):
         bounds=scipy.optimize.Bounds(lo, hi), constraints=constraints,
         options={"maxiter": max_iter, "ftol": tol},
     )
-    return res.x, bool(res.success), str(res.message)
+    return res.x, bool(res.success), _in_our_words("SLSQP", res)

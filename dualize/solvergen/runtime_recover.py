@@ -9,7 +9,7 @@ import scipy.optimize
 import scipy.sparse
 
 from dualize.solvergen.runtime import CERTIFY
-from dualize.solvergen.runtime_methods import _start, _walled
+from dualize.solvergen.runtime_methods import _in_our_words, _start, _walled
 
 # ---- copied into the generated module from here ----
 
@@ -145,8 +145,9 @@ def _fill_by_lagrangian(p, x, z, d, dual_value):
     candidate = placed(res.x)
     doubt = _uncertified(p, candidate, d, dual_value)
     if doubt:
-        return f"a numeric minimization of the Lagrangian (L-BFGS-B: {res.message}) gave an x " \
-            f"{doubt}; the Lagrangian may have many minimizers, not all of them primal optimal"
+        return f"a numeric minimization of the Lagrangian ({_in_our_words('L-BFGS-B', res)}) " \
+            f"gave an x {doubt}; the Lagrangian may have many minimizers, not all of them " \
+            "primal optimal"
     x.update(candidate)
     return None
 
