@@ -73,7 +73,7 @@ def measured(command: list[str], timeout: float) -> dict:
         except subprocess.TimeoutExpired:
             os.killpg(child.pid, signal.SIGKILL)
             child.communicate()
-            return {"error": f"killed after {timeout:.0f} s"}
+            return {"error": f"killed after {timeout:g} s"}
     done = subprocess.CompletedProcess(full, child.returncode, stdout, stderr)
     seconds = time.perf_counter() - start
     peak = None
@@ -226,7 +226,7 @@ def merge_references(into: Path, wanted: Any, timeout: float) -> list[dict]:
                 row.pop(key, None)
             row.update(reference_fields(row, result))
             write_rows(rows, into)
-            print(json.dumps({k: row.get(k) for k in ("case", "size", *REFERENCE_KEYS)}),
+            print(json.dumps({k: row[k] for k in ("case", "size", *REFERENCE_KEYS) if k in row}),
                   flush=True)
     return rows
 
@@ -250,9 +250,21 @@ def arguments() -> argparse.Namespace:
         parser.error("--reference-only needs --into FILE (a results file to complete)")
     if args.into and not args.reference_only:
         parser.error("--into goes with --reference-only")
-    if args.into and not Path(args.into).is_file():
-        parser.error(f"--into {args.into}: no such results file")
+    if args.into and not results_file(Path(args.into)):
+        parser.error(f"--into {args.into}: not a results file of this benchmark (a JSON "
+                     "list of rows, each with its case and size)")
     return args
+
+
+def results_file(path: Path) -> bool:
+    """Whether ``path`` holds rows this benchmark wrote, each naming a known case and size."""
+    try:
+        rows = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, UnicodeDecodeError, json.JSONDecodeError):
+        return False
+    return isinstance(rows, list) and all(
+        isinstance(r, dict) and r.get("case") in CASES and isinstance(r.get("size"), str)
+        and all(k.isdigit() for k in r["size"].split("x")) for r in rows)
 
 
 def main() -> None:
