@@ -6,9 +6,15 @@ reliable on our expressions (see the project notes), so this module
 differentiates the IR itself, in forward mode and in matrix form: the
 Jacobian of a scalar or vector expression ``e`` with respect to a vector
 variable ``v`` is an IR expression of shape ``len(e) x len(v)``.  Row and
-column vectors are treated alike (flattened), which is all the duals need;
-an expression whose matrix-valued parts depend on the variable raises
-:class:`NotDifferentiable` with the reason, never a silent wrong answer.
+column vectors are treated alike (flattened); a matrix-valued expression is
+differentiated as its entries stacked row by row (``Vec``), and a product
+``L F R`` whose factor ``F`` depends on the variable as ``kron(L, R') d vec(F)``
+(``Kron``), which covers outer products such as ``u 1'`` and ``1 v'`` (the
+transport kind) and elementwise functions of them.  The transpose of a matrix
+that depends on the variable is differentiated only inside a product whose value
+is a vector (``vec(L F' R) = kron(R', L) vec(F)`` there); elsewhere it, like every
+node without a rule, raises :class:`NotDifferentiable` with the reason, never a
+silent wrong answer.
 
 A max or min has a derivative rule only on request (``piecewise``): the derivative
 of the side it takes, entry by entry (``Picks``; the left side at ties).  That is the
@@ -27,9 +33,11 @@ from dualize.model import expr as ir
 from dualize.model.functions import lookup
 from dualize.model.ops import is_zero
 from dualize.solvergen.ir_rewrite import (
+    Kron,
     LogSumExp,
     Picks,
     Softmax,
+    Vec,
     is_scalar,
     is_vector_like,
     length,
@@ -78,11 +86,6 @@ def _zero(expr: ir.Expr, target: _Target) -> ir.Expr:
 def _jac(expr: ir.Expr, target: _Target) -> ir.Expr:
     if not ir.depends_on(expr, {target.symbol.name}):
         return _zero(expr, target)
-    if not (is_scalar(expr) or is_vector_like(expr)):
-        raise NotDifferentiable(
-            f"a matrix-valued term depends on {target.symbol.name}: "
-            f"{type(expr).__name__}"
-        )
     rule = _RULES.get(type(expr))
     if rule is None:
         raise NotDifferentiable(f"no derivative rule for {type(expr).__name__}")
@@ -107,13 +110,18 @@ def _scale(expr: ir.Scale, target: _Target) -> ir.Expr:
 
 
 def _column(expr: ir.Expr) -> ir.Expr:
-    """A vector-like expression as a column (rows become transposed)."""
+    """An expression as a column: rows transposed, matrices stacked row by row."""
     if expr.shape.rows == 1 and expr.shape.cols != 1:
         return ir.Transpose(expr)
+    if not (is_scalar(expr) or is_vector_like(expr)):
+        return Vec(expr)
     return expr
 
 
 def _transpose(expr: ir.Transpose, target: _Target) -> ir.Expr:
+    if not (is_scalar(expr.arg) or is_vector_like(expr.arg)):
+        raise NotDifferentiable(
+            f"the transpose of a matrix that depends on {target.symbol.name}")
     return _jac(expr.arg, target)
 
 
@@ -236,18 +244,32 @@ def _matmul(expr: ir.MatMul, target: _Target) -> ir.Expr:
 def _chain_term(
     left: tuple[ir.Expr, ...], factor: ir.Expr, right: tuple[ir.Expr, ...], target: _Target
 ) -> ir.Expr:
-    inner = _jac(factor, target)
     if factor.shape.cols == 1 and factor.shape.rows != 1:
-        if right and not is_scalar(total(right)):
-            raise NotDifferentiable("an outer product depends on the multipliers")
-        head = matmul(*left, inner) if left else inner
-        return scale(total(right), head) if right else head
-    if factor.shape.rows == 1:
-        if left and not is_scalar(total(left)):
-            raise NotDifferentiable("an outer product depends on the multipliers")
-        head = matmul(ir.Transpose(total(right)), inner) if right else inner
-        return scale(total(left), head) if left else head
-    raise NotDifferentiable("a matrix factor depends on the multipliers")
+        if not right or is_scalar(total(right)):
+            inner = _jac(factor, target)
+            head = matmul(*left, inner) if left else inner
+            return scale(total(right), head) if right else head
+    elif factor.shape.rows == 1:
+        if not left or is_scalar(total(left)):
+            inner = _jac(factor, target)
+            head = matmul(ir.Transpose(total(right)), inner) if right else inner
+            return scale(total(left), head) if left else head
+    return _kron_term(left, factor, right, target)
+
+
+def _kron_term(
+    left: tuple[ir.Expr, ...], factor: ir.Expr, right: tuple[ir.Expr, ...], target: _Target
+) -> ir.Expr:
+    """d vec(L F R) = kron(L, R') d vec(F), an outer product or a matrix factor; for a
+    transposed matrix in a product whose value is a vector, vec(L F' R) = kron(R', L) vec(F)
+    (a vector's entries are in one order whichever way it stands)."""
+    head = total(left) if left else ir.Identity(factor.shape.rows)
+    tail = total(right) if right else ir.Identity(factor.shape.cols)
+    whole = ir.Shape(head.shape.rows, tail.shape.cols)
+    if isinstance(factor, ir.Transpose) and not is_vector_like(factor) and (
+            whole.is_scalar or whole.rows == 1 or whole.cols == 1):
+        return matmul(Kron(ir.Transpose(tail), head), _jac(factor.arg, target))
+    return matmul(Kron(head, ir.Transpose(tail)), _jac(factor, target))
 
 
 _RULES = {

@@ -1,9 +1,16 @@
 """Rewrites of IR expressions that the numeric code printer relies on.
 
-Three extra nodes live here, private to code generation: ``LogSumExp`` (so that
+Five extra nodes live here, private to code generation: ``LogSumExp`` (so that
 ``log(1' exp(u))`` is printed as a stable library call rather than an overflow),
-``Softmax`` (its gradient) and ``Picks`` (which side a max or min takes, for the
-piecewise derivative of a dual that is smooth as a whole).  ``normalize`` pushes
+``Softmax`` (its gradient), ``Picks`` (which side a max or min takes, for the
+piecewise derivative of a dual that is smooth as a whole), and ``Vec`` and ``Kron``
+for the Jacobians of matrix-valued expressions: a matrix is differentiated as its
+entries stacked row by row (``Vec``, numpy's order), and the product rule on ``L F R``
+gives ``kron(L, R') d vec(F)`` (``Kron``; J. Magnus and H. Neudecker, Matrix
+Differential Calculus, 1999, chapter 2, from memory, there with columns stacked).
+``vec(u 1')`` has the Jacobian ``kron(I, 1)`` in ``u`` and ``vec(1 v')`` the
+Jacobian ``kron(1, I)`` in ``v``; a product ``kron(A, B) vec(X)`` is rewritten to
+``vec(A X B')`` so that no Kronecker product is formed where it is applied.  ``normalize`` pushes
 transposes to the leaves, flattens product chains, lifts scalars out of chains
 and distributes chains over sums, so that every product ends in the vector it is
 applied to: that is what lets the printer evaluate ``X' (X w)`` instead of ``(X' X) w``.
@@ -57,6 +64,34 @@ class Picks(ir.Expr):
     @property
     def shape(self) -> ir.Shape:
         return self.left.shape
+
+
+@dataclass(frozen=True)
+class Vec(ir.Expr):
+    """The entries of a matrix stacked row by row into a column (numpy's ``reshape(-1)``)."""
+
+    arg: ir.Expr
+    span: object = None
+
+    @property
+    def shape(self) -> ir.Shape:
+        return ir.Shape(length(self.arg.shape), sympy.Integer(1))
+
+
+@dataclass(frozen=True)
+class Kron(ir.Expr):
+    """The Kronecker product: entry ((i, j), (k, l)) is left[i, k] * right[j, l], pairs
+    numbered row by row, so that ``vec(L F R) = kron(L, R') vec(F)`` under ``Vec``."""
+
+    left: ir.Expr
+    right: ir.Expr
+    span: object = None
+
+    @property
+    def shape(self) -> ir.Shape:
+        left, right = self.left.shape, self.right.shape
+        return ir.Shape(sympy.expand(left.rows * right.rows),
+                        sympy.expand(left.cols * right.cols))
 
 
 ONE = ir.Number(sympy.Integer(1))
@@ -205,6 +240,8 @@ def _transpose(expr: ir.Transpose) -> ir.Expr:
         return ir.Zero(arg.shape.transposed())
     if isinstance(arg, ir.Inverse):
         return ir.Inverse(ir.Transpose(arg.arg))
+    if isinstance(arg, Kron):
+        return Kron(ir.Transpose(arg.left), ir.Transpose(arg.right))
     return expr
 
 
@@ -220,7 +257,7 @@ def _matmul(expr: ir.MatMul) -> ir.Expr:
     if any(is_zero(f) for f in factors):
         return ir.Zero(expr.shape)
     factors = [f for f in factors if not isinstance(f, ir.Identity)] or factors[:1]
-    factors = _merge_diagonals(factors)
+    factors = _kron_products(_merge_diagonals(factors))
     core = _distribute(factors) if factors else ONE
     core = _diagonal_to_elementwise(core)
     for scalar in reversed(scalars):
@@ -259,6 +296,61 @@ def _merge_diagonals(factors: list[ir.Expr]) -> list[ir.Expr]:
         else:
             out.append(factor)
     return out
+
+
+def _kron_products(factors: list[ir.Expr]) -> list[ir.Expr]:
+    """kron(A, B) vec(X) is vec(A X B'), and vec(X)' kron(A, B) is vec(A' X B)': the
+    Kronecker product is never formed where it is applied to a stacked matrix."""
+    for i in range(len(factors) - 1):
+        head, tail = factors[i], factors[i + 1]
+        if isinstance(head, Kron) and isinstance(tail, Vec):
+            left, right, inner = head.left, head.right, tail.arg
+            if (left.shape.cols, right.shape.cols) == (inner.shape.rows, inner.shape.cols):
+                product = Vec(ir.MatMul((left, inner, ir.Transpose(right))))
+                return [*factors[:i], product, *factors[i + 2:]]
+        if isinstance(head, ir.Transpose) and isinstance(head.arg, Vec) and \
+                isinstance(tail, Kron):
+            left, right, inner = tail.left, tail.right, head.arg.arg
+            if (left.shape.rows, right.shape.rows) == (inner.shape.rows, inner.shape.cols):
+                product = Vec(ir.MatMul((ir.Transpose(left), inner, right)))
+                return [*factors[:i], ir.Transpose(product), *factors[i + 2:]]
+    return factors
+
+
+def _vec(expr: Vec) -> ir.Expr:
+    """A vector stacked is itself (a row becomes a column); scalars and zeros come out."""
+    arg = expr.arg
+    if is_scalar(arg) or arg.shape.cols == 1:
+        return arg
+    if arg.shape.rows == 1:
+        return ir.Transpose(arg)
+    if isinstance(arg, ir.Zero):
+        return ir.Zero(expr.shape)
+    if isinstance(arg, ir.Scale):
+        return ir.Scale(arg.factor, Vec(arg.arg))
+    return expr
+
+
+def _kron(expr: Kron) -> ir.Expr:
+    """Scales come out; ones with ones and identity with identity are one of a kind."""
+    left, right = expr.left, expr.right
+    if is_zero(left) or is_zero(right):
+        return ir.Zero(expr.shape)
+    for side, other in ((left, right), (right, left)):
+        if is_scalar(side):
+            return ir.Scale(side, other)
+    if isinstance(left, ir.Scale):
+        return ir.Scale(left.factor, Kron(left.arg, right))
+    if isinstance(right, ir.Scale):
+        return ir.Scale(right.factor, Kron(left, right.arg))
+    if isinstance(left, ir.Identity) and isinstance(right, ir.Identity):
+        return ir.Identity(expr.shape.rows)
+    if isinstance(left, ir.Ones) and isinstance(right, ir.Ones):
+        return ir.Ones(expr.shape.rows)
+    if isinstance(left, ir.Transpose) and isinstance(right, ir.Transpose) and \
+            isinstance(left.arg, ir.Ones) and isinstance(right.arg, ir.Ones):
+        return ir.Transpose(ir.Ones(expr.shape.cols))
+    return expr
 
 
 def _diagonal_to_elementwise(expr: ir.Expr) -> ir.Expr:
@@ -349,4 +441,6 @@ _RULES = {
     ir.Apply: _log,
     ir.Inverse: _inverse,
     ir.Diag: _diag,
+    Vec: _vec,
+    Kron: _kron,
 }

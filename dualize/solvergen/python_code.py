@@ -22,7 +22,15 @@ from sympy.printing.printer import Printer
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.functions import LOG, lookup
-from dualize.solvergen.ir_rewrite import LogSumExp, Picks, Softmax, is_scalar, is_vector_like
+from dualize.solvergen.ir_rewrite import (
+    Kron,
+    LogSumExp,
+    Picks,
+    Softmax,
+    Vec,
+    is_scalar,
+    is_vector_like,
+)
 from dualize.solvergen.pynames import python_names  # noqa: F401 - re-exported
 
 
@@ -278,6 +286,24 @@ class NumpyPrinter(Printer):
 
     def _print_ir_Softmax(self, expr: Softmax) -> str:  # noqa: N802
         return f"scipy.special.softmax({self._arg(expr.arg)})"
+
+    def _print_ir_Vec(self, expr: Vec) -> str:  # noqa: N802
+        return f"np.reshape({self._arg(expr.arg)}, -1)"
+
+    def _print_ir_Kron(self, expr: Kron) -> str:  # noqa: N802
+        """Sparse where the caller asked for it (a Jacobian for HiGHS: kron(I_m, 1_n) has
+        m n nonzeros, not m^2 n), dense otherwise; vectors as the matrices they are."""
+        left, right = self._two_d(expr.left), self._two_d(expr.right)
+        if self._settings["sparse"]:
+            return f"scipy.sparse.kron({left}, {right}, format=\"csr\")"
+        return f"np.kron({left}, {right})"
+
+    def _two_d(self, expr: ir.Expr) -> str:
+        code = self._print(expr)
+        if is_scalar(expr) or is_vector_like(expr):
+            rows, cols = self.size(expr.shape.rows), self.size(expr.shape.cols)
+            return f"np.reshape({bare(code)}, ({rows}, {cols}))"
+        return code
 
     def _print_ir_Picks(self, expr: Picks) -> str:  # noqa: N802
         relation = ">=" if expr.kind == "max" else "<="

@@ -70,6 +70,7 @@ class Spec:
     lagrangian_domain: object = None
     cones: object = None
     hessian_diagonal: object = None
+    primal_shapes: object = None
     caution: str = ""
 
 
@@ -96,7 +97,10 @@ class NoFiniteDual(Exception):
 
 
 def _flat(value, size):
-    return np.broadcast_to(np.asarray(value, dtype=float), (size,)).astype(float)
+    """``value`` as ``size`` entries: a number spread, a matrix's entries row by row (the
+    order of the Jacobians of a matrix-valued expression)."""
+    value = np.asarray(value, dtype=float)
+    return np.broadcast_to(value.reshape(-1) if value.ndim > 1 else value, (size,)).astype(float)
 
 
 def _block(value, rows, cols):

@@ -11,6 +11,7 @@ the fallback, and it is HiGHS that proves an infeasible or unbounded dual.
 
 import numpy as np
 import scipy.linalg
+import scipy.sparse
 
 from dualize.solvergen.runtime_methods import _keep_multipliers, _linear_parts, _solve_linprog
 
@@ -102,7 +103,11 @@ def _lp_interior(p, d, z0, lo, hi, tol, max_iter):
 
 
 def _solve_lp(p, d, z0, lo, hi, tol, max_iter):
-    """The normal-equations interior point; HiGHS when it does not converge."""
+    """The normal-equations interior point; HiGHS when it does not converge, and HiGHS
+    alone for sparse rows (a matrix-valued constraint: the transport kind), whose dense
+    normal equations would waste what the sparsity saves."""
+    if any(scipy.sparse.issparse(rows) for rows, _ in _linear_parts(p, z0, d)):
+        return _solve_linprog(p, d, z0, lo, hi, tol, max_iter)
     try:
         with np.errstate(all="raise"):
             z, ok, found = _lp_interior(p, d, z0, lo, hi, tol, max_iter)

@@ -7,6 +7,7 @@ imports above it serve linting and the unit tests only.  ``p`` is the module's `
 
 import numpy as np
 import scipy.optimize
+import scipy.sparse
 
 from dualize.solvergen.runtime import NoFiniteDual
 
@@ -66,9 +67,16 @@ def _linear_parts(p, z, d):
         jac = _numeric_jacobian(p, index, z, d) if jac is None else jac
         target = eq if relation == "=" else ub
         target.append((jac, jac @ z - value))
-    stack = [(np.vstack([j for j, _ in q]), np.concatenate([b for _, b in q]))
+    stack = [(_vstack([j for j, _ in q]), np.concatenate([b for _, b in q]))
              if q else (None, None) for q in (ub, eq)]
     return stack[0], stack[1]
+
+
+def _vstack(blocks):
+    """Rows stacked, sparse when any block is (a matrix-valued constraint's Jacobian)."""
+    if any(scipy.sparse.issparse(b) for b in blocks):
+        return scipy.sparse.vstack(blocks, format="csr")
+    return np.vstack(blocks)
 
 
 def _by_block(p, z, d, ub, eq):

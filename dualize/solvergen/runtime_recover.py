@@ -67,7 +67,7 @@ def _fill_by_multipliers(p, x, d, dual_value):
         for pick in np.ndindex(*[len(c) for c in choices]):
             trial = dict(x)
             for (name, size, low, high), options, k in zip(spec, choices, pick, strict=True):
-                _place(p, trial, [(name, size)], [np.clip(options[k], low, high)])
+                _place(p, trial, [(name, size)], [np.clip(options[k], low, high)], d)
             if not _uncertified(p, trial, d, dual_value):
                 x.update(trial)
                 return True
@@ -98,16 +98,19 @@ def _fill_by_linear_program(p, x, d):
         return "the linear program over the unrecovered variables has no solution (HiGHS " \
             f"status {res.status})"
     values = np.split(res.x, np.cumsum([size for _, size, _, _ in variables])[:-1])
-    _place(p, x, [(name, size) for name, size, _, _ in variables], values)
+    _place(p, x, [(name, size) for name, size, _, _ in variables], values, d)
     return None
 
 
-def _place(p, x, sizes, values):
-    """Put the primal variables among ``values`` into x (epigraph variables are dropped)."""
+def _place(p, x, sizes, values, d):
+    """Put the primal variables among ``values`` into x (epigraph variables are dropped),
+    a matrix variable's entries (row by row) back in its shape."""
+    shapes = p.primal_shapes(d) if p.primal_shapes is not None else {}
     for (name, size), value in zip(sizes, values, strict=True):
         if name in p.primal_names:
             scalar = size == 1 and p.primal_scalar[p.primal_names.index(name)]
-            x[name] = float(value[0]) if scalar else value
+            shaped = np.reshape(value, shapes[name]) if name in shapes else value
+            x[name] = float(value[0]) if scalar else shaped
 
 
 def _fill_by_lagrangian(p, x, z, d, dual_value):
@@ -127,7 +130,7 @@ def _fill_by_lagrangian(p, x, z, d, dual_value):
 
     def placed(u):
         trial = dict(x)
-        _place(p, trial, sizes, np.split(u, np.cumsum([size for _, size in sizes])[:-1]))
+        _place(p, trial, sizes, np.split(u, np.cumsum([size for _, size in sizes])[:-1]), d)
         return trial
 
     def fun(u):

@@ -18,12 +18,12 @@ from dualize.errors import DualizeError
 from dualize.model import expr as ir
 from dualize.model.ops import is_zero
 from dualize.render.caution import CAUTION
-from dualize.solvergen.ir_rewrite import length
+from dualize.solvergen.ir_rewrite import Kron, length
 from dualize.solvergen.pynames import literal
 from dualize.solvergen.python_code import python_names
 from dualize.solvergen.solver_conic import conic_plan
 from dualize.solvergen.solver_emit import Emitter, Scope, function
-from dualize.solvergen.solver_plan import Plan, is_conic, make_plan
+from dualize.solvergen.solver_plan import General, Plan, is_conic, make_plan
 from dualize.solvergen.solver_recover import (
     Rule,
     choose,
@@ -200,18 +200,30 @@ def _constraints(emitter: Emitter, plan: Plan, symbols: list[ir.Symbol]) -> str:
         if not general.jacobians and symbols:  # read off numerically (a conic dual)
             body.append(f"out.append(({general.relation!r}, _flat({value}, {rows}), None))")
             continue
-        blocks = []
-        for jac, symbol in zip(general.jacobians, symbols, strict=True):
-            code, jreads = emitter.code(jac)
-            cols, creads = emitter.size(length(symbol.shape))
-            used |= jreads | creads
-            blocks.append(f"_block({code}, {rows}, {cols})")
-        body.append(
-            f"out.append(({general.relation!r}, _flat({value}, {rows}), "
-            f"np.hstack([{', '.join(blocks)}])))"
-        )
+        jacobian = _jacobian_row(emitter, general, symbols, rows, used,
+                                 sparse=plan.method == "linprog" and _has_kron(general))
+        body.append(f"out.append(({general.relation!r}, _flat({value}, {rows}), {jacobian}))")
     body.append("return out")
     return function(emitter, "def _constraints(z, d):", body, used)
+
+
+def _has_kron(general: General) -> bool:
+    return any(isinstance(node, Kron) for jac in general.jacobians for node in ir.walk(jac))
+
+
+def _jacobian_row(emitter: Emitter, general: General, symbols: list[ir.Symbol], rows: str,
+                  used: set[str], sparse: bool) -> str:
+    """The constraint's Jacobian blocks side by side; sparse when asked (a matrix-valued
+    constraint of a linear program: kron(I_m, 1_n) kept at m n nonzeros for HiGHS)."""
+    blocks = []
+    for jac, symbol in zip(general.jacobians, symbols, strict=True):
+        code, jreads = emitter.code(jac, sparse=sparse)
+        cols, creads = emitter.size(length(symbol.shape))
+        used |= jreads | creads
+        blocks.append(f"{'_sparse_block' if sparse else '_block'}({code}, {rows}, {cols})")
+    if sparse:
+        return f"scipy.sparse.hstack([{', '.join(blocks)}], format=\"csr\")"
+    return f"np.hstack([{', '.join(blocks)}])"
 
 
 def _recovery(emitter: Emitter, derivation: Derivation) -> str:
@@ -237,6 +249,20 @@ def _primal_parts(emitter: Emitter, derivation: Derivation) -> str:
         body.append(f"parts.append(({constraint.kind!r}, np.asarray({fcode}, dtype=float)))")
     body.append("return value, parts")
     return function(emitter, "def _primal(x, d):", body, used)
+
+
+def _primal_shapes(emitter: Emitter, derivation: Derivation) -> str:
+    """``_primal_shapes(d)``: (rows, cols) of each matrix variable, whose entries a method
+    finds stacked row by row (the multipliers of a matrix-valued dual constraint)."""
+    items, used = [], set()
+    for var in derivation.problem.variables:
+        shape = var.symbol.shape
+        if shape.rows != 1 and shape.cols != 1:
+            rows, rreads = emitter.size(shape.rows)
+            cols, creads = emitter.size(shape.cols)
+            used |= rreads | creads
+            items.append(f"{literal(var.name)}: ({rows}, {cols})")
+    return function(emitter, "def _primal_shapes(d):", [f"return {{{', '.join(items)}}}"], used)
 
 
 def _cones(emitter: Emitter, plan: Plan) -> str:
@@ -310,7 +336,7 @@ _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "obje
             ("constraints", "constraints"), ("recover", "recover"), ("primal", "primal"),
             ("unknowns", "unknowns"), ("restricted", "restricted"), ("lagrangian", "lagrangian"),
             ("lagrangian_domain", "lagrangian_domain"), ("cones", "cones"),
-            ("hessian_diagonal", "hessian_diagonal"))
+            ("hessian_diagonal", "hessian_diagonal"), ("primal_shapes", "primal_shapes"))
 
 
 def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
@@ -346,6 +372,7 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         lagrangian(emitter, derivation, rule),
         lagrangian_domain(emitter, derivation, rule),
         _cones(emitter, plan),
+        _primal_shapes(emitter, derivation),
     ]
     functions.insert(0, _prepare(emitter))
     return fill(

@@ -115,7 +115,20 @@ def make_plan(dual: DualProblem) -> Plan:
         plan = _smooth(plan, dual)
     elif plan.method in ("augmented", "slsqp", "lbfgsb") and all(g.affine for g in general):
         plan = _with_hessian(plan, variables, names)
+    if plan.method == "lbfgsb" and matrix_valued(objective, names):
+        plan = replace(plan, method="lbfgsb_c1", reason=plan.reason + ", stopped by the "
+                       "projected gradient rather than by the decrease of the objective: a "
+                       "matrix-valued term in the multipliers (the entropic transport kind) "
+                       "makes the gradient the primal residual, row and column sums, which "
+                       "the certificate measures entry by entry")
     return _lifted(plan, lift) if lift.auxiliary else plan
+
+
+def matrix_valued(expr: ir.Expr, names: set[str]) -> bool:
+    """Whether a matrix-valued part of ``expr`` (neither scalar nor vector) depends on
+    ``names``: an outer product of the multipliers, or a function of one."""
+    return any(n.shape.rows != 1 and n.shape.cols != 1 and ir.depends_on(n, names)
+               for n in ir.walk(expr))
 
 
 def _smooth(plan: Plan, dual: DualProblem) -> Plan:
