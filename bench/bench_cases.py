@@ -138,8 +138,17 @@ def main(argv: list[str]) -> int:
     peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     value = None if problem.value is None else float(problem.value)
     print(json.dumps({"value": value, "solver": problem.solver_stats.solver_name,
-                      "status": problem.status, "_peak_mib": peak}))
+                      "status": _in_our_words(problem.status), "_peak_mib": peak}))
     return 0
+
+
+def _in_our_words(status: str) -> str:
+    """The reference library's status said in the project's words (its own are its own)."""
+    if status == "optimal":
+        return "solved"
+    if status.endswith("_inaccurate"):
+        return "solved-loosely" if status.startswith("optimal") else "unreliable"
+    return {"infeasible": "infeasible", "unbounded": "unbounded"}.get(status, "failed")
 
 
 if __name__ == "__main__":
