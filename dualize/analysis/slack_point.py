@@ -31,22 +31,13 @@ def _ones_like(sym: E.Symbol) -> E.Expr | None:
 
 
 def _terms(node: E.Expr) -> list[E.Expr]:
+    """The summands, with a scale carried into a sum (-(a + b) is -a and -b): each must
+    push down on its own, which asks no less than the sum as a whole."""
     if isinstance(node, E.Add):
         return [t for term in node.terms for t in _terms(term)]
+    if isinstance(node, E.Scale) and isinstance(node.arg, E.Add):
+        return [E.Scale(node.factor, t) for t in _terms(node.arg)]
     return [node]
-
-
-def _pushes_down(fn: E.Expr, var: Variable, others: frozenset[str]) -> bool:
-    """Every term of ``fn`` (others at zero) in ``var`` is linear and negative at ones."""
-    ones = _ones_like(var.symbol)
-    if ones is None:
-        return False
-    try:
-        folded = at_zero(fn, others)
-        terms = [t for t in _terms(folded) if E.depends_on(t, {var.name})]
-        return bool(terms) and all(_negative_linear(t, var, ones) for t in terms)
-    except Undefined:
-        return False
 
 
 def _negative_linear(term: E.Expr, var: Variable, ones: E.Expr) -> bool:
@@ -56,16 +47,61 @@ def _negative_linear(term: E.Expr, var: Variable, ones: E.Expr) -> bool:
     return sign(E.substitute(term, {var.symbol: ones})) == "neg"
 
 
+class _Split:
+    """A constraint function cut into its terms once, with the variables of each term and
+    whether each is defined with all its variables at zero.
+
+    Folding the whole function once per variable costs O(variables x size) per constraint,
+    minutes on a problem written entry by entry; a term is folded here only for the
+    variables it holds, and the fold of a term at the origin is shared by all the others.
+    """
+
+    def __init__(self, fn: E.Expr, variables: frozenset[str]) -> None:
+        self.terms = _terms(fn)
+        self.names = [frozenset(s.name for s in E.symbols_of(t)) & variables
+                      for t in self.terms]
+        self.by_name: dict[str, list[int]] = {}
+        for i, names in enumerate(self.names):
+            for name in names:
+                self.by_name.setdefault(name, []).append(i)
+        self.undefined = {i for i, (t, n) in enumerate(zip(self.terms, self.names, strict=True))
+                          if not self._defined(t, n)}
+
+    @staticmethod
+    def _defined(term: E.Expr, names: frozenset[str]) -> bool:
+        try:
+            at_zero(term, names)
+        except Undefined:
+            return False
+        return True
+
+    def pushes_down(self, var: Variable) -> bool:
+        """Every term (the other variables at zero) in ``var`` is linear and negative at
+        ones, and the function is defined there."""
+        ones = _ones_like(var.symbol)
+        mine = self.by_name.get(var.name, [])
+        if ones is None or not self.undefined <= set(mine):
+            return False
+        found: list[E.Expr] = []
+        for i in mine:
+            try:
+                folded = at_zero(self.terms[i], self.names[i] - {var.name})
+            except Undefined:
+                return False
+            found += [t for t in _terms(folded) if E.depends_on(t, {var.name})]
+        return bool(found) and all(_negative_linear(t, var, ones) for t in found)
+
+
 def slacks_of(problem: Problem) -> tuple[Variable, ...]:
     """The variables that behave as slacks in every constraint they enter."""
+    variables = frozenset(v.name for v in problem.variables)
+    split = [(c, _Split(c.function, variables)) for c in problem.constraints]
     out = []
     for v in problem.variables:
         if v.domain.kind not in ("free", "nonneg", "pos"):
             continue
-        cons = [c for c in problem.constraints if E.depends_on(c.function, {v.name})]
-        others = frozenset(w.name for w in problem.variables if w.name != v.name)
-        if cons and all(c.kind == "ineq" and _pushes_down(c.function, v, others)
-                        for c in cons):
+        cons = [(c, cut) for c, cut in split if v.name in cut.by_name]
+        if cons and all(c.kind == "ineq" and cut.pushes_down(v) for c, cut in cons):
             out.append(v)
     return tuple(out)
 
