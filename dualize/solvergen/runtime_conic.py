@@ -170,7 +170,11 @@ def _solve_conic(p, d, z0, lo, hi, tol, max_iter):
                            "objective grows without bound")
     z, y = np.asarray(solution.x, dtype=float), np.asarray(solution.z, dtype=float)
     blocks = _by_block(p, z, d, y[equalities:equalities + inequalities], y[:equalities])
-    start = len(b) - sum(len(base) for base, _, _ in psd)
+    balls = [1 + np.size(a) for _, a in p.balls(z, d)] if p.balls is not None else []
+    start = len(b) - sum(len(base) for base, _, _ in psd) - sum(balls)
+    for k in balls:  # the part of a ball's multiplier paired with its argument
+        blocks.append(y[start + 1:start + k])
+        start += k
     for base, _, k in psd:
         blocks.append(_unsvec(y[start:start + len(base)], k))
         start += len(base)

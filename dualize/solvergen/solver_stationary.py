@@ -35,7 +35,7 @@ def stationary_rows(derivation: Derivation, plan: Plan,
                     missing: dict[str, str]) -> dict[str, tuple[int, float]]:
     """For each variable in ``missing`` the rule covers: (index of its equality among the
     plan's general constraints, factor taking the multiplier to the variable)."""
-    if plan.method != "conic" or plan.cones or derivation.problem.sense != "minimize" \
+    if plan.method != "conic" or derivation.problem.sense != "minimize" \
             or derivation.dual.sense != "maximize":
         return {}
     found = {}
