@@ -4,10 +4,10 @@ interior-point method.
 Such a dual (maximize a linear or concave quadratic function of vector multipliers
 subject to F(multipliers) >= 0 in the semidefinite order, F affine, or to 2-norm
 balls ||a(multipliers)|| <= r(multipliers) with a and r affine, which are second-order
-cones, and linear constraints and bounds) is handed to Clarabel (P. Goulart and Y. Chen, Clarabel: an
-interior-point solver for conic programs with quadratic objectives, 2024), a
-well-kept open conic solver, through its own API; the generated module imports it
-only when its dual needs it.
+cones, and linear constraints and bounds) is handed to Clarabel (P. Goulart and
+Y. Chen, Clarabel: an interior-point solver for conic programs with quadratic
+objectives, 2024), a well-kept open conic solver, through its own API; the generated
+module imports it only when its dual needs it.
 """
 
 from __future__ import annotations
