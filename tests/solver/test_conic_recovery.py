@@ -25,8 +25,8 @@ import numpy as np
 import pytest
 import scipy.sparse
 
-from dualize.duality import derive
 from dualize.duality import build as b
+from dualize.duality import derive
 from dualize.model import load
 from dualize.solvergen.solver import render_solver
 from dualize.solvergen.solver_conic import ball_plan, conic_plan
@@ -128,7 +128,9 @@ def test_sum_of_norms_recovers_x_and_certifies(tmp_path, seed, m, n):
     assert report["dual_value"] == pytest.approx(value, rel=1e-6)
     assert report["primal_value"] == pytest.approx(value, rel=1e-6)
     # Two norms of residuals of random tall systems: the optimum is unique (from memory).
-    assert np.allclose(report["primal"]["x"], x, atol=1e-5)
+    # Both norms are smooth there, so the objective grows quadratically away from it and
+    # gaps near 1e-9 leave x within about sqrt(1e-9), a few 1e-5 (common practice).
+    assert np.allclose(report["primal"]["x"], x, atol=1e-4)
 
 
 @pytest.mark.parametrize("seed", [4, 5])
@@ -143,7 +145,7 @@ def test_socp_recovers_x_by_its_row_and_t_by_the_linear_program(tmp_path, seed):
     assert STATIONARITY in report["recovered_by"]["x"]
     assert "linear program" in report["recovered_by"]["t"]
     assert report["primal"]["t"] == pytest.approx(problem.value, rel=1e-6)
-    assert np.allclose(report["primal"]["x"], x.value, atol=1e-5)
+    assert np.allclose(report["primal"]["x"], x.value, atol=1e-4)  # as for sum_of_norms
 
 
 def test_eig_recovers_t_from_the_trace_row(tmp_path):
