@@ -54,6 +54,9 @@ class Spec:
     dims: list = field(default_factory=list)
     unrecovered: dict = field(default_factory=dict)
     by_lagrangian: bool = False
+    stationary: list = field(default_factory=list)
+    """(primal variable, index of the dual's equality that is its stationarity condition,
+    factor taking the conic method's multiplier of that equality to the variable)."""
     constant_hessian: bool = False
     prepare: object = None
     sizes: object = None
@@ -71,6 +74,7 @@ class Spec:
     cones: object = None
     hessian_diagonal: object = None
     primal_shapes: object = None
+    balls: object = None
     caution: str = ""
 
 

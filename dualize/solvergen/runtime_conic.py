@@ -50,6 +50,28 @@ def _affine_cones(p, d, size):
     return out
 
 
+def _affine_balls(p, d, size):
+    """For each 2-norm ball ||a(z)|| <= r(z): (the cone vector (r, a) at 0, its columns in z),
+    read off at unit vectors and checked affine at a random point, as for the semidefinite
+    constraints."""
+    def stacked(z):
+        return [np.concatenate([r, a]) for r, a in p.balls(z, d)]
+
+    base = stacked(np.zeros(size))
+    units = [stacked(np.eye(1, size, i)[0]) for i in range(size)]
+    out = []
+    for index, origin in enumerate(base):
+        columns = [unit[index] - origin for unit in units]
+        jac = np.column_stack(columns) if columns else np.zeros((len(origin), 0))
+        probe = np.random.default_rng(100 + index).standard_normal(size)
+        expected = origin + jac @ probe
+        if np.abs(stacked(probe)[index] - expected).max(initial=0.0) > \
+                1e-8 * (1.0 + np.abs(expected).max(initial=0.0)):
+            raise ValueError("a 2-norm ball of the dual is not affine in the multipliers")
+        out.append((origin, jac))
+    return out
+
+
 def _linear_objective(p, d, size):
     """q with f(z) = f(0) + q'z, read off at unit vectors and checked at a random point."""
     origin = p.objective(np.zeros(size), d)
@@ -97,6 +119,10 @@ def _conic_rows(p, d, size, lo, hi):
         rows.append(np.vstack(ineq))
         rhs.append(np.concatenate(right))
         cones.append(clarabel.NonnegativeConeT(len(rhs[-1])))
+    for base, jac in (_affine_balls(p, d, size) if p.balls is not None else []):
+        rows.append(-jac)
+        rhs.append(base)
+        cones.append(clarabel.SecondOrderConeT(len(base)))
     psd = _affine_cones(p, d, size)
     for base, jac, k in psd:
         rows.append(-jac)
@@ -144,7 +170,11 @@ def _solve_conic(p, d, z0, lo, hi, tol, max_iter):
                            "objective grows without bound")
     z, y = np.asarray(solution.x, dtype=float), np.asarray(solution.z, dtype=float)
     blocks = _by_block(p, z, d, y[equalities:equalities + inequalities], y[:equalities])
-    start = len(b) - sum(len(base) for base, _, _ in psd)
+    balls = [1 + np.size(a) for _, a in p.balls(z, d)] if p.balls is not None else []
+    start = len(b) - sum(len(base) for base, _, _ in psd) - sum(balls)
+    for k in balls:  # the part of a ball's multiplier paired with its argument
+        blocks.append(y[start + 1:start + k])
+        start += k
     for base, _, k in psd:
         blocks.append(_unsvec(y[start:start + len(base)], k))
         start += len(base)

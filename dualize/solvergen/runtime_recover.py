@@ -15,11 +15,36 @@ from dualize.solvergen.runtime_methods import _in_our_words, _start, _walled
 
 
 def _fill_unrecovered(p, x, z, d, dual_value):
-    """The unrecovered variables from the dual's multipliers, else from the primal's LP,
+    """The unrecovered variables: first those whose stationarity row of the dual the conic
+    method priced, then the rest from the dual's multipliers, else from the primal's LP,
     else from minimizing the Lagrangian.
 
-    Returns (None, how they were found) or (the reasons none applied, None).
+    Returns (None, how each was found) or (the reasons none applied, None).
     """
+    how = _fill_by_stationarity(p, x, d)
+    if all(name in how for name in p.unrecovered):
+        return None, how
+    failure, found = _fill_rest(p, x, z, d, dual_value)
+    if failure:
+        return failure, None
+    how.update({name: found for name in p.unrecovered if name not in how})
+    return None, how
+
+
+def _fill_by_stationarity(p, x, d):
+    """x = factor * the multiplier of its stationarity row (see ``Spec.stationary``); the
+    report then certifies x by the duality gap and the violation like any other."""
+    rows = d.get("_row_multipliers") or []
+    how = {}
+    for name, index, factor in p.stationary:
+        if index < len(rows) and rows[index].size and np.all(np.isfinite(rows[index])):
+            _place(p, x, [(name, rows[index].size)], [factor * rows[index]], d)
+            how[name] = "the conic method's multiplier of its stationarity row of the dual " \
+                "(KKT: the dual of the dual is the primal)"
+    return how
+
+
+def _fill_rest(p, x, z, d, dual_value):
     if _fill_by_multipliers(p, x, d, dual_value):
         return None, "the multipliers of the dual's own constraints (KKT: the dual of the " \
             "dual is the primal), certified by the duality gap and the constraint violation"
@@ -59,7 +84,8 @@ def _fill_by_multipliers(p, x, d, dual_value):
     rows = d.get("_row_multipliers")
     if not rows or dual_value is None:
         return False
-    spec = p.unknowns(d) or [(name, None, -np.inf, np.inf) for name in p.unrecovered]
+    spec = p.unknowns(d) or [(name, None, -np.inf, np.inf) for name in p.unrecovered
+                             if name not in x]
     for pairs in (False, True):  # single blocks first: fewer combinations to try
         choices = [_candidates(rows, size, pairs) for _, size, _, _ in spec]
         if not spec or not all(choices) or np.prod([len(c) for c in choices]) > 4096:
@@ -228,9 +254,10 @@ def _primal_report(p, z, d, dual_value):
     if p.unrecovered:
         failure, found = _fill_unrecovered(p, x, z, d, dual_value)
         if failure:
-            reasons = {name: f"{note}; {failure}" for name, note in p.unrecovered.items()}
+            reasons = {name: f"{note}; {failure}" for name, note in p.unrecovered.items()
+                       if name not in x}
         else:
-            how.update({name: found for name in p.unrecovered})
+            how.update(found)
     for name in p.primal_names:
         if name in x and not np.all(np.isfinite(x[name])):
             reasons[name] = "its recovery formula is not finite at these multipliers (a " \

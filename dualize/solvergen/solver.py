@@ -21,7 +21,7 @@ from dualize.render.caution import CAUTION
 from dualize.solvergen.ir_rewrite import Kron, length
 from dualize.solvergen.pynames import literal
 from dualize.solvergen.python_code import python_names
-from dualize.solvergen.solver_conic import conic_plan
+from dualize.solvergen.solver_conic import ball_plan, conic_plan
 from dualize.solvergen.solver_emit import Emitter, Scope, function
 from dualize.solvergen.solver_plan import General, Plan, is_conic, make_plan
 from dualize.solvergen.solver_recover import (
@@ -34,6 +34,8 @@ from dualize.solvergen.solver_recover import (
     rule_text,
     unknowns,
 )
+from dualize.solvergen.solver_stationary import TEXT as STATIONARY_TEXT
+from dualize.solvergen.solver_stationary import stationary_rows
 from dualize.solvergen.solver_text import docstring
 
 RUNTIME = ("runtime", "runtime_methods", "runtime_interior", "runtime_lp", "runtime_conic",
@@ -65,9 +67,12 @@ def render_solver(derivation: Derivation) -> str:
             "cannot generate a solver: the dual has no closed form (the Lagrangian is "
             f"still minimized over {inner})", 2
         )
-    plan = conic_plan(dual) if is_conic(dual) else make_plan(dual)
-    rule = choose(derivation, missing_of(derivation))
-    return _render(derivation, plan, rule, _scope(derivation, plan.auxiliary, rule.auxiliary))
+    plan = conic_plan(dual) if is_conic(dual) else (ball_plan(dual) or make_plan(dual))
+    missing = missing_of(derivation)
+    stationary = stationary_rows(derivation, plan, missing)
+    rule = choose(derivation, {k: v for k, v in missing.items() if k not in stationary})
+    scope = _scope(derivation, plan.auxiliary, rule.auxiliary)
+    return _render(derivation, plan, rule, stationary, scope)
 
 
 def _scope(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...] = (),
@@ -277,6 +282,19 @@ def _cones(emitter: Emitter, plan: Plan) -> str:
     return function(emitter, "def _cones(z, d):", body, used)
 
 
+def _balls(emitter: Emitter, plan: Plan) -> str:
+    """``_balls(z, d)``: (radius, argument) of each 2-norm ball, a second-order cone."""
+    body, used = ["out = []"], set()
+    for radius, argument in plan.balls:
+        rcode, rreads = emitter.code(radius)
+        acode, areads = emitter.code(argument)
+        size, sreads = emitter.size(length(argument.shape))
+        used |= rreads | areads | sreads
+        body.append(f"out.append((_flat({rcode}, 1), _flat({acode}, {size})))")
+    body.append("return out")
+    return function(emitter, "def _balls(z, d):", body, used)
+
+
 def _prepare(emitter: Emitter) -> str:
     """Constants are emitted last-registered last, so each sees the ones it reads."""
     body, reads = [], set()
@@ -309,7 +327,8 @@ def _size_spec(size: object) -> str:
 
 
 def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagrangian: bool,
-          constant_hessian: bool) -> list[tuple[str, str]]:
+          constant_hessian: bool, stationary: dict[str, tuple[int, float]]
+          ) -> list[tuple[str, str]]:
     """The keyword arguments of the module's ``Spec``, as code."""
     problem = derivation.problem
     dual = derivation.dual
@@ -325,6 +344,7 @@ def _spec(derivation: Derivation, method: str, missing: dict[str, str], by_lagra
         ("dims", "DIMS"),
         ("unrecovered", literal(dict(sorted(missing.items())))),
         ("by_lagrangian", repr(by_lagrangian)),
+        ("stationary", literal([(k, i, f) for k, (i, f) in sorted(stationary.items())])),
         ("constant_hessian", repr(constant_hessian)),
         ("caution", literal(CAUTION)),
     ]
@@ -336,7 +356,8 @@ _PRINTED = (("prepare", "prepare"), ("sizes", "dual_sizes"), ("objective", "obje
             ("constraints", "constraints"), ("recover", "recover"), ("primal", "primal"),
             ("unknowns", "unknowns"), ("restricted", "restricted"), ("lagrangian", "lagrangian"),
             ("lagrangian_domain", "lagrangian_domain"), ("cones", "cones"),
-            ("hessian_diagonal", "hessian_diagonal"), ("primal_shapes", "primal_shapes"))
+            ("hessian_diagonal", "hessian_diagonal"), ("primal_shapes", "primal_shapes"),
+            ("balls", "balls"))
 
 
 def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
@@ -351,7 +372,8 @@ def _scalars(derivation: Derivation, auxiliary: tuple[ir.Symbol, ...]) -> str:
                 [kind(s) for s in auxiliary])
 
 
-def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str:
+def _render(derivation: Derivation, plan: Plan, rule: Rule,
+            stationary: dict[str, tuple[int, float]], scope: Scope) -> str:
     from dualize.render.templating import fill
 
     emitter = Emitter(scope)
@@ -367,22 +389,24 @@ def _render(derivation: Derivation, plan: Plan, rule: Rule, scope: Scope) -> str
         _constraints(emitter, plan, symbols),
         _recovery(emitter, derivation),
         _primal_parts(emitter, derivation),
-        unknowns(emitter, derivation),
+        unknowns(emitter, derivation, rule),
         restricted(emitter, derivation, rule),
         lagrangian(emitter, derivation, rule),
         lagrangian_domain(emitter, derivation, rule),
         _cones(emitter, plan),
         _primal_shapes(emitter, derivation),
+        _balls(emitter, plan),
     ]
     functions.insert(0, _prepare(emitter))
     return fill(
         "solver.py.j2",
-        docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule)),
+        docstring=docstring(derivation, plan.method, plan.reason, missing, rule_text(rule),
+                            {name: STATIONARY_TEXT for name in stationary}),
         runtime=runtime_source(),
         declarations=_declarations(derivation, scope),
         dims=literal(sorted(str(s) for s in derivation.problem.dims)),
         scalars=_scalars(derivation, plan.auxiliary),
         functions="\n\n\n".join(functions),
         spec=_spec(derivation, plan.method, missing, rule.kind == "lagrangian",
-                   plan.constant_hessian),
+                   plan.constant_hessian, stationary),
     )

@@ -1,20 +1,23 @@
-"""The plan for a dual with a semidefinite constraint: a conic interior-point method.
+"""The plan for a dual with a semidefinite or second-order cone constraint: a conic
+interior-point method.
 
 Such a dual (maximize a linear or concave quadratic function of vector multipliers
-subject to F(multipliers) >= 0 in the semidefinite order, F affine, and linear
-constraints and bounds) is handed to Clarabel (P. Goulart and Y. Chen, Clarabel: an
-interior-point solver for conic programs with quadratic objectives, 2024), a
-well-kept open conic solver, through its own API; the generated module imports it
-only when its dual needs it.
+subject to F(multipliers) >= 0 in the semidefinite order, F affine, or to 2-norm
+balls ||a(multipliers)|| <= r(multipliers) with a and r affine, which are second-order
+cones, and linear constraints and bounds) is handed to Clarabel (P. Goulart and
+Y. Chen, Clarabel: an interior-point solver for conic programs with quadratic
+objectives, 2024), a well-kept open conic solver, through its own API; the generated
+module imports it only when its dual needs it.
 """
 
 from __future__ import annotations
 
 import sympy
 
-from dualize.duality.result import DualProblem, DualVariable
+from dualize.duality.result import DualConstraint, DualProblem, DualVariable
 from dualize.errors import DualizeError
 from dualize.model import expr as ir
+from dualize.solvergen.calculus import NotDifferentiable, jacobian
 from dualize.solvergen.ir_rewrite import normalize
 from dualize.solvergen.solver_plan import (
     Bound,
@@ -29,6 +32,43 @@ from dualize.solvergen.solver_plan import (
 )
 
 REASON = "the dual has a semidefinite constraint: a conic interior-point method (Clarabel)"
+BALL_REASON = "the dual has a 2-norm ball of affine functions of the multipliers, a " \
+    "second-order cone: a conic interior-point method (Clarabel)"
+
+
+def ball_plan(dual: DualProblem) -> Plan | None:
+    """The conic plan for a dual with a 2-norm ball and no semidefinite constraint, or None
+    when it has no such ball or the conic route does not take it (the smooth methods then
+    take the ball squared)."""
+    if not any(_is_ball(c.lhs, c.relation, c.rhs) for c in dual.constraints):
+        return None
+    try:
+        return conic_plan(dual)
+    except DualizeError:
+        return None
+
+
+def _is_ball(lhs: ir.Expr, relation: str, rhs: ir.Expr) -> bool:
+    return (relation == "<=" and isinstance(lhs, ir.Norm) and lhs.p == "2") or \
+        (relation == ">=" and isinstance(rhs, ir.Norm) and rhs.p == "2")
+
+
+def _ball(constraint: DualConstraint, variables: tuple[ir.Symbol, ...]
+          ) -> tuple[ir.Expr, ir.Expr] | None:
+    """(radius, argument) of a 2-norm ball whose both sides are affine, else None."""
+    lhs, rel, rhs = constraint.lhs, constraint.relation, constraint.rhs
+    if not _is_ball(lhs, rel, rhs):
+        return None
+    norm, radius = (lhs, rhs) if rel == "<=" else (rhs, lhs)
+    assert isinstance(norm, ir.Norm)
+    names = {v.name for v in variables}
+    parts = (normalize(radius), normalize(norm.arg))
+    try:
+        if any(ir.depends_on(jacobian(e, v), names) for e in parts for v in variables):
+            return None
+    except NotDifferentiable:
+        return None
+    return parts
 
 
 def conic_plan(dual: DualProblem) -> Plan:
@@ -49,10 +89,14 @@ def conic_plan(dual: DualProblem) -> Plan:
         raise DualizeError("cannot generate a solver: a dual with a semidefinite constraint "
                            "needs a linear or quadratic objective for the conic route", 2)
     bounds = [b for v in dual.variables for b in _sign_bounds(v)]
-    general, cones = [], []
+    general, cones, balls = [], [], []
     for constraint in dual.constraints:
         if constraint.relation in ("succeq", "preceq"):
             cones.append(_psd_side(constraint.lhs, constraint.relation, constraint.rhs))
+            continue
+        ball = _ball(constraint, variables)
+        if ball is not None:
+            balls.append(ball)
             continue
         for part in expand_ball(constraint):
             bound = as_bound(part, names)
@@ -63,8 +107,9 @@ def conic_plan(dual: DualProblem) -> Plan:
     if not all(g.affine for g in general):
         raise DualizeError("cannot generate a solver: a dual with a semidefinite constraint "
                            "and a nonlinear constraint is beyond the conic route", 2)
-    return Plan("conic", REASON, objective, gradients, tuple(bounds), tuple(general),
-                hessian=hessian, constant_hessian=True, cones=tuple(cones))
+    return Plan("conic", REASON if cones else BALL_REASON, objective, gradients,
+                tuple(bounds), tuple(general), hessian=hessian, constant_hessian=True,
+                cones=tuple(cones), balls=tuple(balls))
 
 
 def _matrix_plan(dual: DualProblem) -> Plan:

@@ -73,6 +73,9 @@ class Plan:
     constant_hessian: bool = False
     cones: tuple[ir.Expr, ...] = ()
     """Matrices that must be positive semidefinite (affine in the multipliers)."""
+    balls: tuple[tuple[ir.Expr, ir.Expr], ...] = ()
+    """(radius, argument) of each 2-norm ball ||argument|| <= radius, both affine in the
+    multipliers: a second-order cone of the conic method."""
 
 
 def _multipliers(dual: DualProblem) -> tuple[ir.Symbol, ...]:

@@ -54,6 +54,8 @@ class Rule:
     reason: str = ""
     """Why the linear program does not apply (rule 2), why neither does (none)."""
     lift: Lift | None = None
+    variables: tuple[str, ...] = ()
+    """The variables it is to find: those without a formula that no earlier rule finds."""
 
     @property
     def auxiliary(self) -> tuple[ir.Symbol, ...]:
@@ -75,18 +77,20 @@ def missing_of(derivation: Derivation) -> dict[str, str]:
 def choose(derivation: Derivation, missing: dict[str, str]) -> Rule:
     """Rule 1 if it applies, else rule 2, else none (see the module doc)."""
     unknown = _unknown(derivation, missing)
+    names = tuple(v.name for v in unknown)
     if not unknown:
         return Rule("nothing", "nothing to recover")
     lift, reason = _linear_program(derivation, unknown)
     if lift is not None:
-        return Rule("linprog", lift=lift)
+        return Rule("linprog", lift=lift, variables=names)
     smooth = _not_smooth(derivation, unknown)
     if not smooth:
-        return Rule("lagrangian", reason)
-    return Rule("none", f"{reason}; {smooth}")
+        return Rule("lagrangian", reason, variables=names)
+    return Rule("none", f"{reason}; {smooth}", variables=names)
 
 
-def _unknown(derivation: Derivation, missing: dict[str, str]) -> list[Variable]:
+def _unknown(derivation: Derivation, missing: dict[str, str] | tuple[str, ...]
+             ) -> list[Variable]:
     return [v for v in derivation.problem.variables if v.name in missing]
 
 
@@ -161,7 +165,7 @@ def restricted(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
         text = rule.reason or "the primal is not a linear program in the unrecovered variables"
         return f"def _restricted(x, d):\n    return {literal(text)}"
     lift = rule.lift
-    unknown = _unknown(derivation, missing_of(derivation))
+    unknown = _unknown(derivation, rule.variables)
     moving = [v.symbol for v in unknown] + list(lift.auxiliary)
     used: set[str] = set()
     body = [f"c = {_jac_row(emitter, lift.objective, moving, used)}", "rows = []"]
@@ -220,10 +224,10 @@ def _free(emitter: Emitter, auxiliary: tuple[ir.Symbol, ...], used: set[str]) ->
     return items
 
 
-def unknowns(emitter: Emitter, derivation: Derivation) -> str:
-    """``_unknowns(d)``: (name, size, lo, hi) of each unrecovered variable."""
+def unknowns(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
+    """``_unknowns(d)``: (name, size, lo, hi) of each variable the rule is to find."""
     used: set[str] = set()
-    unknown = _unknown(derivation, missing_of(derivation))
+    unknown = _unknown(derivation, rule.variables)
     items = _domain_bounds(emitter, unknown, used) if not _beyond_bounds(unknown) else []
     return function(emitter, "def _unknowns(d):", [f"return [{', '.join(items)}]"], used)
 
@@ -282,7 +286,7 @@ def lagrangian(emitter: Emitter, derivation: Derivation, rule: Rule) -> str:
     expr = _lagrangian(derivation)
     code, used = emitter.code(expr)
     pieces = []
-    for var in _unknown(derivation, missing_of(derivation)):
+    for var in _unknown(derivation, rule.variables):
         grad, reads = emitter.code(gradient(expr, var.symbol))
         size, sreads = emitter.size(length(var.symbol.shape))
         used |= reads | sreads
@@ -311,7 +315,7 @@ def lagrangian_domain(emitter: Emitter, derivation: Derivation, rule: Rule) -> s
     head = "def _lagrangian_domain(x, d):"
     if rule.kind != "lagrangian":
         return f"{head}\n    return []"
-    unknown = _unknown(derivation, missing_of(derivation))
+    unknown = _unknown(derivation, rule.variables)
     moving = [v.symbol for v in unknown]
     names = {s.name for s in moving}
     body, used = ["rows = []"], set()

@@ -50,17 +50,21 @@ def _dual_lines(derivation: Derivation) -> list[str]:
     return lines
 
 
-def _recovery_lines(derivation: Derivation, missing: dict[str, str], how: str) -> list[str]:
+def _recovery_lines(derivation: Derivation, missing: dict[str, str], how: str,
+                    found: dict[str, str]) -> list[str]:
     lines = []
     for rec in derivation.recovery:
         if rec.formula is not None:
             lines.append(f"  {rec.variable} = {plain(rec.formula)}")
     for name in sorted(missing):
         lines.append(f"  {name}: no formula ({missing[name]})")
-    if missing and how:
-        lines.extend(textwrap.wrap(f"{', '.join(sorted(missing))}: {how}.", width=86,
-                                   initial_indent="  ", subsequent_indent="    "))
-    if missing:
+    rest = [name for name in sorted(missing) if name not in found]
+    said = [(name, found[name]) for name in sorted(found)]
+    for names, text in [*said, (", ".join(rest), how if rest else "")]:
+        if text:
+            lines.extend(textwrap.wrap(f"{names}: {text}.", width=86,
+                                       initial_indent="  ", subsequent_indent="    "))
+    if rest:
         first = "Before that, each is sought among the multipliers of the dual's own " \
             "constraints (KKT: the dual of the dual is the primal), kept only when the " \
             "duality gap and the violation certify it."
@@ -70,8 +74,9 @@ def _recovery_lines(derivation: Derivation, missing: dict[str, str], how: str) -
 
 
 def docstring(derivation: Derivation, method: str, reason: str, missing: dict[str, str],
-              how: str = "") -> str:
-    """``how`` says how the variables in ``missing`` are found (or why they are not)."""
+              how: str = "", found: dict[str, str] | None = None) -> str:
+    """``how`` says how the variables in ``missing`` are found (or why they are not),
+    ``found`` how those read off the conic method's multipliers are."""
     title = derivation.problem.title or "an optimization problem"
     lines = [
         f"Solver for the Lagrange dual of: {title}.",
@@ -87,7 +92,7 @@ def docstring(derivation: Derivation, method: str, reason: str, missing: dict[st
         *_dual_lines(derivation),
         "",
         "Recovery of the primal solution:",
-        *(_recovery_lines(derivation, missing, how) or ["  (none)"]),
+        *(_recovery_lines(derivation, missing, how, found or {}) or ["  (none)"]),
         "",
         f"Method: {method}, because {reason}.",
         "",
