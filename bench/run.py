@@ -138,7 +138,8 @@ def fitted_exponent(times: dict[int, float]) -> float:
 
 
 def peak_memory() -> dict[str, float]:
-    """Peak resident memory of one `dualize derive` process, and of a bare sympy import."""
+    """Peak resident memory of one `dualize derive` process (cache off: every step is
+    derived, nothing replayed), and of a bare sympy import."""
     probe = ("import resource, sys, runpy; sys.argv = {argv!r}; "
              "exec(compile('try:\\n runpy.run_module(\"dualize\", run_name=\"__main__\")\\n"
              "except SystemExit:\\n pass', 'probe', 'exec')); "
@@ -148,7 +149,7 @@ def peak_memory() -> dict[str, float]:
     for path in sorted(EXAMPLES.glob("*.prob")):
         code = probe.format(argv=["dualize", "derive", str(path)])
         res = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                             cwd=ROOT, check=True)
+                             cwd=ROOT, check=True, env=dict(os.environ, DUALIZE_CACHE="off"))
         worst = max(worst, int(res.stdout.strip().splitlines()[-1]) / 1024)
     base = subprocess.run([sys.executable, "-c", "import resource, sympy; print(resource."
                            "getrusage(resource.RUSAGE_SELF).ru_maxrss)"], capture_output=True,
