@@ -113,19 +113,22 @@ def _text(path: Path) -> str:
         return ""
 
 
-def analyze(problem: Problem, instance: Any | None = None) -> Analysis:
+def analyze(problem: Problem, instance: Any | None = None,
+            deadline: Deadline | None = None) -> Analysis:
     """Convexity, constraint classes, the strong-duality verdict and the lint findings.
 
     ``instance`` (an ``Instance``, or a mapping name -> value) decides Slater's
-    condition on numbers; the numeric evaluator is handed to the analysis here.
+    condition on numbers; the numeric evaluator is handed to the analysis here.  Past
+    ``deadline`` the symbolic Slater search stops between candidate points and the
+    verdict says the time limit was reached.
     """
     from dualize.analysis import analyze as _analyze
 
     if instance is None:
-        return _analyze(problem)
+        return _analyze(problem, deadline=deadline)
     from dualize.numeric.evaluate import evaluate_2d
 
-    return _analyze(problem, instance, evaluate_2d)
+    return _analyze(problem, instance, evaluate_2d, deadline)
 
 
 def lint(paths: Sequence[str | Path], select: Iterable[str] = (), ignore: Iterable[str] = (),
@@ -157,10 +160,11 @@ def derive(source: str | Path | Problem, data: str | None = None,
     from dualize.duality.engine import derive as _derive
 
     problem = load_problem(source, "nothing was derived")
-    derivation = _derive(problem, _budget(time_limit))
+    deadline = _budget(time_limit)
+    derivation = _derive(problem, deadline)
     if not (with_analysis or data is not None):
         return shown(derivation)
-    return shown(derivation, analyze(problem, _read(data, problem)))
+    return shown(derivation, analyze(problem, _read(data, problem), deadline))
 
 
 def _read(data: str | None, problem: Problem) -> Any:

@@ -15,6 +15,7 @@ from __future__ import annotations
 from dualize.analysis.convexity import Convexity, variable_signs
 from dualize.analysis.measured import Measured
 from dualize.analysis.report import Verdict
+from dualize.deadline import Deadline
 from dualize.model import expr as E
 from dualize.model.functions import ArgumentDomain, lookup
 from dualize.model.problem import Problem
@@ -25,9 +26,10 @@ WEAK_ONLY = ("the problem is not convex: weak duality only (the dual optimum is 
 
 
 def strong_duality(problem: Problem, conv: Convexity,
-                   instance: Measured | None = None) -> Verdict:
+                   instance: Measured | None = None, deadline: Deadline | None = None) -> Verdict:
     """The verdict for ``problem`` given its convexity analysis (and, to decide it on
-    numbers, an instance with its evaluator)."""
+    numbers, an instance with its evaluator); past ``deadline`` no further candidate
+    point is tried and the verdict says so."""
     if not problem.constraints and conv.convex is not None:
         return Verdict("guaranteed", "no constraint is dualized: the dual function's only "
                        "value is the primal optimal value itself")
@@ -46,7 +48,7 @@ def strong_duality(problem: Problem, conv: Convexity,
         from dualize.analysis.phase_one import numeric_verdict
 
         return numeric_verdict(problem, frozenset(strict_labels(problem, conv)), instance)
-    return symbolic_verdict(problem, conv)
+    return symbolic_verdict(problem, conv, deadline)
 
 
 def strict_labels(problem: Problem, conv: Convexity) -> tuple[str, ...]:
@@ -77,9 +79,11 @@ def _varies(node: E.Expr) -> bool:
     return bool(E.symbols_of(node, "variable"))
 
 
-def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
+def symbolic_verdict(problem: Problem, conv: Convexity,
+                     deadline: Deadline | None = None) -> Verdict:
     """Refined Slater on symbolic data: a scalar sympy search, then structural points
-    (the origin, large slacks); without one, affine problems hold when feasible."""
+    (the origin, large slacks); without one, affine problems hold when feasible.  Each
+    search runs to its end; past ``deadline`` the next is not started."""
     from dualize.analysis.slack_point import slack_candidate
     from dualize.analysis.slater_symbolic import scalar_search, zero_candidate
 
@@ -87,6 +91,8 @@ def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
                 lambda: zero_candidate(problem, conv, variable_signs(problem)),
                 lambda: slack_candidate(problem, conv))
     for search in searches:
+        if deadline is not None and deadline.expired():
+            return _out_of_time(problem, conv, deadline)
         found = search()
         if found is not None:
             return found
@@ -94,6 +100,16 @@ def symbolic_verdict(problem: Problem, conv: Convexity) -> Verdict:
     if not strict and not caveats:
         return Verdict("guaranteed", AFFINE_REASON)
     return _undecided(problem, strict, caveats)
+
+
+def _out_of_time(problem: Problem, conv: Convexity, deadline: Deadline) -> Verdict:
+    strict = strict_labels(problem, conv)
+    detail = (f"the time limit of {deadline.seconds or 0:g} s was reached before every "
+              "candidate point was tried")
+    return Verdict("unknown", f"Slater's condition was not decided ({detail}); raise "
+                   "--time-limit, or give an instance with --data",
+                   finding="slater-undecided", detail=detail,
+                   label=strict[0] if strict else None)
 
 
 def _undecided(problem: Problem, strict: tuple[str, ...], caveats: tuple[str, ...]) -> Verdict:
