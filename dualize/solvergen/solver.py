@@ -27,6 +27,7 @@ from dualize.solvergen.solver_plan import General, Plan, is_conic, make_plan
 from dualize.solvergen.solver_recover import (
     Rule,
     choose,
+    jacobian_blocks,
     lagrangian,
     lagrangian_domain,
     missing_of,
@@ -220,15 +221,7 @@ def _jacobian_row(emitter: Emitter, general: General, symbols: list[ir.Symbol], 
                   used: set[str], sparse: bool) -> str:
     """The constraint's Jacobian blocks side by side; sparse when asked (a matrix-valued
     constraint of a linear program: kron(I_m, 1_n) kept at m n nonzeros for HiGHS)."""
-    blocks = []
-    for jac, symbol in zip(general.jacobians, symbols, strict=True):
-        code, jreads = emitter.code(jac, sparse=sparse)
-        cols, creads = emitter.size(length(symbol.shape))
-        used |= jreads | creads
-        blocks.append(f"{'_sparse_block' if sparse else '_block'}({code}, {rows}, {cols})")
-    if sparse:
-        return f"scipy.sparse.hstack([{', '.join(blocks)}], format=\"csr\")"
-    return f"np.hstack([{', '.join(blocks)}])"
+    return jacobian_blocks(emitter, list(general.jacobians), symbols, rows, used, sparse)
 
 
 def _recovery(emitter: Emitter, derivation: Derivation) -> str:

@@ -184,9 +184,17 @@ def _jac_blocks(emitter: Emitter, expr: ir.Expr, moving: list[ir.Symbol], rows: 
                 used: set[str], sparse: bool = False) -> str:
     """The Jacobian of ``expr`` in ``moving``, side by side; as a sparse matrix when
     ``sparse`` (the restricted linear program, whose identity blocks are m x m)."""
+    return jacobian_blocks(emitter, [jacobian(expr, s) for s in moving], moving, rows, used,
+                           sparse)
+
+
+def jacobian_blocks(emitter: Emitter, jacobians: list[ir.Expr], symbols: list[ir.Symbol],
+                    rows: str, used: set[str], sparse: bool = False) -> str:
+    """Jacobian blocks (one per symbol) printed side by side, dense or sparse; the names
+    they read are added to ``used``."""
     blocks = []
-    for symbol in moving:
-        code, reads = emitter.code(jacobian(expr, symbol), sparse=sparse)
+    for jac, symbol in zip(jacobians, symbols, strict=True):
+        code, reads = emitter.code(jac, sparse=sparse)
         cols, creads = emitter.size(length(symbol.shape))
         used |= reads | creads
         blocks.append(f"{'_sparse_block' if sparse else '_block'}({code}, {rows}, {cols})")
