@@ -15,6 +15,8 @@ from pathlib import Path
 
 import pytest
 
+from dualize import replay
+
 ROOT = Path(__file__).resolve().parents[2]
 EXAMPLE = ROOT / "examples" / "route_entropy.prob"
 PROBE = """
@@ -105,3 +107,23 @@ def test_errors_are_never_stored(tmp_path: Path) -> None:
         done = _run(["derive", "bad.prob"], cache, tmp_path)
         assert done.returncode == 2 and "bad.prob:" in done.stderr
     assert _stored(cache) == []
+
+
+@pytest.mark.parametrize("name", replay.LIBRARIES)
+def test_library_versions_read_from_the_folder_names_equal_the_metadata(name: str) -> None:
+    # The package metadata (importlib.metadata, the standard library's reader of it) is
+    # the reference; the stamp reads the same version from one directory listing.
+    from importlib.metadata import version
+
+    assert replay._library_version(name) == version(name)
+
+
+def test_dist_info_names_match_as_pip_normalizes_them(tmp_path: Path) -> None:
+    # Project names compare case-insensitively with -, _ and . alike (PEP 503; the wheel
+    # spec writes them with underscores in the folder name).
+    for folder in ("Jinja2-3.1.6.dist-info", "lark_parser-0.9.dist-info", "numpy-2.0.tar.gz"):
+        (tmp_path / folder).mkdir()
+    assert replay._dist_info_version(str(tmp_path), "jinja2") == "3.1.6"
+    assert replay._dist_info_version(str(tmp_path), "lark-parser") == "0.9"
+    assert replay._dist_info_version(str(tmp_path), "numpy") is None
+    assert replay._library_version("no_such_library_here") == "absent"
