@@ -45,6 +45,9 @@ OUTSIDE = frozenset({PACKAGE})
 # several linted files that the generator pastes into one emitted module, so they
 # share private names as one module does.
 ONE_MODULE = ("dualize.solvergen.runtime",)
+# Files written by a library, not by us: jinja2's compilation of the templates
+# (``dualize.render.templating``), loaded as templates and regenerated, never edited.
+GENERATED = ("templates/compiled",)
 
 
 @dataclass(frozen=True)
@@ -66,7 +69,8 @@ def module_name(path: Path, root: Path) -> str:
 
 def modules(root: Path = ROOT) -> dict[str, Path]:
     """Every module of the package by dotted name, in sorted order."""
-    return {module_name(p, root): p for p in sorted(root.rglob("*.py"))}
+    return {module_name(p, root): p for p in sorted(root.rglob("*.py"))
+            if not any(p.relative_to(root).as_posix().startswith(g) for g in GENERATED)}
 
 
 def _absolute(node: ast.ImportFrom, importer: str, is_package: bool) -> str:
