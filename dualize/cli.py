@@ -10,6 +10,7 @@ traceback.  Heavy libraries are imported inside the commands, so ``dualize
 
 from __future__ import annotations
 
+import importlib
 import sys
 
 import click
@@ -76,29 +77,44 @@ def _print_version(ctx: click.Context, param: click.Parameter, value: bool) -> N
         ctx.exit()
 
 
-@click.group(cls=DualizeGroup)
+COMMANDS: dict[str, tuple[str, str]] = {
+    "lint": ("lint", "lint_command"),
+    "derive": ("derive", "derive_command"),
+    "verify": ("verify", "verify_command"),
+    "check": ("check", "check_command"),
+    "check-draft": ("check_draft", "check_draft_command"),
+    "solver": ("solver", "solver_command"),
+    "prices": ("multipliers", "prices_command"),
+    "reform": ("multipliers", "reform_command"),
+    "trade-off": ("trade_off", "trade_off_command"),
+    "serve": ("serve", "serve_command"),
+}
+"""Each command by name: its module in ``dualize.commands`` and the click command there.
+A run imports only the module of the command it runs (the others cost a hundredth of a
+second at every start); ``--help`` imports them all to list them."""
+
+
+class LazyCommands(DualizeGroup):
+    """The program's group, whose commands are imported when they are asked for."""
+
+    def list_commands(self, ctx: click.Context) -> list[str]:
+        return sorted(COMMANDS)
+
+    def get_command(self, ctx: click.Context, cmd_name: str) -> click.Command | None:
+        return _register(cmd_name)
+
+
+@click.group(cls=LazyCommands)
 @click.option("--version", is_flag=True, expose_value=False, is_eager=True,
               callback=_print_version, help="Show the version and exit.")
 def main() -> None:
     """Derive, check and explain Lagrange duals of optimization problems."""
 
 
-def _register() -> None:
-    """The commands, each in its own module (each imports nothing heavy)."""
-    from dualize.commands.check import check_command
-    from dualize.commands.check_draft import check_draft_command
-    from dualize.commands.derive import derive_command
-    from dualize.commands.lint import lint_command
-    from dualize.commands.multipliers import prices_command, reform_command
-    from dualize.commands.serve import serve_command
-    from dualize.commands.solver import solver_command
-    from dualize.commands.trade_off import trade_off_command
-    from dualize.commands.verify import verify_command
-
-    for command in (lint_command, derive_command, verify_command, check_command,
-                    check_draft_command, solver_command, prices_command, reform_command,
-                    trade_off_command, serve_command):
-        main.add_command(command)
-
-
-_register()
+def _register(name: str) -> click.Command | None:
+    """The command ``name`` (each module imports nothing heavy), added to the group once."""
+    if name not in main.commands and name in COMMANDS:
+        module, attribute = COMMANDS[name]
+        main.add_command(getattr(importlib.import_module(f"dualize.commands.{module}"),
+                                 attribute), name)
+    return main.commands.get(name)

@@ -41,7 +41,7 @@ NAMED = [
     ("dualize.render.formats", "render"),
     ("dualize.commands.common", "reports_user_errors"),
     ("dualize.commands.common", "report_error"),
-    ("dualize.cli", "_register"),
+    ("dualize.cli", "COMMANDS"),
     ("dualize.api", "load_problem"),
     ("dualize.api", "ProblemError"),
     ("dualize.deadline", "Deadline"),
