@@ -1,5 +1,5 @@
-"""``python -m dualize`` runs the command line."""
+"""``python -m dualize`` runs the command line (see ``dualize.cli.run``)."""
 
-from dualize.cli import main
+from dualize.cli import run
 
-main()
+run()
